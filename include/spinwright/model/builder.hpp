@@ -1,0 +1,293 @@
+// spinwright — IsingBuilder and QuboBuilder: accumulate terms, merge duplicates, fold
+// self-pairs exactly, drop exact zeros, and validate, then build an immutable-structure model.
+//
+//  * (i, j) and (j, i) are the same pair; repeated terms are summed.
+//  * Ising self-pair J_ii s_i s_i = J_ii goes to the offset; QUBO Q_ii x_i x_i = Q_ii x_i goes
+//    to the unary term.
+//  * Non-finite values, indices beyond the index type (or beyond a declared size), merged
+//    coefficients that no longer fit the value type, and integer models whose energy range
+//    could overflow the 64-bit accumulator are refused. The first refused term is remembered
+//    (its position in the order of add_* calls and its indices) and build() returns it.
+//  * build() never throws on bad data; it returns a Result.
+#ifndef SPINWRIGHT_MODEL_BUILDER_HPP
+#define SPINWRIGHT_MODEL_BUILDER_HPP
+
+#include "../config.hpp"
+#include "../status.hpp"
+#include "form.hpp"
+#include "sparse_model.hpp"
+
+#include <algorithm>    // std::sort
+#include <cstddef>      // std::size_t
+#include <cstdint>      // std::uint64_t
+#include <limits>       // std::numeric_limits
+#include <type_traits>  // std::is_integral_v
+#include <vector>       // std::vector
+
+namespace spinwright {
+namespace detail {
+
+template <class Energy>
+constexpr bool checked_add(Energy& acc, Energy add) noexcept {
+  if constexpr (std::is_integral_v<Energy>) {
+    if ((add > 0 && acc > std::numeric_limits<Energy>::max() - add) ||
+        (add < 0 && acc < std::numeric_limits<Energy>::min() - add)) {
+      return false;
+    }
+    acc += add;
+    return true;
+  } else {
+    acc += add;
+    return is_finite(acc);
+  }
+}
+
+template <class Value, class Energy>
+constexpr bool fits_value(Energy v) noexcept {
+  if constexpr (std::is_integral_v<Value>) {
+    return v >= static_cast<Energy>(std::numeric_limits<Value>::min()) &&
+           v <= static_cast<Energy>(std::numeric_limits<Value>::max());
+  } else {
+    return v >= -static_cast<double>(std::numeric_limits<Value>::max()) &&
+           v <= static_cast<double>(std::numeric_limits<Value>::max());
+  }
+}
+
+template <Form F, class Value, class Index>
+class TermBuilder {
+ public:
+  using model_type = SparseModel<F, Value, Index>;
+  using energy_type = energy_t<Value>;
+
+  // Size grows to the largest index seen plus one.
+  TermBuilder() = default;
+  // Fixed size: indices >= num_spins are refused.
+  explicit TermBuilder(std::uint64_t num_spins) : fixed_(true), n_(num_spins) {
+    if (num_spins > max_spins_v<Index>) {
+      fail(Status::error(StatusCode::index_out_of_range, "declared size exceeds what the index type can address"));
+    }
+  }
+
+  void reserve(std::size_t pair_terms) { pairs_.reserve(pair_terms); }
+
+  // The first refusal so far (ok if none).
+  const Status& status() const noexcept { return status_; }
+  std::uint64_t num_terms() const noexcept { return terms_; }
+  std::uint64_t num_spins() const noexcept { return n_; }
+
+ protected:
+  void add_linear_term(std::uint64_t i, Value v) {
+    const std::uint64_t t = terms_++;
+    if (!status_.ok()) return;
+    if (!check_index(t, i, i) || !check_value(t, i, i, v)) return;
+    if (v == Value{0}) return;
+    linears_.push_back({static_cast<Index>(i), static_cast<Index>(i), v});
+  }
+
+  void add_pair_term(std::uint64_t i, std::uint64_t j, Value v) {
+    const std::uint64_t t = terms_++;
+    if (!status_.ok()) return;
+    if (!check_index(t, i, j) || !check_index(t, j, i) || !check_value(t, i, j, v)) return;
+    if (v == Value{0}) return;
+    if (i == j) {
+      if constexpr (F == Form::ising) {
+        if (!checked_add(offset_, static_cast<energy_type>(v))) {
+          fail(Status::error(StatusCode::energy_overflow, "offset overflows the accumulator").at_term(t, i, j));
+        }
+      } else {
+        linears_.push_back({static_cast<Index>(i), static_cast<Index>(i), v});
+      }
+      return;
+    }
+    if (i > j) std::swap(i, j);
+    pairs_.push_back({static_cast<Index>(i), static_cast<Index>(j), v});
+  }
+
+  void add_offset_term(energy_type c) {
+    const std::uint64_t t = terms_++;
+    if (!status_.ok()) return;
+    if (!is_finite(c)) {
+      fail(Status::error(StatusCode::non_finite_value, "offset is NaN or infinite").at_term(t, 0, 0));
+      return;
+    }
+    if (!checked_add(offset_, c)) {
+      fail(Status::error(StatusCode::energy_overflow, "offset overflows the accumulator").at_term(t, 0, 0));
+    }
+  }
+
+  Result<model_type> build_model() const {
+    if (!status_.ok()) return status_;
+    const std::size_t n = static_cast<std::size_t>(n_);
+
+    // Linear terms, merged in the wide type, then checked against the value type.
+    std::vector<energy_type> lin(n, energy_type{0});
+    for (const auto& term : linears_) {
+      if (!checked_add(lin[term.i], static_cast<energy_type>(term.v))) {
+        return Status::error(StatusCode::value_out_of_range, "merged linear terms overflow the accumulator").at_term(no_term, term.i, term.i);
+      }
+    }
+    std::vector<Value> linear(n);
+    for (std::size_t i = 0; i < n; ++i) {
+      if (!fits_value<Value>(lin[i])) {
+        return Status::error(StatusCode::value_out_of_range, "merged linear terms do not fit the value type").at_term(no_term, i, i);
+      }
+      linear[i] = static_cast<Value>(lin[i]);
+    }
+
+    // Pairs: sort by (i, j), merge duplicates in the wide type, drop exact zeros.
+    std::vector<Triple> sorted = pairs_;
+    std::stable_sort(sorted.begin(), sorted.end(), [](const Triple& a, const Triple& b) {
+      return a.i != b.i ? a.i < b.i : a.j < b.j;
+    });
+    std::vector<Triple> merged;
+    merged.reserve(sorted.size());
+    for (std::size_t k = 0; k < sorted.size();) {
+      std::size_t e = k;
+      energy_type sum{0};
+      while (e < sorted.size() && sorted[e].i == sorted[k].i && sorted[e].j == sorted[k].j) {
+        if (!checked_add(sum, static_cast<energy_type>(sorted[e].v))) {
+          return Status::error(StatusCode::value_out_of_range, "merged pair terms overflow the accumulator").at_term(no_term, sorted[k].i, sorted[k].j);
+        }
+        ++e;
+      }
+      if (!fits_value<Value>(sum)) {
+        return Status::error(StatusCode::value_out_of_range, "merged pair terms do not fit the value type").at_term(no_term, sorted[k].i, sorted[k].j);
+      }
+      if (static_cast<Value>(sum) != Value{0}) merged.push_back({sorted[k].i, sorted[k].j, static_cast<Value>(sum)});
+      k = e;
+    }
+
+    // Energy range: |c| + sum |linear| + sum |pair|.
+    std::uint64_t abs_sum = 0;
+    double bound = 0;
+    if constexpr (std::is_integral_v<Value>) {
+      bool fits = add_bounded(abs_sum, magnitude_u64(offset_), integer_energy_limit);
+      for (const Value v : linear) fits = fits && add_bounded(abs_sum, magnitude_u64(v), integer_energy_limit);
+      for (const auto& p : merged) fits = fits && add_bounded(abs_sum, magnitude_u64(p.v), integer_energy_limit);
+      if (!fits) {
+        return Status::error(StatusCode::energy_overflow,
+                             "the energy range (|offset| + sum of |coefficients|) exceeds 2^61 and could overflow the 64-bit accumulator");
+      }
+      bound = static_cast<double>(abs_sum);
+    } else {
+      bound = abs_double(offset_);
+      for (const Value v : linear) bound += abs_double(v);
+      for (const auto& p : merged) bound += abs_double(p.v);
+      if (!is_finite(bound)) {
+        return Status::error(StatusCode::energy_overflow, "the energy range is not finite in double precision");
+      }
+    }
+
+    // Compressed rows, both directions; rows come out sorted because `merged` is sorted.
+    std::vector<std::size_t> row(n + 1, 0);
+    for (const auto& p : merged) {
+      ++row[p.i + 1];
+      ++row[p.j + 1];
+    }
+    for (std::size_t i = 0; i < n; ++i) row[i + 1] += row[i];
+    std::vector<std::size_t> fill(row.begin(), row.end() - 1);
+    std::vector<Index> nbr(merged.size() * 2);
+    std::vector<Value> val(merged.size() * 2);
+    // Row i receives, in order, first the pairs (k, i) with k < i, then (i, j) with j > i.
+    // Pass 1: entries (p.j <- p.i), visiting pairs sorted by i, fill row p.j with p.i ascending.
+    for (const auto& p : merged) {
+      nbr[fill[p.j]] = p.i;
+      val[fill[p.j]++] = p.v;
+    }
+    // Pass 2: entries (p.i <- p.j); in row i these all exceed every k < i of pass 1.
+    for (const auto& p : merged) {
+      nbr[fill[p.i]] = p.j;
+      val[fill[p.i]++] = p.v;
+    }
+    return ModelAccess::make<F, Value, Index>(std::move(linear), std::move(row), std::move(nbr), std::move(val),
+                                              offset_, abs_sum, bound);
+  }
+
+ private:
+  struct Triple {
+    Index i;
+    Index j;
+    Value v;
+  };
+
+  void fail(Status s) {
+    if (status_.ok()) status_ = s;
+  }
+
+  bool check_index(std::uint64_t t, std::uint64_t i, std::uint64_t other) {
+    if (i >= max_spins_v<Index>) {
+      fail(Status::error(StatusCode::index_out_of_range, "index beyond what the index type can address").at_term(t, i, other));
+      return false;
+    }
+    if (fixed_ && i >= n_) {
+      fail(Status::error(StatusCode::index_out_of_range, "index beyond the declared number of spins").at_term(t, i, other));
+      return false;
+    }
+    if (!fixed_ && i + 1 > n_) n_ = i + 1;
+    return true;
+  }
+
+  bool check_value(std::uint64_t t, std::uint64_t i, std::uint64_t j, Value v) {
+    if (!is_finite(v)) {
+      fail(Status::error(StatusCode::non_finite_value, "coefficient is NaN or infinite").at_term(t, i, j));
+      return false;
+    }
+    return true;
+  }
+
+  bool fixed_ = false;
+  std::uint64_t n_ = 0;
+  std::uint64_t terms_ = 0;
+  energy_type offset_{0};
+  std::vector<Triple> linears_;
+  std::vector<Triple> pairs_;
+  Status status_{};
+};
+
+}  // namespace detail
+
+template <class Value, class Index = std::uint32_t>
+class IsingBuilder : public detail::TermBuilder<Form::ising, Value, Index> {
+  using base = detail::TermBuilder<Form::ising, Value, Index>;
+
+ public:
+  using base::base;
+  IsingBuilder& add_field(std::uint64_t i, Value h) {
+    this->add_linear_term(i, h);
+    return *this;
+  }
+  IsingBuilder& add_coupling(std::uint64_t i, std::uint64_t j, Value J) {
+    this->add_pair_term(i, j, J);
+    return *this;
+  }
+  IsingBuilder& add_offset(energy_t<Value> c) {
+    this->add_offset_term(c);
+    return *this;
+  }
+  Result<IsingModel<Value, Index>> build() const { return this->build_model(); }
+};
+
+template <class Value, class Index = std::uint32_t>
+class QuboBuilder : public detail::TermBuilder<Form::qubo, Value, Index> {
+  using base = detail::TermBuilder<Form::qubo, Value, Index>;
+
+ public:
+  using base::base;
+  QuboBuilder& add_unary(std::uint64_t i, Value q) {
+    this->add_linear_term(i, q);
+    return *this;
+  }
+  QuboBuilder& add_pair(std::uint64_t i, std::uint64_t j, Value q) {
+    this->add_pair_term(i, j, q);
+    return *this;
+  }
+  QuboBuilder& add_offset(energy_t<Value> c) {
+    this->add_offset_term(c);
+    return *this;
+  }
+  Result<QuboModel<Value, Index>> build() const { return this->build_model(); }
+};
+
+}  // namespace spinwright
+
+#endif  // SPINWRIGHT_MODEL_BUILDER_HPP

@@ -1,0 +1,95 @@
+// spinwright — the two forms of a model, the accumulator type for each value type, and a
+// small read-only span (C++17 has no std::span).
+#ifndef SPINWRIGHT_MODEL_FORM_HPP
+#define SPINWRIGHT_MODEL_FORM_HPP
+
+#include "../config.hpp"
+
+#include <cstddef>      // std::size_t
+#include <cstdint>      // std::int64_t, std::uint16_t, std::uint32_t
+#include <limits>       // std::numeric_limits
+#include <type_traits>  // std::is_integral_v, std::conditional_t
+
+namespace spinwright {
+
+// Ising:  E(s) = c + sum_i h_i s_i + sum_{i<j} J_ij s_i s_j,  s_i in {-1,+1}
+// QUBO:   E(x) = c + sum_i Q_ii x_i + sum_{i<j} Q_ij x_i x_j,  x_i in {0,1}
+// Spin +1 is bit 0 and spin -1 is bit 1: x = (1 - s) / 2.
+enum class Form : std::uint8_t { ising, qubo };
+
+template <class Value>
+inline constexpr bool is_value_type_v =
+    std::is_same_v<Value, double> || std::is_same_v<Value, float> ||
+    std::is_same_v<Value, std::int32_t> || std::is_same_v<Value, std::int64_t>;
+
+template <class Index>
+inline constexpr bool is_index_type_v =
+    std::is_same_v<Index, std::uint16_t> || std::is_same_v<Index, std::uint32_t>;
+
+// Energies, local fields and offsets accumulate in a wide type: int64_t for integer models,
+// double for floating ones.
+template <class Value>
+using energy_t = std::conditional_t<std::is_integral_v<Value>, std::int64_t, double>;
+
+// Integer models are refused when c + sum |h| + sum |J| (the bound on |E| and on every
+// local field) exceeds this limit; the margin of 4 keeps every flip delta
+// (at most 2 * |local field| + ...) and every edit representable.
+inline constexpr std::uint64_t integer_energy_limit =
+    static_cast<std::uint64_t>(std::numeric_limits<std::int64_t>::max()) / 4;
+
+// The largest number of spins an index type can address: index values 0 .. max-1, so that
+// max() itself stays free as a sentinel.
+template <class Index>
+inline constexpr std::uint64_t max_spins_v = std::numeric_limits<Index>::max();
+
+template <class T>
+struct Span {
+  const T* ptr = nullptr;
+  std::size_t len = 0;
+  constexpr const T* begin() const noexcept { return ptr; }
+  constexpr const T* end() const noexcept { return ptr + len; }
+  constexpr std::size_t size() const noexcept { return len; }
+  constexpr bool empty() const noexcept { return len == 0; }
+  constexpr const T& operator[](std::size_t k) const noexcept { return ptr[k]; }
+  constexpr const T* data() const noexcept { return ptr; }
+};
+
+namespace detail {
+
+// |v| as an unsigned 64-bit number, exact for every int64_t including the minimum.
+template <class Value>
+constexpr std::uint64_t magnitude_u64(Value v) noexcept {
+  static_assert(std::is_integral_v<Value>, "integer values only");
+  return v < 0 ? std::uint64_t{0} - static_cast<std::uint64_t>(v) : static_cast<std::uint64_t>(v);
+}
+
+// sum += add, false when the result passes `limit` (the sum is then left saturated).
+constexpr bool add_bounded(std::uint64_t& sum, std::uint64_t add, std::uint64_t limit) noexcept {
+  if (add > limit || sum > limit - add) {
+    sum = limit;
+    return false;
+  }
+  sum += add;
+  return true;
+}
+
+template <class Value>
+constexpr double abs_double(Value v) noexcept {
+  const double d = static_cast<double>(v);
+  return d < 0 ? -d : d;
+}
+
+template <class Value>
+constexpr bool is_finite(Value v) noexcept {
+  if constexpr (std::is_floating_point_v<Value>) {
+    // v - v is NaN for both NaN and infinity; no <cmath> needed.
+    return (v - v) == (v - v);
+  } else {
+    return true;
+  }
+}
+
+}  // namespace detail
+}  // namespace spinwright
+
+#endif  // SPINWRIGHT_MODEL_FORM_HPP

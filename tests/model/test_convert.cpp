@@ -1,0 +1,67 @@
+// Exact Ising <-> QUBO conversion, offset included.
+#include <doctest/doctest.h>
+#include <spinwright/spinwright.hpp>
+
+#include <cstdint>
+#include <vector>
+
+#include "support/enumerate.hpp"
+
+using namespace spinwright;
+
+// Worked example: Q_11 = -1, Q_22 = -2, Q_33 = 1, Q_12 = 2, Q_13 = -3, Q_23 = 1 gives
+// h = (3/4, 1/4, 0), J_12 = 1/2, J_13 = -3/4, J_23 = 1/4, c = -1, and the energy table below
+// with the unique minimum -3 at x = 101. Source: the project's reference sheet, section
+// "QUBO <-> Ising", derived by substitution x_i x_j = (1 - s_i - s_j + s_i s_j)/4 and
+// computed in exact rational arithmetic (common practice).
+TEST_CASE("QUBO to Ising: published worked example, every assignment") {
+  QuboBuilder<std::int32_t> qb(3);
+  qb.add_unary(0, -1).add_unary(1, -2).add_unary(2, 1).add_pair(0, 1, 2).add_pair(0, 2, -3).add_pair(1, 2, 1);
+  auto q = qb.build();
+  REQUIRE(q.ok());
+  auto is = ising_from(*q);
+  REQUIRE(is.ok());
+  const auto& m = *is;
+  CHECK(m.field(0) == 0.75);
+  CHECK(m.field(1) == 0.25);
+  CHECK(m.field(2) == 0.0);
+  CHECK(m.coupling(0, 1) == 0.5);
+  CHECK(m.coupling(0, 2) == -0.75);
+  CHECK(m.coupling(1, 2) == 0.25);
+  CHECK(m.offset() == -1.0);
+  // x = 000 .. 111 (x_1 is the most significant bit in the table) and E_Q = E_I.
+  const int table[8] = {0, 1, -2, 0, -1, -3, -1, -2};
+  for (int code = 0; code < 8; ++code) {
+    std::int8_t s[3];
+    for (int k = 0; k < 3; ++k) s[k] = ((code >> (2 - k)) & 1) ? -1 : 1;
+    CHECK(q->energy(s) == table[code]);
+    CHECK(m.energy(s) == static_cast<double>(table[code]));
+  }
+  auto back = qubo_from(m);
+  REQUIRE(back.ok());
+  CHECK(back->unary(0) == -1.0);
+  CHECK(back->pair(0, 2) == -3.0);
+  CHECK(back->offset() == 0.0);
+}
+
+TEST_CASE("Ising to QUBO and back: equal energies on every assignment of random integer models") {
+  Xoshiro256 rng(12345);
+  for (int trial = 0; trial < 50; ++trial) {
+    const std::uint32_t n = 2 + rng.below(9);
+    IsingBuilder<std::int64_t> b(n);
+    for (std::uint32_t i = 0; i < n; ++i) b.add_field(i, static_cast<std::int64_t>(rng.below(21)) - 10);
+    for (int k = 0; k < 20; ++k) b.add_coupling(rng.below(n), rng.below(n), static_cast<std::int64_t>(rng.below(41)) - 20);
+    b.add_offset(static_cast<std::int64_t>(rng.below(100)) - 50);
+    auto m = b.build();
+    REQUIRE(m.ok());
+    auto q = qubo_from(*m);
+    REQUIRE(q.ok());
+    auto back = ising_from(*q);
+    REQUIRE(back.ok());
+    test_support::for_each_assignment(n, [&](const std::int8_t* s) {
+      const auto e = m->energy(s);
+      CHECK(q->energy(s) == e);
+      CHECK(back->energy(s) == static_cast<double>(e));
+    });
+  }
+}
