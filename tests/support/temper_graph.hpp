@@ -1,0 +1,126 @@
+// Test helper for the tempering / tabu / exact tests: small graph families, a tiny reader of
+// the benchmark edge lists (`N M` then 1-based `i j w` lines) and of reference.csv, and model
+// builders for every value type.
+#ifndef SPINWRIGHT_TEST_SUPPORT_TEMPER_GRAPH_HPP
+#define SPINWRIGHT_TEST_SUPPORT_TEMPER_GRAPH_HPP
+
+#include <spinwright/spinwright.hpp>
+
+#include <cstdint>
+#include <fstream>
+#include <sstream>
+#include <string>
+#include <vector>
+
+namespace test_support {
+
+struct Edge {
+  std::uint32_t i;
+  std::uint32_t j;
+  std::int64_t w;
+};
+
+struct Graph {
+  std::uint32_t n = 0;
+  std::vector<Edge> edges;
+  bool ok = false;
+};
+
+// L x L square lattice with periodic boundaries, every bond of weight w.
+inline Graph torus(std::uint32_t L, std::int64_t w) {
+  Graph g;
+  g.n = L * L;
+  for (std::uint32_t r = 0; r < L; ++r) {
+    for (std::uint32_t c = 0; c < L; ++c) {
+      const std::uint32_t i = r * L + c;
+      g.edges.push_back({i, r * L + (c + 1) % L, w});
+      g.edges.push_back({i, ((r + 1) % L) * L + c, w});
+    }
+  }
+  g.ok = true;
+  return g;
+}
+
+inline Graph complete(std::uint32_t n) {
+  Graph g;
+  g.n = n;
+  for (std::uint32_t i = 0; i < n; ++i)
+    for (std::uint32_t j = i + 1; j < n; ++j) g.edges.push_back({i, j, 1});
+  g.ok = true;
+  return g;
+}
+
+inline Graph cycle(std::uint32_t n) {
+  Graph g;
+  g.n = n;
+  for (std::uint32_t i = 0; i < n; ++i) g.edges.push_back({i, (i + 1) % n, 1});
+  g.ok = true;
+  return g;
+}
+
+// Petersen graph: outer 5-cycle 0..4, spokes i -- i+5, inner pentagram 5..9.
+inline Graph petersen() {
+  Graph g;
+  g.n = 10;
+  for (std::uint32_t i = 0; i < 5; ++i) {
+    g.edges.push_back({i, (i + 1) % 5, 1});
+    g.edges.push_back({i, i + 5, 1});
+    g.edges.push_back({5 + i, 5 + (i + 2) % 5, 1});
+  }
+  g.ok = true;
+  return g;
+}
+
+inline Graph read_edge_list(const std::string& path) {
+  Graph g;
+  std::ifstream in(path);
+  if (!in) return g;
+  std::string line;
+  if (!std::getline(in, line)) return g;
+  std::istringstream head(line);
+  std::uint64_t n = 0;
+  std::uint64_t m = 0;
+  if (!(head >> n >> m)) return g;
+  g.n = static_cast<std::uint32_t>(n);
+  for (std::uint64_t k = 0; k < m; ++k) {
+    std::int64_t i = 0;
+    std::int64_t j = 0;
+    std::int64_t w = 0;
+    if (!(in >> i >> j >> w) || i < 1 || j < 1 || static_cast<std::uint64_t>(i) > n || static_cast<std::uint64_t>(j) > n) return g;
+    g.edges.push_back({static_cast<std::uint32_t>(i - 1), static_cast<std::uint32_t>(j - 1), w});
+  }
+  g.ok = true;
+  return g;
+}
+
+// The reference cut of an instance in reference.csv (second-to-last numeric column "cut"),
+// or -1 when the instance is not listed.
+inline std::int64_t reference_cut(const std::string& csv_path, const std::string& instance) {
+  std::ifstream in(csv_path);
+  std::string line;
+  while (std::getline(in, line)) {
+    std::vector<std::string> cols;
+    std::string cell;
+    std::istringstream ls(line);
+    for (int k = 0; k < 5 && std::getline(ls, cell, ','); ++k) cols.push_back(cell);
+    if (cols.size() == 5 && cols[0] == instance) return std::stoll(cols[4]);
+  }
+  return -1;
+}
+
+inline std::string maxcut_path(const std::string& name) {
+  return std::string(SPINWRIGHT_DATA_DIR) + "/maxcut/" + name;
+}
+
+// Max-cut Ising model J_ij = scale * w_ij, h = 0.
+template <class Value, class Index = std::uint32_t>
+spinwright::IsingModel<Value, Index> ising_of(const Graph& g, Value scale = Value{1}) {
+  spinwright::IsingBuilder<Value, Index> b(g.n);
+  for (const auto& e : g.edges) b.add_coupling(e.i, e.j, static_cast<Value>(static_cast<Value>(e.w) * scale));
+  auto built = b.build();
+  return built.value();
+}
+
+}  // namespace test_support
+
+#endif
