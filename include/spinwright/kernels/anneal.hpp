@@ -1,0 +1,278 @@
+// spinwright — simulated annealing: a one-call function anneal() and a stepping object
+// Annealer for embedding (construct once, call step(n) from your own loop, read best()).
+//
+// Generic over every model type (IsingModel / QuboModel, DenseIsingModel / DenseQuboModel,
+// any value type) and over the move generator (moves/move.hpp; default SingleFlip).
+// One sweep makes move.moves_per_sweep(state) attempts at one beta; sweep k of a schedule of
+// S sweeps uses beta(k / (S - 1)); sweeps past the end stay at the final beta.
+//
+// Best state: checked at the end of every sweep; the spins are copied only when the energy
+// at a sweep end is lower than the best so far (O(n) per improvement, nothing otherwise).
+// A lower energy seen only in the middle of a sweep is not kept; polish the result with
+// descent (kernels/descent.hpp) when the last bit matters.
+//
+// Allocation: the constructor allocates (state, best copy, acceptance table, move lists);
+// step(), reset() and warm_start() allocate nothing. run() and solution() allocate the
+// returned Solution's spin vector only.
+#ifndef SPINWRIGHT_KERNELS_ANNEAL_HPP
+#define SPINWRIGHT_KERNELS_ANNEAL_HPP
+
+#include "../config.hpp"
+#include "../control/control.hpp"
+#include "../moves/move.hpp"
+#include "../moves/single_flip.hpp"
+#include "../rng/xoshiro.hpp"
+#include "../state/spin_state.hpp"
+#include "schedule.hpp"
+#include "solution.hpp"
+
+#include <cstddef>      // std::size_t
+#include <cstdint>      // std::int8_t, std::uint64_t
+#include <cstring>      // std::memcpy
+#include <type_traits>  // std::is_constructible_v
+#include <utility>      // std::move
+#include <vector>       // std::vector (allocated at construction only)
+
+namespace spinwright {
+
+struct AnnealParams {
+  std::uint64_t sweeps = 1000;           // schedule length (a Budget's sweeps override it in run())
+  Schedule schedule{};                   // default: geometric over the automatic beta range
+  Acceptance acceptance = Acceptance::metropolis;
+  SiteOrder order = SiteOrder::sequential;  // used by moves constructible from a SiteOrder
+  const std::int8_t* initial = nullptr;  // warm start (n spins, +1/-1); random spins otherwise
+  std::uint64_t progress_every = 0;      // observers' on_progress period in sweeps (0: never)
+  std::size_t table_limit = 4096;        // entries of the integer acceptance table
+};
+
+// The best state found so far, without a copy: valid until the annealer is next stepped.
+template <class Energy>
+struct BestView {
+  const std::int8_t* spins = nullptr;
+  std::size_t size = 0;
+  Energy energy{};
+  std::uint64_t sweep = 0;  // sweeps done when it was found (0: the start state)
+};
+
+template <class Model, class Move = SingleFlip<Model>>
+class Annealer {
+  static_assert(is_move_generator_v<Move, Model>,
+                "Move does not model the move concept: it needs a nested proposal_type and the members "
+                "moves_per_sweep(state), propose(state, rng), delta(state, proposal) and "
+                "apply(state, proposal, delta); see docs/moves.md");
+
+ public:
+  using model_type = Model;
+  using move_type = Move;
+  using state_type = SpinState<Model>;
+  using energy_type = typename Model::energy_type;
+
+  /// Random start state from Xoshiro256::for_restart(seed, restart), or params.initial.
+  Annealer(const Model& model, const AnnealParams& params, std::uint64_t seed, std::uint64_t restart = 0)
+      : Annealer(model, params, default_move(params), seed, restart) {}
+
+  Annealer(const Model& model, const AnnealParams& params, Move move, std::uint64_t seed, std::uint64_t restart = 0)
+      : model_(&model),
+        params_(params),
+        state_(model),
+        move_(std::move(move)),
+        acceptor_(make_acceptor(model, params.acceptance, params.table_limit)),
+        best_spins_(model.num_spins(), 1),
+        schedule_sweeps_(params.sweeps) {
+    schedule_ = params.schedule;
+    if (schedule_.automatic()) {
+      range_ = auto_beta_range(model);
+      schedule_.beta_start = range_.beta_start;
+      schedule_.beta_end = range_.beta_end;
+    } else {
+      range_.beta_start = schedule_.beta_start;
+      range_.beta_end = schedule_.beta_end;
+    }
+    if (params.initial != nullptr) {
+      warm_start(params.initial, seed, restart);
+    } else {
+      reset(seed, restart);
+    }
+  }
+
+  /// Restart: new RNG stream (seed, restart), random spins (params.initial is not reused),
+  /// counters and best cleared. No allocation.
+  void reset(std::uint64_t seed, std::uint64_t restart = 0) {
+    rng_ = Xoshiro256::for_restart(seed, restart);
+    restart_ = restart;
+    state_.randomize(rng_);
+    start_from_state();
+  }
+
+  /// Restart from given spins (+1/-1, size() of them). No allocation.
+  void warm_start(const std::int8_t* spins, std::uint64_t seed, std::uint64_t restart = 0) {
+    rng_ = Xoshiro256::for_restart(seed, restart);
+    restart_ = restart;
+    state_.set_spins(spins);
+    start_from_state();
+  }
+
+  /// Performs n sweeps. No allocation.
+  void step(std::uint64_t n_sweeps = 1) {
+    for (std::uint64_t k = 0; k < n_sweeps; ++k) sweep_once();
+  }
+
+  /// Runs until the budget ends (its sweeps, or params.sweeps when 0, span the schedule),
+  /// honouring the stop token and deadline once per sweep and the target at each sweep end.
+  template <class Observer>
+  Solution<energy_type> run(const Budget& budget, Observer& observer) {
+    const std::uint64_t limit = budget.sweeps != 0 ? budget.sweeps : params_.sweeps;
+    schedule_sweeps_ = limit;
+    prime_beta();
+    BudgetGuard guard(budget);
+    guard.start();
+    StopReason why = StopReason::budget_exhausted;
+    const std::uint64_t first = sweeps_;
+    while (!guard.should_stop(sweeps_ - first, limit, static_cast<double>(best_energy_), why)) {
+      const bool improved = sweep_once();
+      if (improved) notify_improvement(observer, sweeps_, static_cast<double>(best_energy_));
+      if (params_.progress_every != 0 && sweeps_ % params_.progress_every == 0) {
+        notify_progress(observer, sweeps_, static_cast<double>(best_energy_));
+      }
+    }
+    Solution<energy_type> s = solution();
+    s.reason = why;
+    s.seconds = guard.elapsed();
+    return s;
+  }
+  Solution<energy_type> run(const Budget& budget = Budget{}) {
+    NoObserver none;
+    return run(budget, none);
+  }
+
+  BestView<energy_type> best() const noexcept {
+    return {best_spins_.data(), best_spins_.size(), best_energy_, best_sweep_};
+  }
+  /// The best state as a Solution (allocates its spin vector); the energy is recomputed from
+  /// the model, so floating models report no accumulated rounding.
+  Solution<energy_type> solution() const {
+    Solution<energy_type> s;
+    s.spins.assign(best_spins_.begin(), best_spins_.end());
+    s.energy = model_->energy(best_spins_.data());
+    s.sweeps = sweeps_;
+    s.attempted = attempted_;
+    s.accepted = accepted_;
+    s.restart = restart_;
+    return s;
+  }
+
+  const state_type& state() const noexcept { return state_; }
+  const Model& model() const noexcept { return *model_; }
+  Move& move() noexcept { return move_; }
+  const Move& move() const noexcept { return move_; }
+  std::uint64_t sweeps_done() const noexcept { return sweeps_; }
+  std::uint64_t attempted() const noexcept { return attempted_; }
+  std::uint64_t accepted() const noexcept { return accepted_; }
+  /// Beta of the next sweep.
+  double beta() const noexcept { return beta_at_sweep(sweeps_); }
+  /// The schedule in use (automatic ranges filled in).
+  const Schedule& schedule() const noexcept { return schedule_; }
+  const BetaRange& beta_range() const noexcept { return range_; }
+  /// Change the schedule length used by step() (run() sets it from its budget).
+  void set_schedule_sweeps(std::uint64_t s) noexcept { schedule_sweeps_ = s; }
+
+ private:
+  static Move default_move(const AnnealParams& params) {
+    if constexpr (std::is_constructible_v<Move, SiteOrder>) {
+      return Move(params.order);
+    } else {
+      return Move{};
+    }
+  }
+
+  void start_from_state() {
+    detail::move_prepare(move_, state_);
+    std::memcpy(best_spins_.data(), state_.spins(), best_spins_.size());
+    best_energy_ = state_.energy();
+    best_sweep_ = 0;
+    sweeps_ = attempted_ = accepted_ = 0;
+    prime_beta();
+  }
+
+  void prime_beta() noexcept { acceptor_.set_beta(beta_at_sweep(sweeps_)); }
+
+  double beta_at_sweep(std::uint64_t k) const noexcept {
+    const double f = schedule_sweeps_ > 1 ? static_cast<double>(k) / static_cast<double>(schedule_sweeps_ - 1) : 1.0;
+    return schedule_.beta_at(f);
+  }
+
+  // One sweep; true when it ended at a new best.
+  bool sweep_once() {
+    const double beta = beta_at_sweep(sweeps_);
+    if (beta != acceptor_.beta()) acceptor_.set_beta(beta);
+    Xoshiro256 rng = rng_;  // a local copy stays in registers across the spin writes
+    detail::move_begin_sweep(move_, state_, rng);
+    const std::size_t m = move_.moves_per_sweep(state_);
+    std::uint64_t accepted = 0;
+    for (std::size_t k = 0; k < m; ++k) {
+      const auto p = move_.propose(state_, rng);
+      const energy_type d = move_.delta(state_, p);
+      if (acceptor_.accept(d, rng)) {
+        move_.apply(state_, p, d);
+        ++accepted;
+      }
+    }
+    rng_ = rng;
+    attempted_ += m;
+    accepted_ += accepted;
+    ++sweeps_;
+    if (state_.energy() < best_energy_) {
+      std::memcpy(best_spins_.data(), state_.spins(), best_spins_.size());
+      best_energy_ = state_.energy();
+      best_sweep_ = sweeps_;
+      return true;
+    }
+    return false;
+  }
+
+  const Model* model_;
+  AnnealParams params_;
+  state_type state_;
+  Move move_;
+  Acceptor<energy_type> acceptor_;
+  Schedule schedule_{};
+  BetaRange range_{};
+  Xoshiro256 rng_{};
+  std::vector<std::int8_t> best_spins_;
+  energy_type best_energy_{};
+  std::uint64_t best_sweep_ = 0;
+  std::uint64_t sweeps_ = 0;
+  std::uint64_t attempted_ = 0;
+  std::uint64_t accepted_ = 0;
+  std::uint64_t schedule_sweeps_ = 0;
+  std::uint64_t restart_ = 0;
+};
+
+/// One restart of annealing with the default single-flip move.
+template <class Model>
+Solution<typename Model::energy_type> anneal(const Model& model, const AnnealParams& params, std::uint64_t seed,
+                                             std::uint64_t restart = 0, const Budget& budget = Budget{}) {
+  Annealer<Model> a(model, params, seed, restart);
+  return a.run(budget);
+}
+
+/// The same with an observer (on_improvement / on_progress, see control/control.hpp).
+template <class Model, class Observer>
+Solution<typename Model::energy_type> anneal(const Model& model, const AnnealParams& params, std::uint64_t seed,
+                                             std::uint64_t restart, const Budget& budget, Observer& observer) {
+  Annealer<Model> a(model, params, seed, restart);
+  return a.run(budget, observer);
+}
+
+/// One restart with a user move generator.
+template <class Model, class Move>
+Solution<typename Model::energy_type> anneal_with(const Model& model, const AnnealParams& params, Move move,
+                                                  std::uint64_t seed, std::uint64_t restart = 0,
+                                                  const Budget& budget = Budget{}) {
+  Annealer<Model, Move> a(model, params, std::move(move), seed, restart);
+  return a.run(budget);
+}
+
+}  // namespace spinwright
+
+#endif  // SPINWRIGHT_KERNELS_ANNEAL_HPP

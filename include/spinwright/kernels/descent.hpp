@@ -1,0 +1,247 @@
+// spinwright — descent to a local minimum: steepest (best improving move of the whole
+// neighbourhood each time) or first improvement (scan the neighbourhood cyclically, take any
+// improving move). Usable alone, from random or given spins, or to polish another kernel's
+// Solution. A one-call function descend() / polish() and a stepping object Descender.
+//
+// Generic over the model and over any enumerable move (moves/move.hpp): SingleFlip by
+// default; Exchange and GroupFlip work too. "Local minimum" is with respect to that move's
+// neighbourhood. One pass = neighbourhood_size(state) evaluated moves; a Solution's `sweeps`
+// counts passes. Descent that reaches a local minimum ends with StopReason::budget_exhausted.
+//
+// Floating models: a move counts as improving when its delta is below -tolerance, where
+// tolerance = 1e-12 * (1 + energy bound), so rounding in the tracked local fields can never
+// make two moves undo each other forever.
+//
+// Allocation: the constructor allocates; step(), reset() and warm_start() do not.
+#ifndef SPINWRIGHT_KERNELS_DESCENT_HPP
+#define SPINWRIGHT_KERNELS_DESCENT_HPP
+
+#include "../config.hpp"
+#include "../control/control.hpp"
+#include "../moves/move.hpp"
+#include "../moves/single_flip.hpp"
+#include "../rng/xoshiro.hpp"
+#include "../state/spin_state.hpp"
+#include "solution.hpp"
+
+#include <cstddef>      // std::size_t
+#include <cstdint>      // std::int8_t, std::uint64_t, std::uint8_t
+#include <limits>       // std::numeric_limits
+#include <type_traits>  // std::is_integral_v
+#include <utility>      // std::move
+
+namespace spinwright {
+
+enum class DescentRule : std::uint8_t {
+  steepest,           // the most improving move of the neighbourhood, O(neighbourhood) per move
+  first_improvement,  // the next improving move in cyclic order
+};
+
+struct DescentParams {
+  DescentRule rule = DescentRule::first_improvement;
+  const std::int8_t* initial = nullptr;  // start spins (+1/-1); random from (seed, restart) otherwise
+};
+
+template <class Model, class Move = SingleFlip<Model>>
+class Descender {
+  static_assert(is_enumerable_move_v<Move, Model>,
+                "Move cannot drive descent: it needs a nested proposal_type and the members "
+                "delta(state, proposal), apply(state, proposal, delta), neighbourhood_size(state) and "
+                "proposal_at(state, k); see docs/moves.md");
+
+ public:
+  using model_type = Model;
+  using move_type = Move;
+  using state_type = SpinState<Model>;
+  using energy_type = typename Model::energy_type;
+
+  Descender(const Model& model, const DescentParams& params, std::uint64_t seed, std::uint64_t restart = 0)
+      : Descender(model, params, Move{}, seed, restart) {}
+
+  Descender(const Model& model, const DescentParams& params, Move move, std::uint64_t seed, std::uint64_t restart = 0)
+      : model_(&model), rule_(params.rule), state_(model), move_(std::move(move)) {
+    if constexpr (std::is_integral_v<energy_type>) {
+      tolerance_ = 0;
+    } else {
+      tolerance_ = 1e-12 * (1 + model.energy_bound());
+    }
+    if (params.initial != nullptr) {
+      warm_start(params.initial, restart);
+    } else {
+      reset(seed, restart);
+    }
+  }
+
+  /// Random spins from Xoshiro256::for_restart(seed, restart). No allocation.
+  void reset(std::uint64_t seed, std::uint64_t restart = 0) {
+    Xoshiro256 rng = Xoshiro256::for_restart(seed, restart);
+    state_.randomize(rng);
+    restart_ = restart;
+    start();
+  }
+
+  /// Start from given spins. No allocation (beyond a move's first prepare()).
+  void warm_start(const std::int8_t* spins, std::uint64_t restart = 0) {
+    state_.set_spins(spins);
+    restart_ = restart;
+    start();
+  }
+
+  /// Up to `passes` passes over the neighbourhood; returns the improving moves made.
+  /// Stops early at a local minimum (done() is then true). No allocation.
+  std::uint64_t step(std::uint64_t passes = 1) {
+    std::uint64_t moves = 0;
+    for (std::uint64_t p = 0; p < passes && !done_; ++p) moves += pass();
+    return moves;
+  }
+
+  /// Runs to a local minimum or until the budget ends (budget sweeps = passes; 0 = no limit).
+  template <class Observer>
+  Solution<energy_type> run(const Budget& budget, Observer& observer) {
+    const std::uint64_t limit = budget.sweeps != 0 ? budget.sweeps : std::numeric_limits<std::uint64_t>::max();
+    BudgetGuard guard(budget);
+    guard.start();
+    StopReason why = StopReason::budget_exhausted;
+    const std::uint64_t first = passes_;
+    while (!done_ && !guard.should_stop(passes_ - first, limit, static_cast<double>(state_.energy()), why)) {
+      if (pass() != 0) notify_improvement(observer, passes_, static_cast<double>(state_.energy()));
+    }
+    if (done_ && budget.has_target && static_cast<double>(state_.energy()) <= budget.target) why = StopReason::target_reached;
+    Solution<energy_type> s = solution();
+    s.reason = why;
+    s.seconds = guard.elapsed();
+    return s;
+  }
+  Solution<energy_type> run(const Budget& budget = Budget{}) {
+    NoObserver none;
+    return run(budget, none);
+  }
+
+  /// True once a whole neighbourhood has been seen without an improving move.
+  bool done() const noexcept { return done_; }
+  const state_type& state() const noexcept { return state_; }
+  energy_type energy() const noexcept { return state_.energy(); }
+  Move& move() noexcept { return move_; }
+  std::uint64_t passes() const noexcept { return passes_; }
+  std::uint64_t attempted() const noexcept { return attempted_; }
+  std::uint64_t accepted() const noexcept { return accepted_; }
+
+  /// The current state (descent never goes up, so it is the best) as a Solution; allocates.
+  Solution<energy_type> solution() const {
+    Solution<energy_type> s;
+    s.spins.assign(state_.spins(), state_.spins() + state_.size());
+    s.energy = model_->energy(state_.spins());
+    s.sweeps = passes_;
+    s.attempted = attempted_;
+    s.accepted = accepted_;
+    s.restart = restart_;
+    return s;
+  }
+
+ private:
+  void start() {
+    detail::move_prepare(move_, state_);
+    cursor_ = 0;
+    since_improvement_ = 0;
+    passes_ = attempted_ = accepted_ = 0;
+    done_ = false;
+  }
+
+  bool improving(energy_type d) const noexcept {
+    if constexpr (std::is_integral_v<energy_type>) {
+      return d < 0;
+    } else {
+      return d < -tolerance_;
+    }
+  }
+
+  std::uint64_t pass() {
+    const std::size_t size = move_.neighbourhood_size(state_);
+    ++passes_;
+    if (size == 0) {
+      done_ = true;
+      return 0;
+    }
+    if (rule_ == DescentRule::steepest) {
+      std::size_t best_k = 0;
+      energy_type best_d{};
+      for (std::size_t k = 0; k < size; ++k) {
+        const energy_type d = move_.delta(state_, move_.proposal_at(state_, k));
+        if (k == 0 || d < best_d) {
+          best_d = d;
+          best_k = k;
+        }
+      }
+      attempted_ += size;
+      if (!improving(best_d)) {
+        done_ = true;
+        return 0;
+      }
+      move_.apply(state_, move_.proposal_at(state_, best_k), best_d);
+      ++accepted_;
+      return 1;
+    }
+    std::uint64_t moves = 0;
+    for (std::size_t e = 0; e < size; ++e) {
+      if (cursor_ >= size) cursor_ = 0;
+      const auto p = move_.proposal_at(state_, cursor_);
+      const energy_type d = move_.delta(state_, p);
+      ++attempted_;
+      ++cursor_;
+      if (improving(d)) {
+        move_.apply(state_, p, d);
+        ++moves;
+        since_improvement_ = 0;
+      } else if (++since_improvement_ >= size) {
+        done_ = true;
+        break;
+      }
+    }
+    accepted_ += moves;
+    return moves;
+  }
+
+  const Model* model_;
+  DescentRule rule_;
+  state_type state_;
+  Move move_;
+  double tolerance_ = 0;
+  std::size_t cursor_ = 0;
+  std::size_t since_improvement_ = 0;
+  std::uint64_t passes_ = 0;
+  std::uint64_t attempted_ = 0;
+  std::uint64_t accepted_ = 0;
+  std::uint64_t restart_ = 0;
+  bool done_ = false;
+};
+
+/// Descent from random spins (seed, restart) or params.initial, to a local minimum.
+template <class Model>
+Solution<typename Model::energy_type> descend(const Model& model, const DescentParams& params, std::uint64_t seed,
+                                              std::uint64_t restart = 0, const Budget& budget = Budget{}) {
+  Descender<Model> d(model, params, seed, restart);
+  return d.run(budget);
+}
+
+/// Single-flip descent from another kernel's Solution: never raises the energy. The counters
+/// (sweeps, attempted, accepted, seconds) of the descent are added to the input's.
+template <class Model>
+Solution<typename Model::energy_type> polish(const Model& model, const Solution<typename Model::energy_type>& from,
+                                             DescentRule rule = DescentRule::first_improvement) {
+  SPINWRIGHT_ASSERT(from.spins.size() == model.num_spins(), "the solution belongs to another model");
+  DescentParams params;
+  params.rule = rule;
+  params.initial = from.spins.data();
+  Descender<Model> d(model, params, 0, from.restart);
+  Solution<typename Model::energy_type> s = d.run();
+  s.sweeps += from.sweeps;
+  s.attempted += from.attempted;
+  s.accepted += from.accepted;
+  s.seconds += from.seconds;
+  s.reason = from.reason;
+  return s;
+}
+
+}  // namespace spinwright
+
+#endif  // SPINWRIGHT_KERNELS_DESCENT_HPP

@@ -1,0 +1,307 @@
+// spinwright — temperature schedules in inverse temperature beta, the automatic beta range
+// derived from a model's coefficients, and the acceptance rules (Metropolis, heat-bath)
+// shared by the sampling kernels.
+//
+// Acceptance without an exponential per attempt:
+//  * integer models: at each change of beta a table of 53-bit thresholds is filled,
+//    indexed by |delta| >> shift (shift = the power of two that divides every possible
+//    delta), using one exp() and then repeated multiplication; an attempt draws one 64-bit
+//    number only when its threshold is neither 0 nor 2^53. Deltas beyond the bounded table
+//    fall back to the log-uniform comparison below.
+//  * floating models (and the integer fallback): Metropolis accepts delta > 0 when
+//    beta * delta < -log(u), u uniform in (0, 1]; heat-bath accepts when
+//    beta * delta < log(1/u - 1). When |beta * delta| exceeds 53 ln 2 the outcome is decided
+//    without a draw: no u of 53 bits could change it (u >= 2^-53). The decision to draw
+//    depends only on (beta, delta), so a seed fully determines a run.
+#ifndef SPINWRIGHT_KERNELS_SCHEDULE_HPP
+#define SPINWRIGHT_KERNELS_SCHEDULE_HPP
+
+#include "../config.hpp"
+#include "../model/form.hpp"
+#include "../rng/xoshiro.hpp"
+
+#include <cmath>        // std::exp, std::log, std::pow, std::sqrt
+#include <cstddef>      // std::size_t
+#include <cstdint>      // std::uint64_t, std::uint8_t
+#include <type_traits>  // std::is_integral_v
+#include <vector>       // std::vector (threshold table, sized at construction)
+
+namespace spinwright {
+
+// How beta moves from beta_start to beta_end over the schedule, as a function of the sweep
+// fraction f in [0, 1] (sweep k of S has f = k / (S - 1)).
+enum class ScheduleShape : std::uint8_t {
+  geometric,  // beta = beta_start * (beta_end / beta_start)^f
+  linear,     // beta = beta_start + (beta_end - beta_start) f
+  custom,     // beta = user function (f)
+};
+
+// A schedule. With beta_start and beta_end both 0 (the default) the kernel derives the range
+// from the model (auto_beta_range). A custom function is called once per sweep, never per
+// attempt; it and its context must outlive the kernel that uses the schedule.
+struct Schedule {
+  ScheduleShape shape = ScheduleShape::geometric;
+  double beta_start = 0;
+  double beta_end = 0;
+  double (*function)(double fraction, const void* context) = nullptr;
+  const void* context = nullptr;
+
+  static constexpr Schedule geometric(double b0, double b1) noexcept {
+    return {ScheduleShape::geometric, b0, b1, nullptr, nullptr};
+  }
+  static constexpr Schedule linear(double b0, double b1) noexcept {
+    return {ScheduleShape::linear, b0, b1, nullptr, nullptr};
+  }
+  // Fixed temperature: sampling at beta for the whole run.
+  static constexpr Schedule constant(double beta) noexcept {
+    return {ScheduleShape::linear, beta, beta, nullptr, nullptr};
+  }
+  // Any callable `double f(double fraction)`, held by address: it must outlive the kernel.
+  template <class Fn>
+  static Schedule from(const Fn& fn) noexcept {
+    Schedule s;
+    s.shape = ScheduleShape::custom;
+    s.function = [](double fraction, const void* ctx) { return (*static_cast<const Fn*>(ctx))(fraction); };
+    s.context = &fn;
+    return s;
+  }
+
+  // True when the kernel must fill in beta_start / beta_end from the model.
+  constexpr bool automatic() const noexcept {
+    return shape != ScheduleShape::custom && beta_start == 0 && beta_end == 0;
+  }
+
+  double beta_at(double fraction) const noexcept {
+    if (fraction < 0) fraction = 0;
+    if (fraction > 1) fraction = 1;
+    switch (shape) {
+      case ScheduleShape::geometric:
+        if (beta_start <= 0 || beta_end <= 0) return beta_start + (beta_end - beta_start) * fraction;
+        return beta_start * std::pow(beta_end / beta_start, fraction);
+      case ScheduleShape::linear: return beta_start + (beta_end - beta_start) * fraction;
+      case ScheduleShape::custom: return function(fraction, context);
+    }
+    return beta_end;
+  }
+};
+
+// The automatic range and the two delta scales it came from.
+struct BetaRange {
+  double beta_start = 0;
+  double beta_end = 0;
+  double hot_delta = 0;   // typical |delta| of a flip at a random state
+  double cold_delta = 0;  // smallest non-zero |delta| scale
+};
+
+// Rule (see docs/moves.md, "automatic beta range"):
+//  hot_delta  = root mean square, over spins, of the RMS flip delta at a uniformly random
+//               state: Ising 2 sqrt(h_i^2 + sum_j J_ij^2); QUBO sqrt((Q_ii + sum_j Q_ij/2)^2 +
+//               sum_j Q_ij^2 / 4);
+//  cold_delta = the smallest non-zero coefficient magnitude, times 2 for Ising;
+//  beta_start = ln 2 / hot_delta      (a typical uphill flip is accepted with probability 1/2),
+//  beta_end   = ln 1000 / cold_delta  (the smallest uphill step is accepted with probability 1e-3).
+// A model with no non-zero coefficient gets beta 1 .. 1.
+template <class Model>
+BetaRange auto_beta_range(const Model& model) {
+  using index_type = typename Model::index_type;
+  using value_type = typename Model::value_type;
+  const std::size_t n = model.num_spins();
+  double sum_sq = 0;
+  double smallest = 0;
+  auto see = [&smallest](double a) {
+    if (a > 0 && (smallest == 0 || a < smallest)) smallest = a;
+  };
+  for (std::size_t i = 0; i < n; ++i) {
+    const auto ii = static_cast<index_type>(i);
+    const double lin = static_cast<double>(model.linear(ii));
+    see(lin < 0 ? -lin : lin);
+    double pair_sq = 0;
+    double pair_sum = 0;
+    model.for_each_neighbour(ii, [&](index_type j, value_type v) {
+      if (j == ii) return;
+      const double d = static_cast<double>(v);
+      pair_sq += d * d;
+      pair_sum += d;
+      see(d < 0 ? -d : d);
+    });
+    if constexpr (Model::form == Form::ising) {
+      sum_sq += 4 * (lin * lin + pair_sq);
+    } else {
+      const double mean = lin + pair_sum / 2;
+      sum_sq += mean * mean + pair_sq / 4;
+    }
+  }
+  BetaRange r;
+  if (n == 0 || smallest == 0 || sum_sq == 0) {
+    r.beta_start = r.beta_end = 1;
+    return r;
+  }
+  r.hot_delta = std::sqrt(sum_sq / static_cast<double>(n));
+  r.cold_delta = (Model::form == Form::ising ? 2 : 1) * smallest;
+  r.beta_start = 0.69314718055994531 / r.hot_delta;
+  r.beta_end = 6.9077552789821371 / r.cold_delta;
+  if (r.beta_end < r.beta_start) r.beta_end = r.beta_start;
+  return r;
+}
+
+enum class Acceptance : std::uint8_t {
+  metropolis,  // min(1, exp(-beta delta))
+  heat_bath,   // 1 / (1 + exp(beta delta))  (Glauber)
+};
+
+namespace detail {
+
+// Power of two that divides every flip delta of an integer model: the gcd's trailing zeros,
+// plus one for Ising (delta = -2 s_i f_i). Returns the shift.
+template <class Model>
+unsigned delta_shift(const Model& model) {
+  using index_type = typename Model::index_type;
+  using value_type = typename Model::value_type;
+  std::uint64_t bits = 0;  // OR of every magnitude: its lowest set bit is the common power of 2
+  for (std::size_t i = 0; i < model.num_spins(); ++i) {
+    const auto ii = static_cast<index_type>(i);
+    bits |= magnitude_u64(model.linear(ii));
+    model.for_each_neighbour(ii, [&bits](index_type, value_type v) { bits |= magnitude_u64(v); });
+  }
+  unsigned shift = Model::form == Form::ising ? 1 : 0;
+  if (bits == 0) return shift;
+  while ((bits & 1) == 0) {
+    bits >>= 1;
+    ++shift;
+  }
+  return shift;
+}
+
+// Largest possible |delta| of one flip, in delta units (saturating).
+template <class Model>
+std::uint64_t max_flip_delta(const Model& model) {
+  using index_type = typename Model::index_type;
+  using value_type = typename Model::value_type;
+  std::uint64_t best = 0;
+  for (std::size_t i = 0; i < model.num_spins(); ++i) {
+    const auto ii = static_cast<index_type>(i);
+    std::uint64_t s = magnitude_u64(model.linear(ii));
+    model.for_each_neighbour(ii, [&s](index_type, value_type v) { add_bounded(s, magnitude_u64(v), integer_energy_limit); });
+    if (s > best) best = s;
+  }
+  return Model::form == Form::ising ? 2 * best : best;
+}
+
+}  // namespace detail
+
+// 53 ln 2: beyond this |beta * delta| no 53-bit uniform can change an acceptance decision.
+inline constexpr double acceptance_cutoff = 36.736800569677101;
+
+// Decides acceptance of a move with energy change `delta` at the current beta.
+// Construct once per kernel (the table is allocated then); set_beta() allocates nothing.
+template <class Energy>
+class Acceptor {
+ public:
+  using energy_type = Energy;
+  static constexpr bool integer = std::is_integral_v<Energy>;
+  static constexpr std::size_t default_table_limit = 4096;
+
+  Acceptor() = default;
+
+  // `shift` and `max_delta` from the model (see make_acceptor); table_limit bounds the table.
+  Acceptor(Acceptance rule, unsigned shift, std::uint64_t max_delta, std::size_t table_limit = default_table_limit)
+      : rule_(rule), shift_(shift) {
+    if constexpr (integer) {
+      std::uint64_t entries = (max_delta >> shift) + 1;
+      if (entries > table_limit) entries = table_limit;
+      if (entries < 2) entries = 2;
+      table_.assign(static_cast<std::size_t>(entries), 0);
+    }
+  }
+
+  Acceptance rule() const noexcept { return rule_; }
+  double beta() const noexcept { return beta_; }
+  std::size_t table_size() const noexcept { return table_.size(); }
+  std::size_t table_used() const noexcept { return used_; }
+
+  // O(entries with a non-zero threshold); one exp() per call.
+  void set_beta(double beta) noexcept {
+    SPINWRIGHT_ASSERT(beta >= 0 && beta - beta == 0, "beta must be finite and >= 0");
+    beta_ = beta;
+    if constexpr (integer) {
+      const double step = static_cast<double>(std::uint64_t{1} << shift_);
+      const double p = std::exp(-beta * step);  // acceptance ratio of one table step
+      const std::size_t size = table_.size();
+      double pk = 1;                             // p^k
+      std::size_t k = 0;
+      for (; k < size; ++k) {
+        const double prob = rule_ == Acceptance::metropolis ? pk : pk / (1 + pk);
+        const double t = prob * two53;
+        if (t < 1) break;
+        table_[k] = static_cast<std::uint64_t>(t);
+        pk *= p;
+      }
+      used_ = k;
+      overflow_ = (k == size);
+      for (std::size_t z = k; z < size && table_[z] != 0; ++z) table_[z] = 0;
+    }
+  }
+
+  bool accept(Energy delta, Xoshiro256& rng) const noexcept {
+    if constexpr (integer) {
+      if (rule_ == Acceptance::metropolis) {
+        if (delta <= 0) return true;
+        const auto k = static_cast<std::uint64_t>(delta) >> shift_;
+        if (k < used_) return (rng.next() >> 11) < table_[k];
+        if (!overflow_) return false;
+        return accept_by_log(static_cast<double>(delta), rng);
+      } else {
+        if (delta == 0) return rng.coin();
+        const std::uint64_t k = (delta < 0 ? std::uint64_t{0} - static_cast<std::uint64_t>(delta)
+                                           : static_cast<std::uint64_t>(delta)) >> shift_;
+        if (k < used_) {
+          const std::uint64_t u = rng.next() >> 11;
+          return delta > 0 ? u < table_[k] : u >= table_[k];
+        }
+        if (!overflow_) return delta < 0;
+        return accept_by_log(static_cast<double>(delta), rng);
+      }
+    } else {
+      return accept_by_log(static_cast<double>(delta), rng);
+    }
+  }
+
+ private:
+  static constexpr double two53 = 9007199254740992.0;
+
+  bool accept_by_log(double delta, Xoshiro256& rng) const noexcept {
+    const double x = beta_ * delta;
+    if (rule_ == Acceptance::metropolis) {
+      if (!(x > 0)) return true;
+      if (x > acceptance_cutoff) return false;
+      return x < -std::log(rng.uniform_open_zero());
+    }
+    if (x > acceptance_cutoff) return false;
+    if (x < -acceptance_cutoff) return true;
+    const double u = rng.uniform_open_zero();
+    return x < std::log((1 - u) / u);
+  }
+
+  Acceptance rule_ = Acceptance::metropolis;
+  unsigned shift_ = 0;
+  double beta_ = 0;
+  std::vector<std::uint64_t> table_;  // integer models: 2^53 * acceptance of delta = k << shift
+  std::size_t used_ = 0;              // entries [0, used_) are non-zero
+  bool overflow_ = false;             // the table was too short for this beta
+};
+
+// The acceptor suited to a model (integer models get the threshold table).
+template <class Model>
+Acceptor<typename Model::energy_type> make_acceptor(const Model& model, Acceptance rule,
+                                                    std::size_t table_limit = Acceptor<typename Model::energy_type>::default_table_limit) {
+  using energy_type = typename Model::energy_type;
+  if constexpr (std::is_integral_v<energy_type>) {
+    return Acceptor<energy_type>(rule, detail::delta_shift(model), detail::max_flip_delta(model), table_limit);
+  } else {
+    return Acceptor<energy_type>(rule, 0, 0, table_limit);
+  }
+}
+
+}  // namespace spinwright
+
+#endif  // SPINWRIGHT_KERNELS_SCHEDULE_HPP
