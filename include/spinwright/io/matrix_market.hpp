@@ -1,0 +1,346 @@
+// spinwright — Matrix Market coordinate files (the NIST exchange format) holding an Ising or a
+// QUBO model:
+//
+//   %%MatrixMarket matrix coordinate real|integer general|symmetric
+//   % spinwright form ising|qubo          (optional; QUBO when absent)
+//   % spinwright offset <value>           (optional; 0 when absent)
+//   N N K                                 (square; K stored entries)
+//   i j v                                 (K lines, 1-based)
+//
+// The file denotes a square matrix M; entries at the same position are summed, and in
+// symmetric storage an off-diagonal entry stands for both M_ij and M_ji. The model is
+//   QUBO:  E(x) = c + x^T M x    so Q_ii = M_ii and Q_ij = M_ij + M_ji (i < j);
+//   Ising: E(s) = c + sum_i M_ii s_i + sum_{i != j} M_ij s_i s_j,  so h_i = M_ii and
+//          J_ij = M_ij + M_ji (the diagonal holds fields, since s_i s_i = 1).
+// An upper-triangle general file therefore lists the coefficients themselves; a symmetric
+// file's off-diagonal entries count twice. The writer emits general storage, upper triangle.
+// Refused variants: array, complex, pattern, hermitian, skew-symmetric, non-square, vector.
+// See docs/file-formats.md.
+#ifndef SPINWRIGHT_IO_MATRIX_MARKET_HPP
+#define SPINWRIGHT_IO_MATRIX_MARKET_HPP
+
+#include "../config.hpp"
+#include "../model/form.hpp"
+#include "../model/sparse_model.hpp"
+#include "../status.hpp"
+#include "edge_list.hpp"  // detail::starts_with_banner
+#include "io_status.hpp"
+#include "term_list.hpp"
+#include "text_input.hpp"
+
+#include <cstddef>      // std::size_t
+#include <cstdint>      // std::uint64_t
+#include <string>       // std::string
+#include <string_view>  // std::string_view
+#include <type_traits>  // std::is_integral_v
+
+namespace spinwright::io {
+namespace detail {
+
+inline std::string lower(std::string_view s) {
+  std::string out(s);
+  for (char& c : out) {
+    if (c >= 'A' && c <= 'Z') c = static_cast<char>(c - 'A' + 'a');
+  }
+  return out;
+}
+
+/// Scans a Matrix Market coordinate file into a term list.
+inline IoResult<TermList> scan_matrix_market(std::string_view text, std::string_view name, const ReadOptions& options) {
+  LineReader reader(text);
+  Line line;
+  TermList list;
+  list.form = Form::qubo;
+  list.diagonal_is_linear = true;
+  if (!reader.next(line)) {
+    return IoStatus::error(StatusCode::parse_error, name, 1, "empty file: expected a '%%MatrixMarket' banner");
+  }
+  std::string_view tok[6];
+  if (!starts_with_banner(trim(line.text))) {
+    return IoStatus::error(StatusCode::parse_error, name, 1,
+                           "missing banner: the first line must be '%%MatrixMarket matrix coordinate real general' "
+                           "(or integer / symmetric)");
+  }
+  const std::size_t banner_count = split_tokens(line.text, tok, 6);
+  if (banner_count < 5) {
+    return IoStatus::error(StatusCode::parse_error, name, 1,
+                           "incomplete banner: expected '%%MatrixMarket matrix coordinate <field> <symmetry>'");
+  }
+  if (banner_count > 5) {
+    return IoStatus::error(StatusCode::parse_error, name, 1, "trailing text after the banner: " + quote(tok[5]));
+  }
+  if (tok[0].size() != 14) {
+    return IoStatus::error(StatusCode::parse_error, name, 1, "malformed banner word " + quote(tok[0]));
+  }
+  const std::string object = lower(tok[1]);
+  const std::string format = lower(tok[2]);
+  const std::string field = lower(tok[3]);
+  const std::string symmetry = lower(tok[4]);
+  if (object != "matrix") {
+    return IoStatus::error(StatusCode::unsupported, name, 1,
+                           "object " + quote(tok[1]) + " is not supported; only 'matrix' is");
+  }
+  if (format == "array") {
+    return IoStatus::error(StatusCode::unsupported, name, 1,
+                           "dense 'array' storage is not supported; write the matrix in 'coordinate' format");
+  }
+  if (format != "coordinate") {
+    return IoStatus::error(StatusCode::unsupported, name, 1, "unknown storage format " + quote(tok[2]));
+  }
+  const bool integer_field = field == "integer";
+  if (field == "complex" || field == "pattern") {
+    return IoStatus::error(StatusCode::unsupported, name, 1,
+                           "field " + quote(tok[3]) + " is not supported; use 'real' or 'integer' (a model needs values)");
+  }
+  if (!integer_field && field != "real") {
+    return IoStatus::error(StatusCode::unsupported, name, 1, "unknown field " + quote(tok[3]));
+  }
+  const bool symmetric = symmetry == "symmetric";
+  if (symmetry == "skew-symmetric" || symmetry == "hermitian") {
+    return IoStatus::error(StatusCode::unsupported, name, 1,
+                           "symmetry " + quote(tok[4]) + " is not supported; use 'general' or 'symmetric'");
+  }
+  if (!symmetric && symmetry != "general") {
+    return IoStatus::error(StatusCode::unsupported, name, 1, "unknown symmetry " + quote(tok[4]));
+  }
+
+  StatusCode code = StatusCode::ok;
+  bool have_size = false;
+  std::uint64_t declared = 0;
+  while (reader.next(line)) {
+    const std::string_view s = trim(line.text);
+    if (s.empty()) continue;
+    if (starts_with_banner(s)) {
+      return IoStatus::error(StatusCode::parse_error, name, line.number,
+                             "second Matrix Market banner (the first is on line 1)");
+    }
+    if (s.front() == '%') {
+      const std::string_view body = trim(s.substr(1));
+      const std::size_t count = split_tokens(body, tok, 4);
+      if (count == 0 || tok[0] != "spinwright") continue;  // an ordinary comment
+      if (have_size) {
+        return IoStatus::error(StatusCode::parse_error, name, line.number,
+                               "'% spinwright' directives must come before the size line (line " +
+                                   std::to_string(list.header_line) + ")");
+      }
+      if (count < 3) {
+        return IoStatus::error(StatusCode::parse_error, name, line.number,
+                               "incomplete directive: expected '% spinwright form ising|qubo' or '% spinwright offset <value>'");
+      }
+      if (count > 3) {
+        return IoStatus::error(StatusCode::parse_error, name, line.number, "trailing text after the directive: " + quote(tok[3]));
+      }
+      if (tok[1] == "form") {
+        if (list.form_line != 0) {
+          return IoStatus::error(StatusCode::parse_error, name, line.number,
+                                 "second 'spinwright form' directive (the first is on line " + std::to_string(list.form_line) + ")");
+        }
+        if (tok[2] == "ising") {
+          list.form = Form::ising;
+        } else if (tok[2] == "qubo") {
+          list.form = Form::qubo;
+        } else {
+          return IoStatus::error(StatusCode::parse_error, name, line.number,
+                                 "unknown form " + quote(tok[2]) + "; expected 'ising' or 'qubo'");
+        }
+        list.form_line = line.number;
+      } else if (tok[1] == "offset") {
+        if (list.has_offset) {
+          return IoStatus::error(StatusCode::parse_error, name, line.number,
+                                 "second 'spinwright offset' directive (the first is on line " + std::to_string(list.offset_line) + ")");
+        }
+        const std::string why = parse_number(tok[2], list.offset, code);
+        if (!why.empty()) return IoStatus::error(code, name, line.number, "offset: " + why);
+        if (integer_field && !list.offset.integer) {
+          return IoStatus::error(StatusCode::parse_error, name, line.number,
+                                 "real offset " + quote(tok[2]) + " in an 'integer' file");
+        }
+        list.has_offset = true;
+        list.offset_token = tok[2];
+        list.offset_line = line.number;
+        list.all_integer = list.all_integer && list.offset.integer;
+      } else {
+        return IoStatus::error(StatusCode::parse_error, name, line.number,
+                               "unknown directive " + quote(tok[1]) + "; expected 'form' or 'offset'");
+      }
+      continue;
+    }
+    const std::size_t count = split_tokens(s, tok, 4);
+    if (!have_size) {
+      if (count < 3) {
+        return IoStatus::error(StatusCode::parse_error, name, line.number,
+                               "size line must be 'rows columns entries', found " + std::to_string(count) +
+                                   (count == 1 ? " field" : " fields"));
+      }
+      if (count > 3) {
+        return IoStatus::error(StatusCode::parse_error, name, line.number,
+                               "trailing text after the size line: " + quote(tok[3]));
+      }
+      std::uint64_t rows = 0;
+      std::uint64_t cols = 0;
+      std::string why = parse_count(tok[0], rows, code, "number of rows");
+      if (why.empty()) why = parse_count(tok[1], cols, code, "number of columns");
+      if (why.empty()) why = parse_count(tok[2], declared, code, "number of entries");
+      if (!why.empty()) return IoStatus::error(code, name, line.number, "size line: " + why);
+      if (rows != cols) {
+        return IoStatus::error(StatusCode::unsupported, name, line.number,
+                               "the matrix is " + std::to_string(rows) + " x " + std::to_string(cols) +
+                                   "; a model needs a square matrix");
+      }
+      if (rows > options.max_spins) {
+        return IoStatus::error(StatusCode::size_limit, name, line.number,
+                               "size line declares " + std::to_string(rows) + " variables, more than the limit of " +
+                                   std::to_string(options.max_spins) + " (ReadOptions::max_spins)");
+      }
+      list.num_spins = rows;
+      list.header_line = line.number;
+      have_size = true;
+      list.terms.reserve(bounded_reserve(declared, reader.remaining_bytes()));
+      continue;
+    }
+    if (list.terms.size() >= declared) {
+      return IoStatus::error(StatusCode::parse_error, name, line.number,
+                             "extra line: the size line (line " + std::to_string(list.header_line) + ") declares " +
+                                 std::to_string(declared) + " entries");
+    }
+    if (count < 3) {
+      return IoStatus::error(StatusCode::parse_error, name, line.number,
+                             "expected 'i j value', found " + std::to_string(count) + (count == 1 ? " field" : " fields"));
+    }
+    if (count > 3) {
+      return IoStatus::error(StatusCode::parse_error, name, line.number, "trailing text after the value: " + quote(tok[3]));
+    }
+    std::uint64_t ends[2] = {0, 0};
+    for (int e = 0; e < 2; ++e) {
+      const std::string why = parse_count(tok[e], ends[e], code, e == 0 ? "row index" : "column index");
+      if (!why.empty()) return IoStatus::error(code, name, line.number, why);
+      if (ends[e] == 0) {
+        return IoStatus::error(StatusCode::index_out_of_range, name, line.number,
+                               std::string(e == 0 ? "row" : "column") + " index 0: Matrix Market indices start at 1");
+      }
+      if (ends[e] > list.num_spins) {
+        return IoStatus::error(StatusCode::index_out_of_range, name, line.number,
+                               std::string(e == 0 ? "row" : "column") + " index " + std::to_string(ends[e]) +
+                                   " is beyond the size " + std::to_string(list.num_spins) + " declared on line " +
+                                   std::to_string(list.header_line));
+      }
+    }
+    RawTerm t;
+    const std::string why = parse_number(tok[2], t.value, code);
+    if (!why.empty()) return IoStatus::error(code, name, line.number, "value: " + why);
+    if (integer_field && !t.value.integer) {
+      return IoStatus::error(StatusCode::parse_error, name, line.number,
+                             "real value " + quote(tok[2]) + " in an 'integer' file");
+    }
+    t.i = ends[0] - 1;
+    t.j = ends[1] - 1;
+    t.token = tok[2];
+    t.line = line.number;
+    t.mirrored = symmetric && t.i != t.j;
+    list.all_integer = list.all_integer && t.value.integer;
+    list.terms.push_back(t);
+  }
+  if (!have_size) {
+    return IoStatus::error(StatusCode::parse_error, name, reader.last_line() + 1,
+                           "no size line: expected 'rows columns entries' after the banner and comments");
+  }
+  if (list.terms.size() < declared) {
+    return IoStatus::error(StatusCode::parse_error, name, reader.last_line() + 1,
+                           "file ends after " + std::to_string(list.terms.size()) + " of the " + std::to_string(declared) +
+                               " entries declared on line " + std::to_string(list.header_line) + " (truncated file?)");
+  }
+  return list;
+}
+
+}  // namespace detail
+
+/// Parses a Matrix Market model held in memory into `Model` (IsingModel<V, I> or
+/// QuboModel<V, I>); `name` is used in messages. The file's form must match the model's form
+/// (unsupported otherwise, at the line of the form directive or line 1 when the form is the
+/// QUBO default). The fuzzing entry point.
+template <class Model>
+IoResult<Model> parse_matrix_market(std::string_view text, std::string_view name, const ReadOptions& options = {}) {
+  auto scanned = detail::scan_matrix_market(text, name, options);
+  if (!scanned.ok()) return scanned.status();
+  const detail::TermList& list = scanned.value();
+  if (list.form != Model::form) {
+    const bool file_ising = list.form == Form::ising;
+    return IoStatus::error(StatusCode::unsupported, name, list.form_line == 0 ? 1 : list.form_line,
+                           std::string("the file holds ") + (file_ising ? "an Ising" : "a QUBO") +
+                               " model" + (list.form_line == 0 ? " (the default when no '% spinwright form' line is given)" : "") +
+                               " but " + (file_ising ? "a QUBO" : "an Ising") +
+                               " model was requested; read it as its own form and convert (model/convert.hpp)");
+  }
+  return detail::build_terms<Model::form, typename Model::value_type, typename Model::index_type>(list, name);
+}
+
+/// Reads a Matrix Market file (see parse_matrix_market).
+template <class Model>
+IoResult<Model> read_matrix_market(const std::string& path, const ReadOptions& options = {}) {
+  auto text = read_file_text(path, options);
+  if (!text.ok()) return text.status();
+  return parse_matrix_market<Model>(text.value(), path, options);
+}
+
+/// Writes a model as Matrix Market: banner ('integer' for integer value types, 'real'
+/// otherwise, always 'general'), the form and offset directives, the size line, then the
+/// non-zero diagonal (fields or unary terms) and the pairs i < j, 1-based, in row order.
+/// Values are exact (integers in decimal, reals as the shortest text that reads back to the
+/// same double). Never fails for a valid model; returns IoResult for symmetry with the readers.
+template <Form F, class Value, class Index>
+IoResult<std::string> format_matrix_market(const SparseModel<F, Value, Index>& m) {
+  const std::size_t n = m.num_spins();
+  std::size_t nnz = m.num_pairs();
+  for (std::size_t i = 0; i < n; ++i) {
+    if (m.linear(static_cast<Index>(i)) != Value{0}) ++nnz;
+  }
+  std::string out;
+  out.reserve(128 + nnz * 20);
+  out += "%%MatrixMarket matrix coordinate ";
+  out += std::is_integral_v<Value> ? "integer" : "real";
+  out += " general\n% spinwright form ";
+  out += F == Form::ising ? "ising" : "qubo";
+  out += "\n% spinwright offset ";
+  detail::append_value(out, m.offset());
+  out += '\n';
+  detail::append_u64(out, n);
+  out += ' ';
+  detail::append_u64(out, n);
+  out += ' ';
+  detail::append_u64(out, nnz);
+  out += '\n';
+  for (std::size_t i = 0; i < n; ++i) {
+    const auto ii = static_cast<Index>(i);
+    const Value lin = m.linear(ii);
+    if (lin != Value{0}) {
+      detail::append_u64(out, i + 1);
+      out += ' ';
+      detail::append_u64(out, i + 1);
+      out += ' ';
+      detail::append_value(out, lin);
+      out += '\n';
+    }
+    m.for_each_neighbour(ii, [&](Index j, Value v) {
+      if (j <= ii) return;
+      detail::append_u64(out, i + 1);
+      out += ' ';
+      detail::append_u64(out, static_cast<std::uint64_t>(j) + 1);
+      out += ' ';
+      detail::append_value(out, v);
+      out += '\n';
+    });
+  }
+  return out;
+}
+
+/// Writes a Matrix Market file (see format_matrix_market); errors name `path` (line 0).
+template <Form F, class Value, class Index>
+IoStatus write_matrix_market(const std::string& path, const SparseModel<F, Value, Index>& m) {
+  auto text = format_matrix_market(m);
+  if (!text.ok()) return text.status();
+  return write_file_text(path, text.value());
+}
+
+}  // namespace spinwright::io
+
+#endif  // SPINWRIGHT_IO_MATRIX_MARKET_HPP
