@@ -1,0 +1,144 @@
+// spinwright command-line program — `exact FILE`: exhaustive enumeration of a small model.
+// The enumeration does not poll the stop token, so during it Ctrl-C keeps its default action
+// (the program ends at once; the shell reports status 130). There is no partial answer to print.
+#include "commands.hpp"
+#include "json.hpp"
+#include "loaded_model.hpp"
+#include "runner.hpp"
+#include "text.hpp"
+
+#include <spinwright/control/steady_clock.hpp>
+#include <spinwright/model/maxcut.hpp>
+#include <spinwright/parallel/exact_threads.hpp>
+
+#include <csignal>  // std::signal, SIGINT, SIG_DFL
+
+namespace spinwright_cli {
+
+namespace {
+
+const std::vector<OptionSpec>& exact_options() {
+  static const std::vector<OptionSpec> specs = {
+      {"format", "edges|mtx", "input format (default: detected from the content)"},
+      {"threads", "T", "threads; 0 = one per hardware thread (default 0); the answer does not depend on it"},
+      {"levels", "K", "also list the K lowest distinct energies with their counts (default 1)"},
+      {"report", "text|json", "report for people (text, default) or for programs (json)"},
+      {"help", nullptr, "show this help"},
+  };
+  return specs;
+}
+
+template <class Model>
+std::string exact_report(const LoadedModel& m, const Model& model, const spinwright::ExactResult<double>& r,
+                         double seconds, unsigned threads, bool json) {
+  const bool qubo = m.form == spinwright::Form::qubo;
+  double cut = 0, weight = 0;
+  if (m.graph) {
+    cut = static_cast<double>(spinwright::cut_value(m.ising, r.spins.data()));
+    weight = static_cast<double>(spinwright::total_weight(m.ising));
+  }
+  (void)model;
+  if (json) {
+    JsonWriter j;
+    j.begin_object();
+    j.member("command", "exact");
+    j.member("file", m.path);
+    j.member("format", m.format);
+    j.member("form", m.form_name());
+    j.member("graph", m.graph);
+    j.member("nodes", static_cast<std::uint64_t>(m.num_spins()));
+    j.member("pairs", static_cast<std::uint64_t>(m.num_pairs()));
+    j.member("kernel", "exact");
+    j.member("threads", threads);
+    j.member("seconds", seconds);
+    j.member("energy", r.energy);
+    if (m.graph) {
+      j.member("cut", cut);
+      j.member("total_weight", weight);
+    }
+    j.member("ground_states", r.ground_count);
+    j.member("states_visited", r.states);
+    j.member("used_flip_symmetry", r.used_flip_symmetry);
+    j.key("spins").begin_array();
+    for (const auto v : r.spins) j.value(static_cast<int>(v));
+    j.end_array();
+    if (qubo) {
+      j.key("bits").begin_array();
+      for (const auto v : r.spins) j.value(v < 0 ? 1 : 0);
+      j.end_array();
+    }
+    j.key("levels").begin_array();
+    for (const auto& l : r.levels) {
+      j.begin_object();
+      j.member("energy", l.energy);
+      j.member("count", l.count);
+      j.end_object();
+    }
+    j.end_array();
+    j.end_object();
+    return j.str();
+  }
+  TextReport t;
+  t.line("file", m.path);
+  t.line("model", m.description + ", " + std::to_string(m.num_spins()) + (m.graph ? " nodes, " : " variables, ") +
+                      std::to_string(m.num_pairs()) + (m.graph ? " edges" : " pairs"));
+  t.line("states", std::to_string(r.states) + " visited" +
+                       (r.used_flip_symmetry ? " (half of them: E(s) = E(-s) without fields)" : ""));
+  t.line("time", seconds_text(seconds) + " on " + std::to_string(threads) + (threads == 1 ? " thread" : " threads"));
+  t.line("ground energy", number_text(r.energy));
+  if (m.graph) t.line("maximum cut", number_text(cut) + " (total weight " + number_text(weight) + ")");
+  t.line("ground states", std::to_string(r.ground_count));
+  if (r.levels.size() > 1) {
+    for (std::size_t k = 1; k < r.levels.size(); ++k) {
+      t.line("level " + std::to_string(k + 1),
+             number_text(r.levels[k].energy) + " (" + std::to_string(r.levels[k].count) + " states)");
+    }
+  }
+  t.line(qubo ? "bits" : "spins", spins_text(r.spins, qubo) + "  (lowest-index ground state)");
+  return t.str();
+}
+
+}  // namespace
+
+int run_exact(int argc, const char* const* argv) {
+  Args args;
+  const int early = parse_or_exit(
+      argc, argv, exact_options(), "exact", "FILE [options]",
+      "Enumerates every state of a small model: ground energy, a ground state, number of ground states.", args);
+  if (early >= 0) return early;
+  Failure f = expect_positional(args, 1, "exact", "FILE");
+  if (f.failed()) return fail(f);
+  std::string format;
+  if ((f = check_format_option(args, "format", "exact", format)).failed()) return fail(f);
+  std::uint64_t threads = 0, levels = 1;
+  if ((f = parse_count(args, "threads", 0, 1024, "exact", threads)).failed()) return fail(f);
+  if ((f = parse_count(args, "levels", 1, 1000, "exact", levels)).failed()) return fail(f);
+  bool json = false;
+  if ((f = report_option(args, "exact", json)).failed()) return fail(f);
+
+  LoadedModel m;
+  if ((f = load_model(args.positional[0], format, m)).failed()) return fail(f);
+  if (m.num_spins() > exact_limit()) {
+    return fail(input_failure(m.path + ": exact enumeration is limited to " + std::to_string(exact_limit()) +
+                              " spins and this model has " + std::to_string(m.num_spins()) +
+                              "; use 'spinwright solve' instead"));
+  }
+  spinwright::ExactParams params;
+  params.levels = static_cast<std::size_t>(levels);
+  unsigned used = threads == 0 ? std::max(1u, std::thread::hardware_concurrency()) : static_cast<unsigned>(threads);
+  std::signal(SIGINT, SIG_DFL);
+  const double start = spinwright::steady_seconds(nullptr);
+  std::string report;
+  f = visit(m, [&](const auto& model) -> Failure {
+    auto r = spinwright::solve_exact_threads(model, params, used);
+    if (!r) return input_failure(m.path + ": " + r.status().message);
+    const double seconds = spinwright::steady_seconds(nullptr) - start;
+    report = exact_report(m, model, r.value(), seconds, used, json);
+    return {};
+  });
+  if (f.failed()) return fail(f);
+  if (!write_stdout(report)) return fail(input_failure("spinwright: cannot write the report to standard output"));
+  return exit_ok;
+}
+
+}  // namespace spinwright_cli

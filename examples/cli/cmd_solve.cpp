@@ -1,0 +1,236 @@
+// spinwright command-line program — `solve FILE`: low-energy states by a heuristic kernel
+// over independent restarts (or by exact enumeration for small models).
+#include "commands.hpp"
+#include "json.hpp"
+#include "loaded_model.hpp"
+#include "progress.hpp"
+#include "runner.hpp"
+#include "text.hpp"
+
+#include <spinwright/model/maxcut.hpp>
+
+#include <limits>  // std::numeric_limits
+
+namespace spinwright_cli {
+
+namespace {
+
+const std::vector<OptionSpec>& solve_options() {
+  static const std::vector<OptionSpec> specs = {
+      {"format", "edges|mtx", "input format (default: detected from the content)"},
+      {"kernel", "NAME", "auto, anneal, temper, tabu, descent or exact (default auto)"},
+      {"time-limit", "SECONDS", "wall-clock limit for the whole run (default: none)"},
+      {"sweeps", "N", "sweeps per restart (default: the kernel's own, 1000 for anneal)"},
+      {"restarts", "R", "independent restarts (default 8)"},
+      {"threads", "T", "threads; 0 = one per hardware thread (default 0)"},
+      {"seed", "N", "seed; restart r uses the stream (seed, r) (default 1)"},
+      {"target", "ENERGY", "stop a restart once it reaches this energy; report the success rate"},
+      {"warm-start", "STATEFILE", "start every restart from this state"},
+      {"state-out", "FILE", "write the best state to FILE"},
+      {"report", "text|json", "report for people (text, default) or for programs (json)"},
+      {"quiet", nullptr, "no progress line"},
+      {"help", nullptr, "show this help"},
+  };
+  return specs;
+}
+
+struct SolveSettings {
+  std::string format;
+  std::string kernel_text = "auto";
+  bool kernel_auto = true;
+  Kernel kernel = Kernel::anneal;
+  RunOptions run;
+  bool json = false;
+  bool quiet = false;
+  std::string warm_path;
+  std::string state_out;
+};
+
+Failure read_settings(const Args& args, SolveSettings& s) {
+  const std::string cmd = "solve";
+  Failure f = check_format_option(args, "format", cmd, s.format);
+  if (f.failed()) return f;
+  if (const std::string* k = args.value("kernel")) {
+    s.kernel_text = *k;
+    if (!kernel_from_name(*k, s.kernel_auto, s.kernel)) {
+      return usage_failure("unknown kernel '" + *k + "'", "kernels are: auto, anneal, temper, tabu, descent, exact");
+    }
+  }
+  std::uint64_t v = 0;
+  if ((f = parse_count(args, "sweeps", 1, std::uint64_t{1} << 50, cmd, s.run.sweeps)).failed()) return f;
+  s.run.restarts = 8;
+  if ((f = parse_count(args, "restarts", 1, 100000000, cmd, s.run.restarts)).failed()) return f;
+  v = 0;
+  if ((f = parse_count(args, "threads", 0, 1024, cmd, v)).failed()) return f;
+  s.run.threads = static_cast<unsigned>(v);
+  s.run.seed = 1;
+  if ((f = parse_count(args, "seed", 0, ~std::uint64_t{0}, cmd, s.run.seed)).failed()) return f;
+  if (args.has("time-limit")) {
+    if ((f = parse_real(args, "time-limit", true, cmd, s.run.time_limit)).failed()) return f;
+  }
+  if (args.has("target")) {
+    s.run.has_target = true;
+    if ((f = parse_real(args, "target", false, cmd, s.run.target)).failed()) return f;
+  }
+  if ((f = report_option(args, cmd, s.json)).failed()) return f;
+  s.quiet = args.has("quiet");
+  if (const std::string* w = args.value("warm-start")) s.warm_path = *w;
+  if (const std::string* o = args.value("state-out")) s.state_out = *o;
+  return {};
+}
+
+std::string solve_json(const LoadedModel& m, const SolveSettings& s, const RunResult& r) {
+  const auto& best = r.tally.best();
+  JsonWriter j;
+  j.begin_object();
+  j.member("command", "solve");
+  j.member("file", m.path);
+  j.member("format", m.format);
+  j.member("form", m.form_name());
+  j.member("graph", m.graph);
+  j.member("nodes", static_cast<std::uint64_t>(m.num_spins()));
+  j.member("pairs", static_cast<std::uint64_t>(m.num_pairs()));
+  j.member("kernel", kernel_name(s.run.kernel));
+  j.member("kernel_requested", s.kernel_text);
+  j.member("seed", s.run.seed);
+  j.member("restarts", static_cast<std::uint64_t>(r.tally.restarts()));
+  j.member("threads", r.threads);
+  j.member("sweeps", r.tally.total_sweeps());
+  j.member("seconds", r.seconds);
+  j.member("interrupted", r.interrupted);
+  j.member("cut_short", r.cut_short);
+  j.member("energy", best.energy);
+  if (m.graph) {
+    j.member("cut", static_cast<double>(spinwright::cut_value(m.ising, best.spins.data())));
+    j.member("total_weight", static_cast<double>(spinwright::total_weight(m.ising)));
+  }
+  if (r.exact) {
+    j.member("exact", true);
+    j.member("ground_states", r.ground_count);
+  }
+  j.key("spins").begin_array();
+  for (const auto v : best.spins) j.value(static_cast<int>(v));
+  j.end_array();
+  if (m.form == spinwright::Form::qubo) {
+    j.key("bits").begin_array();
+    for (const auto v : best.spins) j.value(v < 0 ? 1 : 0);
+    j.end_array();
+  }
+  j.key("tally").begin_object();
+  j.member("best", best.energy);
+  j.member("best_restart", best.restart);
+  const auto& es = r.tally.energies();
+  double mean = 0, worst = es.empty() ? 0 : es.front();
+  for (const double e : es) {
+    mean += e;
+    worst = e > worst ? e : worst;
+  }
+  mean = es.empty() ? 0 : mean / static_cast<double>(es.size());
+  j.member("mean", mean);
+  j.member("worst", worst);
+  const double scale = visit(m, [](const auto& model) { return model.energy_bound(); });
+  j.member("restarts_at_best", count_at(r.tally, best.energy, scale));
+  j.member("median_restart_seconds", r.tally.median_seconds());
+  if (s.run.has_target) {
+    j.member("target", s.run.target);
+    const double tol = 1e-9 * (scale > 1 ? scale : 1.0);
+    j.member("success_probability", r.tally.success_probability(s.run.target, tol));
+    j.member("residual_energy", r.tally.residual_energy(s.run.target));
+    j.member("tts99_seconds", r.tally.tts99(s.run.target, tol));
+  } else {
+    j.key("target").null();
+  }
+  j.end_object();
+  j.end_object();
+  return j.str();
+}
+
+std::string solve_text(const LoadedModel& m, const SolveSettings& s, const RunResult& r) {
+  const auto& best = r.tally.best();
+  TextReport t;
+  t.line("file", m.path);
+  t.line("model", m.description + ", " + std::to_string(m.num_spins()) + (m.graph ? " nodes, " : " variables, ") +
+                      std::to_string(m.num_pairs()) + (m.graph ? " edges" : " pairs"));
+  t.line("kernel", std::string(kernel_name(s.run.kernel)) + (s.kernel_auto ? " (chosen automatically)" : ""));
+  if (r.exact) {
+    t.line("threads", std::to_string(r.threads));
+  } else {
+    t.line("restarts", std::to_string(r.tally.restarts()) + " on " + std::to_string(r.threads) +
+                           (r.threads == 1 ? " thread" : " threads") + ", seed " + std::to_string(s.run.seed));
+    t.line("sweeps", std::to_string(r.tally.total_sweeps()) + " in total");
+  }
+  t.line("time", seconds_text(r.seconds));
+  if (r.interrupted) {
+    t.line("stopped", "interrupted (Ctrl-C); best state found so far");
+  } else if (r.cut_short > 0 && s.run.time_limit < std::numeric_limits<double>::infinity()) {
+    t.line("stopped", std::to_string(r.cut_short) + " restarts cut short by the time limit");
+  }
+  t.line("energy", number_text(best.energy) + (r.exact ? " (ground state, " + std::to_string(r.ground_count) +
+                                                              (r.ground_count == 1 ? " ground state)" : " ground states)")
+                                                        : ""));
+  if (m.graph) {
+    t.line("cut", number_text(static_cast<double>(spinwright::cut_value(m.ising, best.spins.data()))) + " (total weight " +
+                      number_text(static_cast<double>(spinwright::total_weight(m.ising))) + ")");
+  }
+  const double scale = visit(m, [](const auto& model) { return model.energy_bound(); });
+  if (!r.exact) {
+    t.line("best found by", std::to_string(count_at(r.tally, best.energy, scale)) + " of " +
+                                std::to_string(r.tally.restarts()) + " restarts");
+  }
+  if (s.run.has_target) {
+    const double tol = 1e-9 * (scale > 1 ? scale : 1.0);
+    const double p = r.tally.success_probability(s.run.target, tol);
+    t.line("target", number_text(s.run.target) + ": reached by " + probability_text(p) + " of restarts, TTS99 " +
+                         seconds_text(r.tally.tts99(s.run.target, tol)));
+  }
+  if (!s.state_out.empty()) t.line("state written to", s.state_out);
+  t.line(m.form == spinwright::Form::qubo ? "bits" : "spins",
+         spins_text(best.spins, m.form == spinwright::Form::qubo));
+  return t.str();
+}
+
+}  // namespace
+
+int run_solve(int argc, const char* const* argv) {
+  Args args;
+  const int early = parse_or_exit(argc, argv, solve_options(), "solve", "FILE [options]",
+                                  "Finds a low-energy state of the model in FILE (edge list: max-cut graph).", args);
+  if (early >= 0) return early;
+  Failure f = expect_positional(args, 1, "solve", "FILE");
+  if (f.failed()) return fail(f);
+  SolveSettings s;
+  if ((f = read_settings(args, s)).failed()) return fail(f);
+
+  LoadedModel m;
+  if ((f = load_model(args.positional[0], s.format, m)).failed()) return fail(f);
+  std::vector<std::int8_t> warm;
+  if (!s.warm_path.empty()) {
+    if ((f = load_state(s.warm_path, m.num_spins(), warm)).failed()) return fail(f);
+    s.run.warm = &warm;
+  }
+  s.run.kernel = s.kernel_auto ? choose_kernel(m) : s.kernel;
+  if (s.run.kernel == Kernel::exact && m.num_spins() > exact_limit()) {
+    return fail(input_failure(m.path + ": the exact kernel is limited to " + std::to_string(exact_limit()) +
+                              " spins and this model has " + std::to_string(m.num_spins())));
+  }
+
+  ProgressCounters counters;
+  counters.restarts_total = s.run.kernel == Kernel::exact ? 1 : s.run.restarts;
+  counters.time_limit = s.run.time_limit < std::numeric_limits<double>::infinity() ? s.run.time_limit : 0;
+  s.run.progress = &counters;
+  RunResult r;
+  {
+    ProgressLine line(counters, !s.quiet);
+    f = run_kernel(m, s.run, r);
+    line.finish();
+  }
+  if (f.failed()) return fail(f);
+  if (!s.state_out.empty()) {
+    if ((f = save_state(s.state_out, r.tally.best().spins, m.form == spinwright::Form::qubo)).failed()) return fail(f);
+  }
+  const std::string report = s.json ? solve_json(m, s, r) : solve_text(m, s, r);
+  if (!write_stdout(report)) return fail(input_failure("spinwright: cannot write the report to standard output"));
+  return r.interrupted ? exit_interrupted : exit_ok;
+}
+
+}  // namespace spinwright_cli

@@ -1,0 +1,32 @@
+// spinwright command-line program — the subcommands. Each takes the whole argv (argv[1] is
+// the subcommand) and returns the process exit code; it writes its report to stdout in one
+// piece at the end, and errors to stderr.
+#ifndef SPINWRIGHT_CLI_COMMANDS_HPP
+#define SPINWRIGHT_CLI_COMMANDS_HPP
+
+#include "args.hpp"
+
+#include <string>  // std::string
+#include <vector>  // std::vector
+
+namespace spinwright_cli {
+
+int run_solve(int argc, const char* const* argv);
+int run_exact(int argc, const char* const* argv);
+int run_inspect(int argc, const char* const* argv);
+int run_convert(int argc, const char* const* argv);
+int run_verify(int argc, const char* const* argv);
+int run_bench(int argc, const char* const* argv);
+
+// Shared by the commands: parses argv against `specs`, prints help (exit 0) or a usage
+// error (exit 2). Returns -1 when the command should go on.
+int parse_or_exit(int argc, const char* const* argv, const std::vector<OptionSpec>& specs, const std::string& command,
+                  const char* synopsis, const char* description, Args& args);
+// Prints a failure and returns its exit code.
+int fail(const Failure& f);
+// --report text|json; usage error otherwise.
+Failure report_option(const Args& args, const std::string& command, bool& json);
+
+}  // namespace spinwright_cli
+
+#endif  // SPINWRIGHT_CLI_COMMANDS_HPP

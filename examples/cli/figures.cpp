@@ -1,0 +1,77 @@
+// spinwright command-line program — model figures for `inspect` and the automatic kernel choice.
+#include "loaded_model.hpp"
+
+#include <algorithm>  // std::max, std::min
+#include <numeric>    // std::iota
+
+namespace spinwright_cli {
+
+double LoadedModel::energy(const std::vector<std::int8_t>& spins) const {
+  return visit(*this, [&](const auto& model) { return static_cast<double>(model.energy(spins.data())); });
+}
+
+namespace {
+
+std::size_t find_root(std::vector<std::size_t>& parent, std::size_t i) {
+  while (parent[i] != i) {
+    parent[i] = parent[parent[i]];
+    i = parent[i];
+  }
+  return i;
+}
+
+template <class Model>
+void fill(const Model& m, ModelFigures& f) {
+  using Index = typename Model::index_type;
+  const std::size_t n = m.num_spins();
+  f.nodes = n;
+  f.pairs = m.num_pairs();
+  f.offset = static_cast<double>(m.offset());
+  std::vector<std::size_t> parent(n);
+  std::iota(parent.begin(), parent.end(), std::size_t{0});
+  bool first_pair = true;
+  for (std::size_t i = 0; i < n; ++i) {
+    const auto ii = static_cast<Index>(i);
+    const double lin = m.linear(ii);
+    if (lin != 0) ++f.linear_nonzero;
+    f.linear_min = i == 0 ? lin : std::min(f.linear_min, lin);
+    f.linear_max = i == 0 ? lin : std::max(f.linear_max, lin);
+    const std::size_t d = m.degree(ii);
+    f.min_degree = i == 0 ? d : std::min(f.min_degree, d);
+    f.max_degree = std::max(f.max_degree, d);
+    m.for_each_neighbour(ii, [&](Index j, double v) {
+      if (j <= ii) return;
+      f.pair_min = first_pair ? v : std::min(f.pair_min, v);
+      f.pair_max = first_pair ? v : std::max(f.pair_max, v);
+      first_pair = false;
+      const std::size_t a = find_root(parent, i);
+      const std::size_t b = find_root(parent, j);
+      if (a != b) parent[a] = b;
+    });
+  }
+  std::vector<std::size_t> size(n, 0);
+  for (std::size_t i = 0; i < n; ++i) ++size[find_root(parent, i)];
+  for (std::size_t i = 0; i < n; ++i) {
+    if (size[i] > 0) {
+      ++f.components;
+      f.largest_component = std::max(f.largest_component, size[i]);
+    }
+  }
+  f.mean_degree = n == 0 ? 0 : 2.0 * static_cast<double>(f.pairs) / static_cast<double>(n);
+  f.density = n < 2 ? 0 : static_cast<double>(f.pairs) / (0.5 * static_cast<double>(n) * static_cast<double>(n - 1));
+  // CSR storage: linear terms, row starts, and both directions of every pair.
+  f.model_bytes = static_cast<double>(n) * sizeof(double) + static_cast<double>(n + 1) * sizeof(std::size_t) +
+                  2.0 * static_cast<double>(f.pairs) * (sizeof(double) + sizeof(Index));
+  // SpinState: one spin, one local field (energy type) and one mark byte per spin.
+  f.state_bytes = static_cast<double>(n) * (sizeof(std::int8_t) + sizeof(double) + 1);
+}
+
+}  // namespace
+
+ModelFigures figures_of(const LoadedModel& m) {
+  ModelFigures f;
+  visit(m, [&](const auto& model) { fill(model, f); });
+  return f;
+}
+
+}  // namespace spinwright_cli

@@ -1,0 +1,175 @@
+// spinwright command-line program — kernel dispatch over restarts. Every kernel is
+// instantiated here, and only here, for the two model types of the program.
+#include "runner.hpp"
+
+#include <spinwright/control/steady_clock.hpp>
+#include <spinwright/kernels/anneal.hpp>
+#include <spinwright/kernels/descent.hpp>
+#include <spinwright/kernels/exact.hpp>
+#include <spinwright/kernels/tabu.hpp>
+#include <spinwright/kernels/temper.hpp>
+#include <spinwright/parallel/exact_threads.hpp>
+#include <spinwright/parallel/restarts.hpp>
+
+#include <algorithm>  // std::max
+#include <atomic>     // std::atomic
+#include <thread>     // std::thread::hardware_concurrency
+
+namespace spinwright_cli {
+
+const char* kernel_name(Kernel k) {
+  switch (k) {
+    case Kernel::anneal: return "anneal";
+    case Kernel::temper: return "temper";
+    case Kernel::tabu: return "tabu";
+    case Kernel::descent: return "descent";
+    case Kernel::exact: return "exact";
+  }
+  return "anneal";
+}
+
+bool kernel_from_name(const std::string& name, bool& is_auto, Kernel& out) {
+  is_auto = name == "auto";
+  if (is_auto) return true;
+  for (const Kernel k : {Kernel::anneal, Kernel::temper, Kernel::tabu, Kernel::descent, Kernel::exact}) {
+    if (name == kernel_name(k)) {
+      out = k;
+      return true;
+    }
+  }
+  return false;
+}
+
+std::size_t exact_limit() { return spinwright::exact_default_limit; }
+
+Kernel choose_kernel(const LoadedModel& m) {
+  const std::size_t n = m.num_spins();
+  if (n <= 20) return Kernel::exact;
+  const double density =
+      static_cast<double>(m.num_pairs()) / (0.5 * static_cast<double>(n) * static_cast<double>(n - 1));
+  if (m.form == spinwright::Form::qubo || density >= 0.1) return Kernel::tabu;
+  return Kernel::anneal;
+}
+
+std::uint64_t count_at(const spinwright::Tally<double>& tally, double energy, double scale) {
+  std::uint64_t k = 0;
+  const double tol = 1e-9 * (scale > 1 ? scale : 1.0);
+  for (const double e : tally.energies()) k += e <= energy + tol;
+  return k;
+}
+
+namespace {
+
+// Feeds the progress line; kernels call it from their own thread.
+struct ProgressObserver {
+  ProgressCounters* counters = nullptr;
+  void on_improvement(std::uint64_t, double energy) {
+    if (counters != nullptr) counters->best.offer(energy);
+  }
+};
+
+template <class Model>
+spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o, std::uint64_t r,
+                                         double run_start, std::atomic<std::uint64_t>& cut_short) {
+  spinwright::Budget budget;
+  budget.sweeps = o.sweeps;
+  budget.stop = &interrupt_token();
+  if (o.has_target) budget.with_target(o.target);
+  if (o.time_limit < std::numeric_limits<double>::infinity()) {
+    const double used = spinwright::steady_seconds(nullptr) - run_start;
+    budget.with_time_limit(std::max(0.0, o.time_limit - used), spinwright::steady_clock());
+  } else {
+    budget.clock = spinwright::steady_clock();  // for Solution::seconds
+  }
+  ProgressObserver observer{o.progress};
+  const std::int8_t* warm = o.warm != nullptr ? o.warm->data() : nullptr;
+  spinwright::Solution<double> s;
+  switch (o.kernel) {
+    case Kernel::anneal: {
+      spinwright::AnnealParams p;
+      p.initial = warm;
+      s = spinwright::anneal(model, p, o.seed, r, budget, observer);
+      // Annealing keeps the best state seen at sweep ends; a descent takes it to the local
+      // minimum below (never raises the energy).
+      if (s.reason != spinwright::StopReason::stopped) s = spinwright::polish(model, s);
+      break;
+    }
+    case Kernel::descent: {
+      spinwright::DescentParams p;
+      p.initial = warm;
+      s = spinwright::descend(model, p, o.seed, r, budget);
+      break;
+    }
+    case Kernel::temper: {
+      spinwright::TemperParams p;
+      p.initial = warm;
+      s = static_cast<spinwright::Solution<double>>(spinwright::temper(model, p, o.seed, r, budget, observer));
+      if (s.reason != spinwright::StopReason::stopped) s = spinwright::polish(model, s);
+      break;
+    }
+    case Kernel::tabu: {
+      spinwright::TabuParams p;
+      p.initial = warm;
+      s = spinwright::tabu_search(model, p, o.seed, r, budget, observer);
+      break;
+    }
+    case Kernel::exact:
+      break;  // run_exact_kernel
+  }
+  if (s.reason == spinwright::StopReason::deadline || s.reason == spinwright::StopReason::stopped) {
+    cut_short.fetch_add(1, std::memory_order_relaxed);
+  }
+  if (o.progress != nullptr) {
+    o.progress->best.offer(s.energy);
+    o.progress->restarts_done.fetch_add(1, std::memory_order_relaxed);
+  }
+  return s;
+}
+
+template <class Model>
+Failure run_exact_kernel(const LoadedModel& m, const Model& model, const RunOptions& o, RunResult& out) {
+  spinwright::ExactParams params;
+  const double start = spinwright::steady_seconds(nullptr);
+  auto result = spinwright::solve_exact_threads(model, params, o.threads);
+  if (!result) {
+    return input_failure(m.path + ": exact enumeration refused: the model has " + std::to_string(m.num_spins()) +
+                         " spins and the limit is " + std::to_string(exact_limit()));
+  }
+  spinwright::Solution<double> s;
+  s.spins = result->spins;
+  s.energy = static_cast<double>(result->energy);
+  s.seconds = spinwright::steady_seconds(nullptr) - start;
+  s.sweeps = 0;
+  out.tally = spinwright::Tally<double>();
+  out.tally.add(std::move(s));
+  out.exact = true;
+  out.ground_count = result->ground_count;
+  out.threads = o.threads;
+  if (o.progress != nullptr) o.progress->restarts_done.store(1);
+  return {};
+}
+
+}  // namespace
+
+Failure run_kernel(const LoadedModel& m, const RunOptions& options, RunResult& out) {
+  RunOptions o = options;
+  if (o.threads == 0) o.threads = std::max(1u, std::thread::hardware_concurrency());
+  const double start = spinwright::steady_seconds(nullptr);
+  Failure f;
+  if (o.kernel == Kernel::exact) {
+    f = visit(m, [&](const auto& model) { return run_exact_kernel(m, model, o, out); });
+  } else {
+    out.threads = static_cast<unsigned>(std::min<std::uint64_t>(o.threads, std::max<std::uint64_t>(o.restarts, 1)));
+    std::atomic<std::uint64_t> cut_short{0};
+    out.tally = visit(m, [&](const auto& model) {
+      return spinwright::run_restarts<double>(
+          o.restarts, o.threads, [&](std::uint64_t r) { return one_restart(model, o, r, start, cut_short); });
+    });
+    out.cut_short = cut_short.load();
+  }
+  out.seconds = spinwright::steady_seconds(nullptr) - start;
+  out.interrupted = interrupted();
+  return f;
+}
+
+}  // namespace spinwright_cli

@@ -1,0 +1,67 @@
+// spinwright command-line program — runs a heuristic kernel over independent restarts.
+// Restart r is seeded from (seed, r) only and the tally is assembled in restart order
+// (parallel/restarts.hpp), so the same seed gives the same answer for any thread count, as long
+// as no time limit or Ctrl-C cuts a restart short.
+#ifndef SPINWRIGHT_CLI_RUNNER_HPP
+#define SPINWRIGHT_CLI_RUNNER_HPP
+
+#include "loaded_model.hpp"
+#include "progress.hpp"
+
+#include <spinwright/stats/tally.hpp>
+
+#include <cstdint>  // std::uint64_t
+#include <limits>   // std::numeric_limits
+#include <string>   // std::string
+#include <vector>   // std::vector
+
+namespace spinwright_cli {
+
+enum class Kernel { anneal, temper, tabu, descent, exact };
+
+const char* kernel_name(Kernel k);
+// "auto" is resolved by choose_kernel; false for an unknown name.
+bool kernel_from_name(const std::string& name, bool& is_auto, Kernel& out);
+
+// The automatic choice (documented in docs/cli.md):
+//   exact    N <= 20 (at most 2^20 states: milliseconds)
+//   tabu     QUBO input, or any model with pair density >= 0.1 (dense, QUBO-like)
+//   anneal   otherwise (sparse models, max-cut graphs)
+Kernel choose_kernel(const LoadedModel& m);
+
+// Largest N the exact kernel takes from the command line.
+std::size_t exact_limit();
+
+struct RunOptions {
+  Kernel kernel = Kernel::anneal;
+  std::uint64_t sweeps = 0;    // per restart; 0: the kernel's default
+  std::uint64_t restarts = 1;
+  unsigned threads = 1;
+  std::uint64_t seed = 1;
+  double time_limit = std::numeric_limits<double>::infinity();  // seconds for the whole run
+  bool has_target = false;
+  double target = 0;
+  const std::vector<std::int8_t>* warm = nullptr;  // start state of every restart
+  ProgressCounters* progress = nullptr;
+};
+
+struct RunResult {
+  spinwright::Tally<double> tally;
+  double seconds = 0;           // wall time of the whole run (file reading excluded)
+  unsigned threads = 1;         // threads actually used
+  bool interrupted = false;     // Ctrl-C
+  std::uint64_t cut_short = 0;  // restarts ended by the time limit or Ctrl-C
+  bool exact = false;           // the exact kernel ran: the best state is a ground state
+  std::uint64_t ground_count = 0;  // exact kernel: number of ground states
+};
+
+// How many restarts ended at or below `energy` (within 1e-9 of the model's energy range `scale`).
+std::uint64_t count_at(const spinwright::Tally<double>& tally, double energy, double scale);
+
+// Runs `options.kernel` on the model. Fails (input error) only when the kernel refuses the
+// model (e.g. exact beyond its limit).
+Failure run_kernel(const LoadedModel& m, const RunOptions& options, RunResult& out);
+
+}  // namespace spinwright_cli
+
+#endif  // SPINWRIGHT_CLI_RUNNER_HPP
