@@ -39,7 +39,11 @@ struct AnnealParams {
   std::uint64_t sweeps = 1000;           // schedule length (a Budget's sweeps override it in run())
   Schedule schedule{};                   // default: geometric over the automatic beta range
   Acceptance acceptance = Acceptance::metropolis;
-  SiteOrder order = SiteOrder::sequential;  // used by moves constructible from a SiteOrder
+  // Used by moves constructible from a SiteOrder (SingleFlip). Random is the default because
+  // sequential Metropolis is not ergodic where zero-delta flips abound (rings, cycles: domain
+  // walls ride along with the sweep and never meet); sequential is faster and fine with
+  // heat-bath or on lattices away from that case. See docs/moves.md.
+  SiteOrder order = SiteOrder::random;
   const std::int8_t* initial = nullptr;  // warm start (n spins, +1/-1); random spins otherwise
   std::uint64_t progress_every = 0;      // observers' on_progress period in sweeps (0: never)
   std::size_t table_limit = 4096;        // entries of the integer acceptance table

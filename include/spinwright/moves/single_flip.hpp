@@ -50,7 +50,7 @@ class SingleFlip {
   proposal_type proposal_at(const state_type&, std::size_t k) const noexcept { return static_cast<index_type>(k); }
 
  private:
-  SiteOrder order_ = SiteOrder::sequential;
+  SiteOrder order_ = SiteOrder::random;
   std::uint32_t n_ = 0;
   std::uint32_t cursor_ = 0;
 };
