@@ -34,8 +34,10 @@
 // every feasible x*, whose energy with its best slack is exactly f(x*). So every ground state
 // is feasible and decodes to an optimum of f over the feasible set (if one exists).
 //
-// All functions validate their input and return a Status; on error nothing is added to the
-// builder or the set. They allocate (term lists, records) and never throw.
+// All functions validate their input and return a Status; on a validation error nothing is
+// added to the builder or the set. If the builder itself refuses a term (e.g. a fixed-size
+// builder too small for the slack bits), its sticky status is returned, the builder stays
+// failed and no record is added. They allocate (term lists, records) and never throw.
 #ifndef SPINWRIGHT_PROBLEMS_PENALTY_HPP
 #define SPINWRIGHT_PROBLEMS_PENALTY_HPP
 
