@@ -1,0 +1,463 @@
+// SPDX-License-Identifier: MIT
+// spinwright — replica-exchange tempering: a one-call function temper() and a stepping object
+// Tempering for embedding (construct once, call step(n) from your own loop, read best()).
+//
+// Method: K. Hukushima, K. Nemoto, "Exchange Monte Carlo method and application to spin glass
+// simulations", J. Phys. Soc. Jpn. 65, 1604-1608 (1996). One replica per rung of a ladder of
+// inverse temperatures beta_0 < ... < beta_{T-1}; one sweep = one Metropolis sweep (N sites drawn
+// at random by default, or in index order) on every replica, then a swap attempt between every neighbouring pair of rungs
+// (k, k+1) in increasing k, accepted with probability min(1, exp((beta_k - beta_{k+1}) (E_k - E_{k+1}))).
+// Swaps exchange which replica sits on which rung; no spins are copied.
+//
+// Ladder: geometric (default) or linear between beta_min and beta_max, or a user list.
+// beta_min / beta_max default to the automatic range of the annealing kernels (auto_beta_range:
+// a typical uphill flip accepted with probability 1/2 at the hot end, the smallest uphill step with
+// probability 1e-3 at the cold end). Adaptive option: a warm-up of adapt_rounds rounds of
+// adapt_sweeps sweeps each; during a round the energy of the replica on each rung is recorded, and
+// after it the inner rungs are moved so that every neighbouring pair has the same share of
+// L = sum_k (beta_{k+1} - beta_k) sqrt(sigma_k sigma_{k+1}), sigma_k the energy standard deviation
+// on rung k. The swap acceptance of a pair falls with (delta beta * sigma) (the energy histograms
+// of the two rungs overlap less), so equal shares even out the acceptances; repeating the rounds
+// refines sigma on the new ladder (placement by equal energy-fluctuation length; common practice).
+// beta_min and beta_max stay fixed. Swap counters are reset after each adjustment, so the reported
+// acceptances are those of the final ladder.
+//
+// Houdayer cluster moves (optional; J. Houdayer, "A cluster Monte Carlo algorithm for
+// 2-dimensional spin glasses", Eur. Phys. J. B 22, 479-484 (2001)): two replicas per rung, each set
+// with its own swaps. After every sweep, on each rung whose beta is <= houdayer_beta_max, a random
+// site where the two replicas differ seeds a cluster grown over non-zero couplings through sites
+// where they differ; the cluster is flipped in both replicas. The sum of the two energies is
+// unchanged (fields and boundary couplings cancel because the replicas are opposite on the cluster
+// and equal just outside it), so the move is always accepted. Meant for sparse graphs: on dense
+// models the cluster is nearly the whole set of differing sites.
+//
+// Allocation: the constructor allocates (replicas, acceptors, ladder, counters, best copy, cluster
+// workspace); step(), reset() and warm_start() allocate nothing. run() and solution() allocate the
+// returned spin vector and the reported ladder and acceptances.
+#ifndef SPINWRIGHT_KERNELS_TEMPER_HPP
+#define SPINWRIGHT_KERNELS_TEMPER_HPP
+
+#include "../config.hpp"
+#include "../control/control.hpp"
+#include "../rng/xoshiro.hpp"
+#include "../state/spin_state.hpp"
+#include "../moves/single_flip.hpp"  // SiteOrder
+#include "anneal.hpp"                // BestView
+#include "schedule.hpp"
+#include "solution.hpp"
+
+#include <cmath>    // std::exp, std::pow, std::sqrt
+#include <cstddef>  // std::size_t
+#include <cstdint>  // std::int8_t, std::uint32_t, std::uint64_t
+#include <cstring>  // std::memcpy
+#include <vector>   // std::vector (allocated at construction only)
+
+namespace spinwright {
+
+enum class LadderShape : std::uint8_t {
+  geometric,  // beta_k = beta_min (beta_max / beta_min)^(k / (T - 1))
+  linear,     // beta_k = beta_min + (beta_max - beta_min) k / (T - 1)
+  custom,     // Ladder::betas, `temperatures` increasing values
+};
+
+struct Ladder {
+  LadderShape shape = LadderShape::geometric;
+  std::size_t temperatures = 0;  // number of rungs; 0: automatic, clamp(sqrt(N) + 4, 4, 32)
+  double beta_min = 0;           // both 0: automatic range from the model
+  double beta_max = 0;
+  const double* betas = nullptr;  // custom ladder (increasing), read at construction
+  bool adaptive = false;          // even out swap acceptance during a warm-up
+  std::uint64_t adapt_rounds = 10;
+  std::uint64_t adapt_sweeps = 50;
+};
+
+struct TemperParams {
+  std::uint64_t sweeps = 1000;            // default budget of run() (a Budget's sweeps override it)
+  Ladder ladder{};
+  SiteOrder order = SiteOrder::random;    // sites of a Metropolis sweep (sequential order moves
+                                          // zero-cost domain walls in lockstep, e.g. on cycles)
+  bool houdayer = false;                  // two replicas per rung and cluster moves between them
+  double houdayer_beta_max = 0;           // cluster moves on rungs with beta <= this (0: every rung)
+  const std::int8_t* initial = nullptr;   // warm start for every replica (n spins); random otherwise
+  std::uint64_t progress_every = 0;       // observers' on_progress period in sweeps (0: never)
+  std::size_t table_limit = 4096;         // entries of each integer acceptance table
+};
+
+/// The result of one tempering run: the best state (as every kernel's Solution) plus the
+/// final ladder and the swap acceptance of each neighbouring pair (k, k+1), in [0, 1].
+template <class Energy>
+struct TemperSolution : Solution<Energy> {
+  std::vector<double> betas;
+  std::vector<double> swap_acceptance;    // size T - 1 (both replica sets pooled with Houdayer moves)
+  std::uint64_t swap_attempts = 0;        // per pair, since the last ladder change
+  std::uint64_t cluster_moves = 0;        // Houdayer moves made
+  std::uint64_t cluster_sites = 0;        // sites flipped by them (in each replica)
+};
+
+template <class Model>
+class Tempering {
+ public:
+  using model_type = Model;
+  using state_type = SpinState<Model>;
+  using energy_type = typename Model::energy_type;
+  using index_type = typename Model::index_type;
+
+  Tempering(const Model& model, const TemperParams& params, std::uint64_t seed, std::uint64_t restart = 0)
+      : model_(&model), params_(params), n_(model.num_spins()) {
+    const Ladder& lad = params.ladder;
+    std::size_t t = lad.temperatures;
+    if (t == 0) {
+      t = static_cast<std::size_t>(std::sqrt(static_cast<double>(n_))) + 4;
+      if (t > 32) t = 32;
+    }
+    if (t < 2) t = 2;
+    temps_ = t;
+    sets_ = params.houdayer ? 2 : 1;
+    betas_.assign(temps_, 1.0);
+    if (lad.shape == LadderShape::custom && lad.betas != nullptr) {
+      for (std::size_t k = 0; k < temps_; ++k) betas_[k] = lad.betas[k];
+    } else {
+      double b0 = lad.beta_min;
+      double b1 = lad.beta_max;
+      if (b0 == 0 && b1 == 0) {
+        const BetaRange r = auto_beta_range(model);
+        b0 = r.beta_start;
+        b1 = r.beta_end;
+      }
+      if (b1 < b0) b1 = b0;
+      for (std::size_t k = 0; k < temps_; ++k) {
+        const double f = static_cast<double>(k) / static_cast<double>(temps_ - 1);
+        betas_[k] = (lad.shape == LadderShape::linear || b0 <= 0) ? b0 + (b1 - b0) * f : b0 * std::pow(b1 / b0, f);
+      }
+    }
+    adapt_left_ = lad.adaptive ? lad.adapt_rounds : 0;
+    replicas_.reserve(temps_ * sets_);
+    for (std::size_t r = 0; r < temps_ * sets_; ++r) replicas_.emplace_back(model);
+    acceptors_.reserve(temps_);
+    for (std::size_t k = 0; k < temps_; ++k) {
+      acceptors_.push_back(make_acceptor(model, Acceptance::metropolis, params.table_limit));
+      acceptors_.back().set_beta(betas_[k]);
+    }
+    swap_tried_.assign(temps_ - 1, 0);
+    swap_done_.assign(temps_ - 1, 0);
+    moments_.assign(3 * temps_, 0.0);
+    sigma_.assign(temps_, 0.0);
+    cumulative_.assign(temps_, 0.0);
+    old_betas_.assign(temps_, 0.0);
+    best_spins_.assign(n_, 1);
+    if (params.houdayer) {
+      stack_.assign(n_, 0);
+      mark_.assign(n_, 0);
+      differ_.assign(n_, 0);
+    }
+    if (params.initial != nullptr) {
+      warm_start(params.initial, seed, restart);
+    } else {
+      reset(seed, restart);
+    }
+  }
+
+  /// Restart: new RNG stream (seed, restart), independent random spins for every replica,
+  /// counters and best cleared, the ladder back to its initial shape only if it was not adapted.
+  void reset(std::uint64_t seed, std::uint64_t restart = 0) {
+    rng_ = Xoshiro256::for_restart(seed, restart);
+    restart_ = restart;
+    for (auto& s : replicas_) s.randomize(rng_);
+    start();
+  }
+
+  /// Restart with every replica at the given spins. No allocation.
+  void warm_start(const std::int8_t* spins, std::uint64_t seed, std::uint64_t restart = 0) {
+    rng_ = Xoshiro256::for_restart(seed, restart);
+    restart_ = restart;
+    for (auto& s : replicas_) s.set_spins(spins);
+    start();
+  }
+
+  /// n sweeps (each: a Metropolis sweep of every replica, cluster moves, swaps). No allocation.
+  void step(std::uint64_t n_sweeps = 1) {
+    for (std::uint64_t k = 0; k < n_sweeps; ++k) sweep_once();
+  }
+
+  template <class Observer>
+  TemperSolution<energy_type> run(const Budget& budget, Observer& observer) {
+    const std::uint64_t limit = budget.sweeps != 0 ? budget.sweeps : params_.sweeps;
+    BudgetGuard guard(budget);
+    guard.start();
+    StopReason why = StopReason::budget_exhausted;
+    const std::uint64_t first = sweeps_;
+    while (!guard.should_stop(sweeps_ - first, limit, static_cast<double>(best_energy_), why)) {
+      if (sweep_once()) notify_improvement(observer, sweeps_, static_cast<double>(best_energy_));
+      if (params_.progress_every != 0 && sweeps_ % params_.progress_every == 0) {
+        notify_progress(observer, sweeps_, static_cast<double>(best_energy_));
+      }
+    }
+    TemperSolution<energy_type> s = solution();
+    s.reason = why;
+    s.seconds = guard.elapsed();
+    return s;
+  }
+  TemperSolution<energy_type> run(const Budget& budget = Budget{}) {
+    NoObserver none;
+    return run(budget, none);
+  }
+
+  BestView<energy_type> best() const noexcept { return {best_spins_.data(), best_spins_.size(), best_energy_, best_sweep_}; }
+
+  /// The best state, the ladder and the swap acceptances (allocates). The energy is recomputed
+  /// from the model.
+  TemperSolution<energy_type> solution() const {
+    TemperSolution<energy_type> s;
+    s.spins.assign(best_spins_.begin(), best_spins_.end());
+    s.energy = model_->energy(best_spins_.data());
+    s.sweeps = sweeps_;
+    s.attempted = attempted_;
+    s.accepted = accepted_;
+    s.restart = restart_;
+    s.betas = betas_;
+    s.swap_acceptance = swap_acceptance();
+    s.swap_attempts = swap_tried_.empty() ? 0 : swap_tried_[0];
+    s.cluster_moves = cluster_moves_;
+    s.cluster_sites = cluster_sites_;
+    return s;
+  }
+
+  /// Acceptance of swaps between rungs k and k+1 since the last ladder change (0 before any attempt).
+  std::vector<double> swap_acceptance() const {
+    std::vector<double> a(swap_tried_.size(), 0.0);
+    for (std::size_t k = 0; k < a.size(); ++k) {
+      a[k] = swap_tried_[k] == 0 ? 0.0 : static_cast<double>(swap_done_[k]) / static_cast<double>(swap_tried_[k]);
+    }
+    return a;
+  }
+
+  std::size_t temperatures() const noexcept { return temps_; }
+  std::size_t replicas() const noexcept { return replicas_.size(); }
+  double beta(std::size_t k) const noexcept { return betas_[k]; }
+  const std::vector<double>& betas() const noexcept { return betas_; }
+  /// The replica on rung k of replica set `set` (0, or 1 with Houdayer moves).
+  const state_type& state(std::size_t k, std::size_t set = 0) const noexcept { return replicas_[slot_[set * temps_ + k]]; }
+  /// The replica on the coldest rung.
+  const state_type& state() const noexcept { return state(temps_ - 1); }
+  const Model& model() const noexcept { return *model_; }
+  std::uint64_t sweeps_done() const noexcept { return sweeps_; }
+  bool adapting() const noexcept { return adapt_left_ > 0; }
+
+ private:
+  void start() {
+    slot_.resize(temps_ * sets_);  // no-op after construction (same size)
+    for (std::size_t s = 0; s < sets_; ++s)
+      for (std::size_t k = 0; k < temps_; ++k) slot_[s * temps_ + k] = s * temps_ + k;
+    for (std::size_t k = 0; k + 1 < temps_; ++k) swap_tried_[k] = swap_done_[k] = 0;
+    sweeps_ = attempted_ = accepted_ = cluster_moves_ = cluster_sites_ = 0;
+    round_sweeps_ = 0;
+    for (auto& x : moments_) x = 0;
+    best_energy_ = replicas_[0].energy();
+    std::memcpy(best_spins_.data(), replicas_[0].spins(), n_);
+    best_sweep_ = 0;
+    for (const auto& s : replicas_) {
+      if (s.energy() < best_energy_) {
+        best_energy_ = s.energy();
+        std::memcpy(best_spins_.data(), s.spins(), n_);
+      }
+    }
+  }
+
+  void metropolis_sweep(state_type& s, const Acceptor<energy_type>& acc, Xoshiro256& rng) {
+    std::uint64_t accepted = 0;
+    const bool random = params_.order == SiteOrder::random;
+    const auto n32 = static_cast<std::uint32_t>(n_);
+    for (std::size_t i = 0; i < n_; ++i) {
+      const auto ii = static_cast<index_type>(random ? rng.below(n32) : i);
+      const energy_type d = s.delta(ii);
+      if (acc.accept(d, rng)) {
+        s.flip_with_delta(ii, d);
+        ++accepted;
+      }
+    }
+    attempted_ += n_;
+    accepted_ += accepted;
+  }
+
+  // One Houdayer move between the two replicas on rung k.
+  void cluster_move(std::size_t k, Xoshiro256& rng) {
+    state_type& a = replicas_[slot_[k]];
+    state_type& b = replicas_[slot_[temps_ + k]];
+    const std::int8_t* sa = a.spins();
+    const std::int8_t* sb = b.spins();
+    std::uint32_t count = 0;
+    for (std::size_t i = 0; i < n_; ++i) {
+      if (sa[i] != sb[i]) differ_[count++] = static_cast<index_type>(i);
+    }
+    if (count == 0 || count == n_) return;  // identical or opposite: the move changes nothing useful
+    const index_type seed_site = differ_[rng.below(count)];
+    std::size_t top = 0;
+    std::size_t size = 0;
+    stack_[top++] = seed_site;
+    mark_[seed_site] = 1;
+    while (top > 0) {
+      const index_type i = stack_[--top];
+      differ_[size++] = i;  // differ_ is free again once the seed is drawn: it now lists the cluster
+      model_->for_each_neighbour(i, [&](index_type j, typename Model::value_type v) {
+        if (j == i || v == typename Model::value_type{0} || mark_[j] || sa[j] == sb[j]) return;
+        mark_[j] = 1;
+        stack_[top++] = j;
+      });
+    }
+    for (std::size_t c = 0; c < size; ++c) {
+      mark_[differ_[c]] = 0;
+      a.flip(differ_[c]);
+      b.flip(differ_[c]);
+    }
+    ++cluster_moves_;
+    cluster_sites_ += size;
+  }
+
+  void swaps(std::size_t set, Xoshiro256& rng) {
+    std::size_t* slot = slot_.data() + set * temps_;
+    for (std::size_t k = 0; k + 1 < temps_; ++k) {
+      const double x = (betas_[k] - betas_[k + 1]) *
+                       (static_cast<double>(replicas_[slot[k]].energy()) - static_cast<double>(replicas_[slot[k + 1]].energy()));
+      ++swap_tried_[k];
+      if (x >= 0 || rng.uniform() < std::exp(x)) {
+        const std::size_t tmp = slot[k];
+        slot[k] = slot[k + 1];
+        slot[k + 1] = tmp;
+        ++swap_done_[k];
+      }
+    }
+  }
+
+  // Re-places the inner rungs so that every gap has the same share of the "length"
+  // sum_k (beta_{k+1} - beta_k) sqrt(sigma_k sigma_{k+1}), sigma_k the energy standard deviation
+  // measured on rung k during the round (piecewise-linear in beta between rungs).
+  void adapt_ladder() {
+    const std::size_t m = temps_ - 1;
+    double largest = 0;
+    for (std::size_t k = 0; k < temps_; ++k) {
+      const double c = moments_[3 * k];
+      double var = 0;
+      if (c > 1) {
+        const double mean = moments_[3 * k + 1] / c;
+        var = moments_[3 * k + 2] / c - mean * mean;
+      }
+      sigma_[k] = var > 0 ? std::sqrt(var) : 0.0;
+      largest = sigma_[k] > largest ? sigma_[k] : largest;
+      moments_[3 * k] = moments_[3 * k + 1] = moments_[3 * k + 2] = 0;
+    }
+    if (largest > 0) {
+      // A floor keeps frozen rungs (sigma = 0) from collapsing their gaps to nothing.
+      for (std::size_t k = 0; k < temps_; ++k) sigma_[k] += 0.01 * largest;
+      // Cumulative length at each rung.
+      cumulative_[0] = 0;
+      for (std::size_t k = 0; k < m; ++k) {
+        cumulative_[k + 1] = cumulative_[k] + (betas_[k + 1] - betas_[k]) * std::sqrt(sigma_[k] * sigma_[k + 1]);
+      }
+      const double total = cumulative_[m];
+      for (std::size_t k = 0; k < temps_; ++k) old_betas_[k] = betas_[k];
+      std::size_t seg = 0;
+      for (std::size_t k = 1; k < m; ++k) {
+        const double target = total * static_cast<double>(k) / static_cast<double>(m);
+        while (seg + 1 < m && cumulative_[seg + 1] < target) ++seg;
+        const double piece = cumulative_[seg + 1] - cumulative_[seg];
+        const double f = piece > 0 ? (target - cumulative_[seg]) / piece : 0.5;
+        betas_[k] = old_betas_[seg] + f * (old_betas_[seg + 1] - old_betas_[seg]);
+      }
+    }
+    for (std::size_t k = 0; k < temps_; ++k) acceptors_[k].set_beta(betas_[k]);
+    for (std::size_t k = 0; k < m; ++k) swap_tried_[k] = swap_done_[k] = 0;
+  }
+
+  void record_moments() noexcept {
+    for (std::size_t s = 0; s < sets_; ++s) {
+      for (std::size_t k = 0; k < temps_; ++k) {
+        const double e = static_cast<double>(replicas_[slot_[s * temps_ + k]].energy());
+        moments_[3 * k] += 1;
+        moments_[3 * k + 1] += e;
+        moments_[3 * k + 2] += e * e;
+      }
+    }
+  }
+
+  // One sweep; true when it ended at a new best.
+  bool sweep_once() {
+    Xoshiro256 rng = rng_;
+    for (std::size_t s = 0; s < sets_; ++s)
+      for (std::size_t k = 0; k < temps_; ++k) metropolis_sweep(replicas_[slot_[s * temps_ + k]], acceptors_[k], rng);
+    if (sets_ == 2) {
+      for (std::size_t k = 0; k < temps_; ++k) {
+        if (params_.houdayer_beta_max == 0 || betas_[k] <= params_.houdayer_beta_max) cluster_move(k, rng);
+      }
+    }
+    for (std::size_t s = 0; s < sets_; ++s) swaps(s, rng);
+    rng_ = rng;
+    ++sweeps_;
+    if (adapt_left_ > 0) record_moments();
+    if (adapt_left_ > 0 && ++round_sweeps_ >= params_.ladder.adapt_sweeps) {
+      adapt_ladder();
+      round_sweeps_ = 0;
+      --adapt_left_;
+    }
+    bool improved = false;
+    for (const auto& s : replicas_) {
+      if (s.energy() < best_energy_) {
+        best_energy_ = s.energy();
+        std::memcpy(best_spins_.data(), s.spins(), n_);
+        best_sweep_ = sweeps_;
+        improved = true;
+      }
+    }
+    return improved;
+  }
+
+  const Model* model_;
+  TemperParams params_;
+  std::size_t n_;
+  std::size_t temps_ = 2;
+  std::size_t sets_ = 1;
+  std::vector<double> betas_;
+  std::vector<state_type> replicas_;
+  std::vector<Acceptor<energy_type>> acceptors_;
+  std::vector<std::size_t> slot_;  // slot_[set * T + k]: the replica on rung k of that set
+  std::vector<std::uint64_t> swap_tried_;
+  std::vector<std::uint64_t> swap_done_;
+  std::vector<double> moments_;  // adaptive warm-up: count, sum E, sum E^2 per rung
+  std::vector<double> sigma_;
+  std::vector<double> cumulative_;
+  std::vector<double> old_betas_;
+  std::vector<index_type> stack_;
+  std::vector<index_type> differ_;
+  std::vector<std::uint8_t> mark_;
+  std::vector<std::int8_t> best_spins_;
+  Xoshiro256 rng_{};
+  energy_type best_energy_{};
+  std::uint64_t best_sweep_ = 0;
+  std::uint64_t sweeps_ = 0;
+  std::uint64_t attempted_ = 0;
+  std::uint64_t accepted_ = 0;
+  std::uint64_t cluster_moves_ = 0;
+  std::uint64_t cluster_sites_ = 0;
+  std::uint64_t adapt_left_ = 0;
+  std::uint64_t round_sweeps_ = 0;
+  std::uint64_t restart_ = 0;
+};
+
+/// One tempering run (restart `restart` of `seed`).
+template <class Model>
+TemperSolution<typename Model::energy_type> temper(const Model& model, const TemperParams& params, std::uint64_t seed,
+                                                   std::uint64_t restart = 0, const Budget& budget = Budget{}) {
+  Tempering<Model> t(model, params, seed, restart);
+  return t.run(budget);
+}
+
+/// The same with an observer (on_improvement / on_progress, see control/control.hpp).
+template <class Model, class Observer>
+TemperSolution<typename Model::energy_type> temper(const Model& model, const TemperParams& params, std::uint64_t seed,
+                                                   std::uint64_t restart, const Budget& budget, Observer& observer) {
+  Tempering<Model> t(model, params, seed, restart);
+  return t.run(budget, observer);
+}
+
+}  // namespace spinwright
+
+#endif  // SPINWRIGHT_KERNELS_TEMPER_HPP
