@@ -48,21 +48,23 @@ void JsonWriter::before_value() {
   }
   if (stack_.empty()) return;
   Level& top = stack_.back();
-  if (!top.empty) out_ += top.object ? ",\n" : ", ";
+  if (!top.empty) out_ += (top.object && !top.compact) ? ",\n" : ", ";
   top.empty = false;
 }
 
 JsonWriter& JsonWriter::begin_object() {
+  const bool compact = !stack_.empty() && (!stack_.back().object || stack_.back().compact);
   before_value();
   out_ += "{";
-  stack_.push_back({true, true});
+  stack_.push_back({true, true, compact});
   return *this;
 }
 
 JsonWriter& JsonWriter::end_object() {
   const bool empty = stack_.back().empty;
+  const bool compact = stack_.back().compact;
   stack_.pop_back();
-  if (!empty) {
+  if (!empty && !compact) {
     out_ += "\n";
     out_.append(2 * stack_.size(), ' ');
   }
@@ -74,7 +76,7 @@ JsonWriter& JsonWriter::end_object() {
 JsonWriter& JsonWriter::begin_array() {
   before_value();
   out_ += "[";
-  stack_.push_back({false, true});
+  stack_.push_back({false, true, true});
   return *this;
 }
 
@@ -86,9 +88,13 @@ JsonWriter& JsonWriter::end_array() {
 
 JsonWriter& JsonWriter::key(const std::string& name) {
   Level& top = stack_.back();
-  out_ += top.empty ? "\n" : ",\n";
+  if (top.compact) {
+    if (!top.empty) out_ += ", ";
+  } else {
+    out_ += top.empty ? "\n" : ",\n";
+    out_.append(2 * stack_.size(), ' ');
+  }
   top.empty = false;
-  out_.append(2 * stack_.size(), ' ');
   out_ += json_escape(name);
   out_ += ": ";
   after_key_ = true;

@@ -2,7 +2,7 @@
 // Integers are written as integers; doubles with %.17g (they read back to the same double);
 // NaN and infinities, which JSON cannot hold, become null. Strings are escaped per RFC 8259
 // (quote, backslash and control characters; other bytes are copied as they are).
-// Object members go one per line; arrays stay on one line.
+// Object members go one per line; arrays, and objects inside arrays, stay on one line.
 #ifndef SPINWRIGHT_CLI_JSON_HPP
 #define SPINWRIGHT_CLI_JSON_HPP
 
@@ -43,6 +43,7 @@ class JsonWriter {
   struct Level {
     bool object;
     bool empty;
+    bool compact;  // inside an array: members on one line
   };
   void before_value();
   std::string out_;

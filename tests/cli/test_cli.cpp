@@ -1,0 +1,613 @@
+// Behaviour tests of the `spinwright` command-line program: the executable is run on files in a
+// temporary folder, and its exit codes, stdout and stderr are checked. Energies and cuts in the
+// reports are recomputed here, independently, from the files the test wrote and the spins the
+// program reported. Every run uses sweep budgets and fixed seeds; the only clock-driven parts
+// are the Ctrl-C test (SIGINT after ~0.7 s) and a --time-limit run, which check behaviour
+// (exit code, a state printed), never a duration; a run is declared hung only after 60 s.
+#include <doctest/doctest.h>
+
+#include "support/cli_json.hpp"
+#include "support/cli_process.hpp"
+
+#include <algorithm>  // std::sort
+#include <cmath>      // std::isfinite
+#include <cstdint>    // std::int64_t
+#include <map>        // std::map
+#include <random>     // std::mt19937_64 (fixed seeds: the same stream on every platform)
+#include <sstream>    // std::istringstream, std::ostringstream
+#include <string>     // std::string
+#include <tuple>      // std::tuple
+#include <utility>    // std::pair
+#include <vector>     // std::vector
+
+#ifndef SPINWRIGHT_CLI_PATH
+#define SPINWRIGHT_CLI_PATH ""  // tests/extra.cmake defines it when the program is built
+#endif
+
+namespace {
+
+using cli_test::Json;
+using cli_test::RunOutput;
+using cli_test::TempDir;
+
+const std::string exe = SPINWRIGHT_CLI_PATH;
+
+RunOutput run(TempDir& dir, const std::vector<std::string>& args) { return cli_test::run_process(exe, args, dir); }
+
+struct Edge {
+  int i, j;  // 1-based, as in the file
+  std::int64_t w;
+};
+
+struct Graph {
+  int n = 0;
+  std::vector<Edge> edges;
+
+  std::string edge_list() const {
+    std::ostringstream s;
+    s << "# test graph\n" << n << " " << edges.size() << "\n";
+    for (const auto& e : edges) s << e.i << " " << e.j << " " << e.w << "\n";
+    return s.str();
+  }
+  // Max-cut convention: E(s) = sum w_ij s_i s_j, cut(s) = sum over edges with s_i != s_j of w.
+  std::int64_t energy(const std::vector<int>& s) const {
+    std::int64_t e = 0;
+    for (const auto& x : edges) e += x.w * s[x.i - 1] * s[x.j - 1];
+    return e;
+  }
+  std::int64_t cut(const std::vector<int>& s) const {
+    std::int64_t c = 0;
+    for (const auto& x : edges) c += s[x.i - 1] != s[x.j - 1] ? x.w : 0;
+    return c;
+  }
+};
+
+// A random simple graph with integer weights in [lo, hi] \ {0}, from a fixed seed.
+Graph random_graph(int n, int m, int lo, int hi, std::uint64_t seed) {
+  std::mt19937_64 rng(seed);
+  Graph g;
+  g.n = n;
+  std::map<std::pair<int, int>, bool> seen;
+  while (static_cast<int>(g.edges.size()) < m) {
+    int i = static_cast<int>(rng() % static_cast<std::uint64_t>(n)) + 1;
+    int j = static_cast<int>(rng() % static_cast<std::uint64_t>(n)) + 1;
+    if (i == j) continue;
+    if (i > j) std::swap(i, j);
+    if (seen[{i, j}]) continue;
+    seen[{i, j}] = true;
+    std::int64_t w = 0;
+    while (w == 0) w = lo + static_cast<std::int64_t>(rng() % static_cast<std::uint64_t>(hi - lo + 1));
+    g.edges.push_back({i, j, w});
+  }
+  return g;
+}
+
+Graph cycle(int n) {
+  Graph g;
+  g.n = n;
+  for (int k = 1; k <= n; ++k) g.edges.push_back({k, k % n + 1, 1});
+  return g;
+}
+
+Json parse_ok(const RunOutput& r) {
+  Json j;
+  const bool ok = cli_test::parse_json(r.out, j);
+  INFO("stdout: " << r.out.substr(0, 400));
+  REQUIRE(ok);
+  REQUIRE(j.kind == Json::Kind::object);
+  return j;
+}
+
+std::vector<int> spins_of(const Json& j) {
+  std::vector<int> s;
+  for (const auto& v : j["spins"].items) s.push_back(static_cast<int>(v.num));
+  return s;
+}
+
+std::size_t count_lines(const std::string& s) {
+  std::size_t k = 0;
+  for (const char c : s) k += c == '\n';
+  return k;
+}
+
+void check_usage_error(const RunOutput& r) {
+  INFO("stderr: " << r.err);
+  CHECK_FALSE(r.hung);
+  CHECK(r.code == 2);
+  CHECK(r.out.empty());
+  CHECK(r.err.rfind("spinwright: ", 0) == 0);
+  CHECK(r.err.find("\nhint: ") != std::string::npos);
+  CHECK(count_lines(r.err) == 2);
+}
+
+void check_input_error(const RunOutput& r, const std::string& prefix) {
+  INFO("stderr: " << r.err);
+  CHECK_FALSE(r.hung);
+  CHECK(r.code == 1);
+  CHECK(r.out.empty());
+  CHECK(r.err.rfind(prefix, 0) == 0);
+  CHECK(count_lines(r.err) == 1);
+}
+
+}  // namespace
+
+TEST_CASE("cli: the program was built and answers --help and --version") {
+  REQUIRE_FALSE(exe.empty());
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const RunOutput top = run(dir, {"--help"});
+  CHECK(top.code == 0);
+  for (const char* cmd : {"solve", "exact", "inspect", "convert", "verify", "bench"}) {
+    CHECK(top.out.find(cmd) != std::string::npos);
+    const RunOutput h = run(dir, {cmd, "--help"});
+    CHECK(h.code == 0);
+    CHECK(h.out.rfind(std::string("usage: spinwright ") + cmd, 0) == 0);
+  }
+  const RunOutput v = run(dir, {"--version"});
+  CHECK(v.code == 0);
+  CHECK(v.out.rfind("spinwright ", 0) == 0);
+}
+
+TEST_CASE("cli: usage errors exit 2 with one message line and one hint line") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const std::string g = dir.write("g.txt", cycle(5).edge_list());
+  check_usage_error(run(dir, {}));
+  check_usage_error(run(dir, {"solv", g}));
+  check_usage_error(run(dir, {"solve"}));
+  check_usage_error(run(dir, {"solve", g, "extra"}));
+  check_usage_error(run(dir, {"solve", g, "--sweps", "10"}));
+  check_usage_error(run(dir, {"solve", g, "-s", "10"}));
+  check_usage_error(run(dir, {"solve", g, "--seed", "12x"}));
+  check_usage_error(run(dir, {"solve", g, "--seed", "-1"}));
+  check_usage_error(run(dir, {"solve", g, "--restarts", "0"}));
+  check_usage_error(run(dir, {"solve", g, "--restarts"}));
+  check_usage_error(run(dir, {"solve", g, "--time-limit", "0"}));
+  check_usage_error(run(dir, {"solve", g, "--time-limit", "nan"}));
+  check_usage_error(run(dir, {"solve", g, "--target", "inf"}));
+  check_usage_error(run(dir, {"solve", g, "--kernel", "quick"}));
+  check_usage_error(run(dir, {"solve", g, "--report", "xml"}));
+  check_usage_error(run(dir, {"solve", g, "--format", "csv"}));
+  check_usage_error(run(dir, {"solve", g, "--seed", "1", "--seed", "2"}));
+  check_usage_error(run(dir, {"solve", g, "--quiet=yes"}));
+  check_usage_error(run(dir, {"convert", g, dir.file("o.mtx")}));
+  check_usage_error(run(dir, {"convert", g, dir.file("o.mtx"), "--to", "spins"}));
+  check_usage_error(run(dir, {"convert", g, dir.file("o.txt"), "--to", "qubo"}));
+  check_usage_error(run(dir, {"verify", g}));
+  check_usage_error(run(dir, {"bench", g, "--kernel", "anneal,slow"}));
+  // The suggestion names the closest option.
+  const RunOutput r = run(dir, {"solve", g, "--time-limt", "3"});
+  CHECK(r.err.find("--time-limit") != std::string::npos);
+}
+
+TEST_CASE("cli: every bad input exits 1 with file:line: reason and no output") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  // (file name, content, expected "name:line:" prefix after the folder)
+  const std::vector<std::tuple<std::string, std::string, std::string>> cases = {
+      {"empty.txt", "", "empty.txt:1:"},
+      {"blank.txt", "\n\n  \n", "blank.txt:"},
+      {"truncated.txt", "3 3\n1 2 1\n2 3 1\n", "truncated.txt:4:"},
+      {"index0.txt", "3 2\n0 2 1\n2 3 1\n", "index0.txt:2:"},
+      {"beyond.txt", "3 2\n1 2 1\n2 4 1\n", "beyond.txt:3:"},
+      {"word.txt", "3 2\n1 2 one\n2 3 1\n", "word.txt:2:"},
+      {"wordindex.txt", "3 2\n1 b 1\n2 3 1\n", "wordindex.txt:2:"},
+      {"header.txt", "three 2\n1 2 1\n2 3 1\n", "header.txt:1:"},
+      {"nan.txt", "3 2\n1 2 nan\n2 3 1\n", "nan.txt:2:"},
+      {"inf.txt", "3 2\n1 2 1\n2 3 -inf\n", "inf.txt:3:"},
+      {"overflow_real.txt", "3 2\n1 2 1e999\n2 3 1\n", "overflow_real.txt:2:"},
+      {"overflow_int.txt", "3 2\n1 2 99999999999999999999999\n2 3 1\n", "overflow_int.txt:2:"},
+      {"absurd.txt", "1000000000000 1\n1 2 1\n", "absurd.txt:1:"},
+      {"absurd_edges.txt", "4 1000000000000\n1 2 1\n", "absurd_edges.txt:"},
+      {"array.mtx", "%%MatrixMarket matrix array real general\n2 2\n1\n2\n3\n4\n", "array.mtx:1:"},
+      {"complex.mtx", "%%MatrixMarket matrix coordinate complex general\n2 2 1\n1 2 1 0\n", "complex.mtx:1:"},
+      {"nonsquare.mtx", "%%MatrixMarket matrix coordinate real general\n2 3 1\n1 2 1\n", "nonsquare.mtx:2:"},
+      {"absurd.mtx", "%%MatrixMarket matrix coordinate real general\n1000000000000 1000000000000 1\n1 2 1\n",
+       "absurd.mtx:2:"},
+      {"mtx_nan.mtx", "%%MatrixMarket matrix coordinate real general\n2 2 1\n1 2 NaN\n", "mtx_nan.mtx:3:"},
+      {"mtx_short.mtx", "%%MatrixMarket matrix coordinate real general\n3 3 2\n1 2 1\n", "mtx_short.mtx:"},
+  };
+  for (const auto& c : cases) {
+    const std::string path = dir.write(std::get<0>(c), std::get<1>(c));
+    const std::string prefix = path.substr(0, path.size() - std::get<0>(c).size()) + std::get<2>(c);
+    INFO("case " << std::get<0>(c));
+    check_input_error(run(dir, {"solve", path, "--quiet"}), prefix);
+    check_input_error(run(dir, {"inspect", path}), prefix);
+    check_input_error(run(dir, {"exact", path}), prefix);
+  }
+  // Files that cannot be read at all: a missing file and a folder.
+  const std::string missing = dir.file("missing.txt");
+  check_input_error(run(dir, {"solve", missing}), missing + ":");
+  check_input_error(run(dir, {"inspect", "/"}), "/:");
+  // A Matrix Market file forced as such when it is an edge list.
+  const std::string g = dir.write("g.txt", cycle(5).edge_list());
+  check_input_error(run(dir, {"solve", g, "--format", "mtx"}), g + ":1:");
+}
+
+TEST_CASE("cli: solve --report json holds the documented keys, and its cut and energy are right") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const Graph g = random_graph(60, 240, -3, 5, 11);
+  const std::string path = dir.write("g.txt", g.edge_list());
+  const RunOutput r = run(dir, {"solve", path, "--kernel", "anneal", "--restarts", "3", "--threads", "2", "--seed",
+                                "42", "--sweeps", "300", "--report", "json"});
+  CHECK(r.code == 0);
+  CHECK(r.err.empty());
+  const Json j = parse_ok(r);
+  for (const char* key : {"energy", "cut", "spins", "seconds", "sweeps", "restarts", "threads", "kernel", "seed", "tally",
+                          "nodes", "pairs", "format", "form", "interrupted"}) {
+    CHECK_MESSAGE(j.has(key), key);
+  }
+  CHECK_FALSE(j.has("bits"));  // Ising input: spins only
+  CHECK(j["kernel"].text == "anneal");
+  CHECK(j["format"].text == "edges");
+  CHECK(j["form"].text == "ising");
+  CHECK(j["seed"].num == 42);
+  CHECK(j["restarts"].num == 3);
+  CHECK(j["threads"].num == 2);
+  CHECK(j["nodes"].num == 60);
+  CHECK(j["pairs"].num == 240);
+  CHECK(j["sweeps"].is_integer_literal());
+  CHECK(j["sweeps"].num >= 900);  // 3 restarts of 300 sweeps, plus the descent passes of the polish
+  CHECK(j["interrupted"].kind == Json::Kind::boolean);
+  CHECK_FALSE(j["interrupted"].b);
+  CHECK(j["seconds"].kind == Json::Kind::number);
+  CHECK(j["seconds"].num >= 0);
+  const std::vector<int> s = spins_of(j);
+  REQUIRE(s.size() == 60);
+  for (const int v : s) CHECK((v == 1 || v == -1));
+  // Integer model: the energy and the cut are written as integers and match a recount.
+  CHECK(j["energy"].is_integer_literal());
+  CHECK(j["cut"].is_integer_literal());
+  CHECK(static_cast<std::int64_t>(j["energy"].num) == g.energy(s));
+  CHECK(static_cast<std::int64_t>(j["cut"].num) == g.cut(s));
+  const Json& t = j["tally"];
+  CHECK(t["best"].num == j["energy"].num);
+  CHECK(t["mean"].num >= t["best"].num);
+  CHECK(t["worst"].num >= t["mean"].num);
+  CHECK(t["target"].kind == Json::Kind::null);
+}
+
+TEST_CASE("cli: solve with a target reports the success probability; text report is aligned") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const Graph g = cycle(9);  // odd cycle: the maximum cut is n - 1 = 8 (common practice)
+  const std::string path = dir.write("c9.txt", g.edge_list());
+  // E = W - 2 cut = 9 - 16 = -7 at the optimum.
+  const RunOutput r = run(dir, {"solve", path, "--kernel", "tabu", "--restarts", "4", "--sweeps", "50", "--target",
+                                "-7", "--report", "json"});
+  REQUIRE(r.code == 0);
+  const Json j = parse_ok(r);
+  CHECK(j["energy"].num == -7);
+  CHECK(j["cut"].num == 8);
+  CHECK(j["tally"]["target"].num == -7);
+  CHECK(j["tally"]["success_probability"].num == 1.0);
+  CHECK(j["tally"].has("tts99_seconds"));
+  const RunOutput text = run(dir, {"solve", path, "--kernel", "tabu", "--restarts", "4", "--sweeps", "50"});
+  REQUIRE(text.code == 0);
+  // Every line is "label<spaces>value" with the values starting in the same column.
+  std::istringstream lines(text.out);
+  std::string line;
+  std::size_t column = 0;
+  int count = 0;
+  while (std::getline(lines, line)) {
+    const std::size_t gap = line.find("   ");
+    REQUIRE(gap != std::string::npos);
+    const std::size_t value = line.find_first_not_of(' ', gap);
+    if (count++ == 0) column = value;
+    CHECK(value == column);
+  }
+  CHECK(count >= 6);
+  CHECK(text.out.find("\ncut ") != std::string::npos);
+  // The time carries its unit (s, ms or us).
+  const std::size_t time_at = text.out.find("\ntime ");
+  REQUIRE(time_at != std::string::npos);
+  const std::string time_line = text.out.substr(time_at + 1, text.out.find('\n', time_at + 1) - time_at - 1);
+  const bool has_unit = time_line.size() > 3 && (time_line.compare(time_line.size() - 2, 2, " s") == 0 ||
+                                                 time_line.compare(time_line.size() - 3, 3, " ms") == 0 ||
+                                                 time_line.compare(time_line.size() - 3, 3, " us") == 0);
+  CHECK_MESSAGE(has_unit, time_line);
+}
+
+TEST_CASE("cli: the same seed gives the same answer for any thread count") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const std::string path = dir.write("g.txt", random_graph(80, 300, -2, 2, 5).edge_list());
+  for (const char* kernel : {"anneal", "tabu", "temper", "descent"}) {
+    INFO("kernel " << kernel);
+    std::vector<Json> runs;
+    for (const char* threads : {"1", "2", "3"}) {
+      const RunOutput r = run(dir, {"solve", path, "--kernel", kernel, "--restarts", "5", "--sweeps", "60", "--seed",
+                                    "9", "--threads", threads, "--report", "json"});
+      REQUIRE(r.code == 0);
+      runs.push_back(parse_ok(r));
+    }
+    for (std::size_t k = 1; k < runs.size(); ++k) {
+      CHECK(runs[k]["energy"].text == runs[0]["energy"].text);
+      CHECK(spins_of(runs[k]) == spins_of(runs[0]));
+      CHECK(runs[k]["sweeps"].text == runs[0]["sweeps"].text);
+      CHECK(runs[k]["tally"]["best_restart"].text == runs[0]["tally"]["best_restart"].text);
+      CHECK(runs[k]["tally"]["mean"].text == runs[0]["tally"]["mean"].text);
+    }
+  }
+  // A different seed is a different run (the spins differ for this model and these seeds).
+  const RunOutput a = run(dir, {"solve", path, "--kernel", "descent", "--restarts", "1", "--seed", "1", "--report", "json"});
+  const RunOutput b = run(dir, {"solve", path, "--kernel", "descent", "--restarts", "1", "--seed", "2", "--report", "json"});
+  CHECK(spins_of(parse_ok(a)) != spins_of(parse_ok(b)));
+}
+
+TEST_CASE("cli: QUBO input reports bits = (1 - s) / 2 and the energy of the file's own form") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  // Upper-triangle general storage lists Q itself; the offset directive adds c.
+  const int n = 12;
+  std::mt19937_64 rng(77);
+  std::map<std::pair<int, int>, std::int64_t> q;
+  for (int i = 1; i <= n; ++i) {
+    for (int k = i; k <= n; ++k) {
+      if (rng() % 3 == 0) q[{i, k}] = static_cast<std::int64_t>(rng() % 11) - 5;
+    }
+  }
+  for (auto it = q.begin(); it != q.end();) it = it->second == 0 ? q.erase(it) : std::next(it);
+  std::ostringstream s;
+  s << "%%MatrixMarket matrix coordinate integer general\n% spinwright form qubo\n% spinwright offset 3\n"
+    << n << " " << n << " " << q.size() << "\n";
+  for (const auto& e : q) s << e.first.first << " " << e.first.second << " " << e.second << "\n";
+  const std::string path = dir.write("q.mtx", s.str());
+  auto energy = [&](const std::vector<int>& x) {
+    std::int64_t e = 3;
+    for (const auto& t : q) e += t.second * x[t.first.first - 1] * x[t.first.second - 1];
+    return e;
+  };
+  // Independent ground energy by enumeration of all 2^12 assignments.
+  std::int64_t ground = 0;
+  std::int64_t ground_count = 0;
+  for (int mask = 0; mask < (1 << n); ++mask) {
+    std::vector<int> x(n);
+    for (int i = 0; i < n; ++i) x[i] = (mask >> i) & 1;
+    const std::int64_t e = energy(x);
+    if (mask == 0 || e < ground) {
+      ground = e;
+      ground_count = 1;
+    } else if (e == ground) {
+      ++ground_count;
+    }
+  }
+  for (const char* kernel : {"tabu", "exact"}) {
+    const RunOutput r = run(dir, {"solve", path, "--kernel", kernel, "--report", "json", "--restarts", "4"});
+    REQUIRE(r.code == 0);
+    const Json j = parse_ok(r);
+    CHECK(j["form"].text == "qubo");
+    CHECK_FALSE(j.has("cut"));
+    REQUIRE(j["bits"].items.size() == static_cast<std::size_t>(n));
+    std::vector<int> x;
+    const std::vector<int> sp = spins_of(j);
+    for (std::size_t i = 0; i < j["bits"].items.size(); ++i) {
+      x.push_back(static_cast<int>(j["bits"].items[i].num));
+      CHECK(x.back() == (1 - sp[i]) / 2);
+    }
+    CHECK(static_cast<std::int64_t>(j["energy"].num) == energy(x));
+    CHECK(static_cast<std::int64_t>(j["energy"].num) == ground);  // 12 variables: tabu finds it too
+  }
+  const RunOutput e = run(dir, {"exact", path, "--report", "json"});
+  REQUIRE(e.code == 0);
+  const Json j = parse_ok(e);
+  CHECK(static_cast<std::int64_t>(j["energy"].num) == ground);
+  CHECK(static_cast<std::int64_t>(j["ground_states"].num) == ground_count);
+}
+
+TEST_CASE("cli: exact gives ground energy, state and count, and refuses sizes beyond its limit") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  // Odd cycle C_n with unit weights: maximum cut n - 1, reached with exactly one uncut edge;
+  // n choices of that edge times 2 global flips = 2n ground states (common practice, counted by hand).
+  const std::string c7 = dir.write("c7.txt", cycle(7).edge_list());
+  const RunOutput r = run(dir, {"exact", c7, "--report", "json", "--threads", "2"});
+  REQUIRE(r.code == 0);
+  const Json j = parse_ok(r);
+  CHECK(j["cut"].num == 6);
+  CHECK(j["energy"].num == 7 - 2 * 6);
+  CHECK(j["ground_states"].num == 14);
+  CHECK(cycle(7).cut(spins_of(j)) == 6);
+  // Petersen graph: maximum cut 12 (it needs 3 edges removed to become bipartite; from memory,
+  // e.g. Bondy & Murty, Graph Theory, Springer 2008).
+  Graph p;
+  p.n = 10;
+  for (int k = 0; k < 5; ++k) {
+    p.edges.push_back({k + 1, (k + 1) % 5 + 1, 1});          // outer cycle
+    p.edges.push_back({k + 6, (k + 2) % 5 + 6, 1});          // inner pentagram
+    p.edges.push_back({k + 1, k + 6, 1});                    // spokes
+  }
+  const RunOutput pr = run(dir, {"exact", dir.write("petersen.txt", p.edge_list()), "--report", "json"});
+  REQUIRE(pr.code == 0);
+  CHECK(parse_ok(pr)["cut"].num == 12);
+  // 31 nodes is beyond the limit of 30; the message names it.
+  const std::string big = dir.write("c31.txt", cycle(31).edge_list());
+  const RunOutput refused = run(dir, {"exact", big});
+  check_input_error(refused, big + ":");
+  CHECK(refused.err.find("30") != std::string::npos);
+  const RunOutput refused2 = run(dir, {"solve", big, "--kernel", "exact"});
+  CHECK(refused2.code == 1);
+  CHECK(refused2.err.find("30") != std::string::npos);
+}
+
+TEST_CASE("cli: inspect counts components and degrees") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  // Two paths of 3 nodes and one isolated node.
+  const std::string path = dir.write("g.txt", "7 4\n1 2 1\n2 3 -2\n4 5 3\n5 6 1\n");
+  const RunOutput r = run(dir, {"inspect", path, "--report", "json"});
+  REQUIRE(r.code == 0);
+  const Json j = parse_ok(r);
+  CHECK(j["nodes"].num == 7);
+  CHECK(j["pairs"].num == 4);
+  CHECK(j["components"].num == 3);
+  CHECK(j["largest_component"].num == 3);
+  CHECK(j["min_degree"].num == 0);
+  CHECK(j["max_degree"].num == 2);
+  CHECK(j["pair_min"].num == -2);
+  CHECK(j["pair_max"].num == 3);
+  CHECK(j["model_bytes"].num > 0);
+  const RunOutput t = run(dir, {"inspect", path});
+  REQUIRE(t.code == 0);
+  CHECK(t.out.find("components") != std::string::npos);
+  CHECK(t.out.find("memory") != std::string::npos);
+}
+
+TEST_CASE("cli: convert round trip edges -> qubo mtx -> ising mtx -> edges keeps every energy") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const Graph g = random_graph(25, 70, -4, 6, 3);
+  const std::string in = dir.write("g.txt", g.edge_list());
+  const std::string q = dir.file("g_qubo.mtx");
+  const std::string i = dir.file("g_ising.mtx");
+  const std::string back = dir.file("g_back.txt");
+  REQUIRE(run(dir, {"convert", in, q, "--to", "qubo"}).code == 0);
+  REQUIRE(run(dir, {"convert", q, i, "--to", "ising"}).code == 0);
+  REQUIRE(run(dir, {"convert", i, back, "--to", "ising"}).code == 0);
+  // The edge list that comes back has the same edges and weights.
+  std::istringstream text(cli_test::read_file(back));
+  std::string line;
+  std::vector<std::tuple<int, int, std::int64_t>> read_back, original;
+  int header_n = -1;
+  while (std::getline(text, line)) {
+    if (line.empty() || line[0] == '#' || line[0] == '%') continue;
+    std::istringstream ls(line);
+    if (header_n < 0) {
+      ls >> header_n;
+      continue;
+    }
+    int a = 0, b = 0;
+    double w = 0;
+    ls >> a >> b >> w;
+    read_back.emplace_back(std::min(a, b), std::max(a, b), static_cast<std::int64_t>(w));
+  }
+  for (const auto& e : g.edges) original.emplace_back(std::min(e.i, e.j), std::max(e.i, e.j), e.w);
+  std::sort(read_back.begin(), read_back.end());
+  std::sort(original.begin(), original.end());
+  CHECK(header_n == 25);
+  CHECK(read_back == original);
+  // verify gives the same energy on all four files for random states.
+  std::mt19937_64 rng(8);
+  for (int trial = 0; trial < 3; ++trial) {
+    std::vector<int> s(25);
+    std::string state;
+    for (auto& v : s) {
+      v = rng() % 2 ? 1 : -1;
+      state += v > 0 ? "+\n" : "-\n";
+    }
+    const std::string st = dir.write("s" + std::to_string(trial) + ".txt", state);
+    for (const std::string& f : {in, q, i, back}) {
+      const RunOutput r = run(dir, {"verify", f, st, "--report", "json"});
+      REQUIRE(r.code == 0);
+      const Json j = parse_ok(r);
+      CHECK(static_cast<std::int64_t>(j["energy"].num) == g.energy(s));
+      if (f == in || f == back) CHECK(static_cast<std::int64_t>(j["cut"].num) == g.cut(s));
+    }
+  }
+}
+
+TEST_CASE("cli: verify, warm starts and state files") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const Graph g = random_graph(16, 40, -3, 3, 21);
+  const std::string path = dir.write("g.txt", g.edge_list());
+  const std::string ground = dir.file("ground.txt");
+  const RunOutput e = run(dir, {"solve", path, "--kernel", "exact", "--state-out", ground, "--report", "json"});
+  REQUIRE(e.code == 0);
+  const Json ej = parse_ok(e);
+  // The state file holds the reported spins.
+  const RunOutput v = run(dir, {"verify", path, ground, "--report", "json"});
+  REQUIRE(v.code == 0);
+  CHECK(parse_ok(v)["energy"].num == ej["energy"].num);
+  // Descent from a ground state stays there (a ground state is a local minimum).
+  const RunOutput d = run(dir, {"solve", path, "--kernel", "descent", "--restarts", "1", "--warm-start", ground,
+                                "--report", "json"});
+  REQUIRE(d.code == 0);
+  const Json dj = parse_ok(d);
+  CHECK(dj["energy"].num == ej["energy"].num);
+  CHECK(spins_of(dj) == spins_of(ej));
+  // A state of the wrong size, and a state file with a bad line, are input errors.
+  const std::string short_state = dir.write("short.txt", "+\n-\n+\n");
+  check_input_error(run(dir, {"verify", path, short_state}), short_state + ":");
+  check_input_error(run(dir, {"solve", path, "--warm-start", short_state}), short_state + ":");
+  const std::string bad_state = dir.write("bad.txt", "+\n-\n2\n");
+  check_input_error(run(dir, {"verify", path, bad_state}), bad_state + ":3:");
+  // An output that cannot be written: exit 1, no report.
+  const std::string nowhere = dir.file("no-such-folder") + "/state.txt";
+  const RunOutput w = run(dir, {"solve", path, "--kernel", "descent", "--state-out", nowhere});
+  check_input_error(w, nowhere + ":");
+}
+
+TEST_CASE("cli: bench reports success probability, residual energy and TTS99 per kernel") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const std::string path = dir.write("c11.txt", cycle(11).edge_list());
+  // Optimum of C_11: cut 10, E = 11 - 20 = -9.
+  const RunOutput r = run(dir, {"bench", path, "--target", "-9", "--restarts", "6", "--kernel", "tabu,descent",
+                                "--sweeps", "40", "--report", "json"});
+  REQUIRE(r.code == 0);
+  const Json j = parse_ok(r);
+  REQUIRE(j["kernels"].items.size() == 2);
+  const Json& tabu = j["kernels"].items[0];
+  CHECK(tabu["kernel"].text == "tabu");
+  CHECK(tabu["restarts"].num == 6);
+  CHECK(tabu["success_probability"].num == 1.0);
+  CHECK(tabu["residual_energy"].num == 0.0);
+  const Json& descent = j["kernels"].items[1];
+  CHECK(descent["success_probability"].num >= 0.0);
+  CHECK(descent["success_probability"].num <= 1.0);
+  CHECK(descent["residual_energy"].num >= 0.0);
+  // An unreachable target: probability 0 and an infinite TTS99, written as null.
+  const RunOutput never = run(dir, {"bench", path, "--target", "-1000", "--restarts", "3", "--kernel", "descent",
+                                    "--report", "json"});
+  REQUIRE(never.code == 0);
+  const Json nj = parse_ok(never);
+  CHECK(nj["kernels"].items[0]["success_probability"].num == 0.0);
+  CHECK(nj["kernels"].items[0]["tts99_seconds"].kind == Json::Kind::null);
+  const RunOutput table = run(dir, {"bench", path, "--restarts", "3", "--kernel", "all", "--sweeps", "20"});
+  REQUIRE(table.code == 0);
+  CHECK(table.out.find("TTS99") != std::string::npos);
+  CHECK(table.out.find("temper") != std::string::npos);
+}
+
+TEST_CASE("cli: Ctrl-C stops a long run, prints the best state so far and exits 130") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const Graph g = random_graph(3000, 9000, -1, 1, 99);
+  const std::string path = dir.write("big.txt", g.edge_list());
+  const RunOutput r = cli_test::run_process(
+      exe, {"solve", path, "--kernel", "anneal", "--sweeps", "1000000000", "--restarts", "2", "--threads", "2",
+            "--report", "json"},
+      dir, 0.7, 60);
+  CHECK_FALSE(r.hung);
+  CHECK(r.code == 130);
+  const Json j = parse_ok(r);
+  CHECK(j["interrupted"].b);
+  const std::vector<int> s = spins_of(j);
+  REQUIRE(s.size() == 3000);
+  CHECK(static_cast<std::int64_t>(j["energy"].num) == g.energy(s));
+  CHECK(static_cast<std::int64_t>(j["cut"].num) == g.cut(s));
+  // Text report: the best state is printed too.
+  const RunOutput t = cli_test::run_process(
+      exe, {"solve", path, "--kernel", "tabu", "--sweeps", "1000000000", "--restarts", "1"}, dir, 0.7, 60);
+  CHECK_FALSE(t.hung);
+  CHECK(t.code == 130);
+  CHECK(t.out.find("interrupted") != std::string::npos);
+  CHECK(t.out.find("\nspins ") != std::string::npos);
+}
+
+TEST_CASE("cli: a time limit ends a run that its sweep budget would not") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const std::string path = dir.write("g.txt", random_graph(500, 1500, -1, 1, 4).edge_list());
+  const RunOutput r = cli_test::run_process(exe, {"solve", path, "--kernel", "anneal", "--sweeps", "1000000000",
+                                                  "--restarts", "2", "--time-limit", "0.3", "--report", "json"},
+                                            dir, 0, 60);
+  CHECK_FALSE(r.hung);
+  CHECK(r.code == 0);
+  const Json j = parse_ok(r);
+  CHECK(j["cut_short"].num == 2);
+  CHECK_FALSE(j["interrupted"].b);
+  CHECK(spins_of(j).size() == 500);
+}
