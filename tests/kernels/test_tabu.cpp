@@ -1,0 +1,180 @@
+// Tabu search: ground states against exact enumeration and published facts, the move rule
+// (best non-tabu move, aspiration), determinism, stop and target.
+#include <doctest/doctest.h>
+#include <spinwright/kernels/exact.hpp>
+#include <spinwright/kernels/tabu.hpp>
+#include <spinwright/spinwright.hpp>
+
+#include <cstdint>
+#include <vector>
+
+#include "support/temper_graph.hpp"
+
+using namespace spinwright;
+using test_support::Graph;
+
+namespace {
+
+Graph pm_torus(std::uint32_t L, std::uint64_t seed) {
+  Graph g = test_support::torus(L, 1);
+  Xoshiro256 rng(seed);
+  for (auto& e : g.edges) e.w = rng.coin() ? 1 : -1;
+  return g;
+}
+
+template <class Value>
+QuboModel<Value> random_qubo(std::uint32_t n, std::uint32_t pairs, Xoshiro256& rng) {
+  QuboBuilder<Value> qb(n);
+  for (std::uint32_t i = 0; i < n; ++i) qb.add_unary(i, static_cast<Value>(static_cast<int>(rng.below(41)) - 20));
+  for (std::uint32_t k = 0; k < pairs; ++k) {
+    qb.add_pair(rng.below(n), rng.below(n), static_cast<Value>(static_cast<int>(rng.below(41)) - 20));
+  }
+  return qb.build().value();
+}
+
+}  // namespace
+
+TEST_CASE_TEMPLATE("random QUBOs, sparse and dense: tabu reaches the exact ground energy", Value, std::int32_t,
+                   std::int64_t, double, float) {
+  Xoshiro256 rng(2718);
+  for (int trial = 0; trial < 6; ++trial) {
+    const std::uint32_t n = 14 + rng.below(7);
+    const auto q = random_qubo<Value>(n, trial % 2 == 0 ? 2 * n : n * (n - 1) / 2, rng);
+    const auto exact = solve_exact(q);
+    REQUIRE(exact.ok());
+    TabuParams p;
+    p.sweeps = 200;
+    const auto s = tabu_search(q, p, 5, static_cast<std::uint64_t>(trial));
+    CHECK(static_cast<double>(s.energy) == doctest::Approx(static_cast<double>(exact->energy)));
+    CHECK(static_cast<double>(q.energy(s.spins.data())) == doctest::Approx(static_cast<double>(s.energy)));
+    const auto dq = DenseQuboModel<Value>::from(q).value();
+    const auto sd = tabu_search(dq, p, 5, static_cast<std::uint64_t>(trial));
+    CHECK(static_cast<double>(sd.energy) == doctest::Approx(static_cast<double>(exact->energy)));
+    // Same seed, same model in the other storage: the same moves (ties go to the lower index in both).
+    CHECK(sd.spins == s.spins);
+  }
+}
+
+// Max-cut facts (common practice; reference sheet section 5).
+TEST_CASE("max-cut facts") {
+  auto cut_of = [](const Graph& g) {
+    const auto m = test_support::ising_of<std::int32_t, std::uint16_t>(g);
+    TabuParams p;
+    p.sweeps = 200;
+    const auto s = tabu_search(m, p, 3);
+    return cut_value(m, s.spins.data());
+  };
+  for (std::uint32_t n = 3; n <= 16; ++n) CHECK(cut_of(test_support::complete(n)) == (n * n) / 4);
+  for (std::uint32_t n = 3; n <= 21; ++n) CHECK(cut_of(test_support::cycle(n)) == (n % 2 == 0 ? n : n - 1));
+  CHECK(cut_of(test_support::petersen()) == 12);
+}
+
+// 4x4 and 6x6 ferromagnets (ground energy -2N; reference sheet section 3) and a 5x5 +-J glass
+// against enumeration.
+TEST_CASE("lattices") {
+  const auto f4 = test_support::ising_of<double>(test_support::torus(4, -1));
+  CHECK(tabu_search(f4, TabuParams{}, 1).energy == -32.0);
+  const auto f6 = test_support::ising_of<float>(test_support::torus(6, -1));
+  CHECK(tabu_search(f6, TabuParams{}, 1).energy == -72.0);
+  const auto g = test_support::ising_of<std::int64_t>(pm_torus(5, 2024));
+  const auto exact = solve_exact(g);
+  REQUIRE(exact.ok());
+  CHECK(tabu_search(g, TabuParams{}, 1).energy == exact->energy);
+}
+
+// The move rule, checked move by move against a plain scan: the chosen spin is the lowest-index
+// spin of least delta among the non-tabu spins, unless a tabu spin gives a new best
+// (aspiration), and the tabu list holds the last `tenure` flipped spins.
+TEST_CASE("each move is the best admissible one-flip move") {
+  Xoshiro256 rng(0);
+  IsingBuilder<std::int32_t> b(24);
+  for (int i = 0; i < 24; ++i) b.add_field(i, static_cast<int>(rng.below(11)) - 5);
+  for (int k = 0; k < 80; ++k) b.add_coupling(rng.below(24), rng.below(24), static_cast<int>(rng.below(21)) - 10);
+  const auto q = b.build().value();
+  TabuParams p;
+  p.tenure = 8;
+  p.tenure_spread = 0;
+  p.stagnation = 1000000;  // no perturbation during the check
+  TabuSearch<IsingModel<std::int32_t>> t(q, p, 8);
+  REQUIRE(t.tenure() == 8);
+  std::vector<std::uint64_t> last(24, 0);  // 1 + move number of the last flip of each spin
+  std::int64_t best = t.state().energy();
+  int aspirations = 0;
+  for (std::uint64_t m = 0; m < 3000; ++m) {
+    const std::vector<std::int8_t> before(t.state().spins(), t.state().spins() + 24);
+    const std::int64_t e = t.state().energy();
+    std::int64_t best_free = 0;
+    int i_free = -1;
+    std::int64_t best_tabu = 0;
+    int i_tabu = -1;
+    for (int i = 0; i < 24; ++i) {
+      const std::int64_t d = t.state().delta(static_cast<std::uint32_t>(i));
+      const bool tabu = last[i] != 0 && m < last[i] - 1 + 8 + 1;
+      if (tabu) {
+        if (i_tabu < 0 || d < best_tabu) best_tabu = d, i_tabu = i;
+      } else if (i_free < 0 || d < best_free) {
+        best_free = d, i_free = i;
+      }
+    }
+    int expect = i_free;
+    if (i_tabu >= 0 && (i_free < 0 || best_tabu < best_free) && e + best_tabu < best) {
+      expect = i_tabu;
+      ++aspirations;
+    }
+    t.step_moves(1);
+    int flipped = -1;
+    for (int i = 0; i < 24; ++i)
+      if (t.state().spin(static_cast<std::uint32_t>(i)) != before[i]) flipped = i;
+    REQUIRE(flipped == expect);
+    last[flipped] = m + 1;
+    if (t.state().energy() < best) best = t.state().energy();
+  }
+  CHECK(t.best().energy == best);
+  CHECK(aspirations > 0);  // the rule was exercised
+}
+
+TEST_CASE("determinism, perturbations, state exactness") {
+  const auto m = test_support::ising_of<double>(pm_torus(8, 3));
+  TabuParams p;
+  p.sweeps = 300;
+  p.stagnation = 500;
+  const auto a = tabu_search(m, p, 42, 1);
+  const auto b = tabu_search(m, p, 42, 1);
+  CHECK(a.spins == b.spins);
+  CHECK(a.energy == b.energy);
+  TabuSearch<IsingModel<double>> t(m, p, 42, 1);
+  t.step(300);
+  CHECK(t.perturbations() > 0);
+  CHECK(t.moves_done() == 300 * 64);
+  CHECK(t.state().check().max_field_error < 1e-9);
+  CHECK(t.best().energy == a.energy);
+  CHECK(m.energy(t.best().spins) == doctest::Approx(a.energy));
+}
+
+namespace {
+struct StopAt {
+  StopToken* token;
+  std::uint64_t at;
+  void on_progress(std::uint64_t sweep, double) {
+    if (sweep == at) token->request_stop();
+  }
+};
+}  // namespace
+
+TEST_CASE("stop token and target stop a run") {
+  const auto m = test_support::ising_of<std::int32_t>(pm_torus(6, 5));
+  TabuParams p;
+  p.sweeps = 100000;
+  p.progress_every = 1;
+  StopToken token;
+  StopAt obs{&token, 4};
+  const auto s = tabu_search(m, p, 1, 0, Budget{}.with_stop(token), obs);
+  CHECK(s.reason == StopReason::stopped);
+  CHECK(s.sweeps == 4);
+
+  const auto ferro = test_support::ising_of<std::int32_t>(test_support::torus(6, -1));
+  const auto t = tabu_search(ferro, p, 1, 0, Budget{}.with_target(-72));
+  CHECK(t.reason == StopReason::target_reached);
+  CHECK(t.energy == -72);
+  CHECK(t.sweeps < 100000);
+}
