@@ -75,7 +75,7 @@ TEST_CASE("Matrix Market writer output is the documented layout") {
   CHECK(io::format_matrix_market(im.value()).value() ==
         "%%MatrixMarket matrix coordinate real general\n"
         "% spinwright form ising\n"
-        "% spinwright offset 0\n"
+        "% spinwright offset 0.0\n"
         "2 2 2\n"
         "1 2 0.1\n"
         "2 2 -2.5\n");

@@ -25,7 +25,7 @@ TEST_CASE("format detection") {
   CHECK(io::detect_format("") == io::FileFormat::edge_list);
 }
 
-TEST_CASE("value type: int64 when every value is an integer literal, double otherwise") {
+TEST_CASE("value type: Matrix Market follows its field; edge lists give int64 for integer literals") {
   auto a = io::parse_model_text("3 2\n1 2 1\n2 3 -4\n", "a.txt");
   REQUIRE(a.ok());
   CHECK(a->format == io::FileFormat::edge_list);
@@ -46,28 +46,43 @@ TEST_CASE("value type: int64 when every value is an integer literal, double othe
   REQUIRE(c.ok());
   CHECK(c->format == io::FileFormat::matrix_market);
   CHECK(c->form == Form::qubo);  // the default form
-  CHECK(c->integer);             // 'real' field, but every value is an integer literal
-  CHECK(c->qubo_integer.offset() == 2);
+  CHECK_FALSE(c->integer);       // the 'real' field decides, although every value is an integer literal
+  CHECK(c->qubo_real.offset() == 2.0);
   CHECK(c->visit([](const auto& m) { return static_cast<double>(m.offset()); }) == 2.0);
-
-  io::ReadOptions real;
-  real.value_kind = io::ValueKind::real;
-  auto d = io::parse_model_text(mtx, "d.mtx", real);
-  REQUIRE(d.ok());
-  CHECK_FALSE(d->integer);
-  CHECK(d->qubo_real.unary(0) == 3.0);
-  CHECK(d->qubo_real.pair(0, 1) == -1.0);
 
   io::ReadOptions integer;
   integer.value_kind = io::ValueKind::integer;
+  auto d = io::parse_model_text(mtx, "d.mtx", integer);
+  REQUIRE(d.ok());
+  CHECK(d->integer);
+  CHECK(d->qubo_integer.unary(0) == 3);
+  CHECK(d->qubo_integer.pair(0, 1) == -1);
+  CHECK(d->qubo_integer.offset() == 2);
+
+  io::ReadOptions real;
+  real.value_kind = io::ValueKind::real;
+  auto h = io::parse_model_text("3 2\n1 2 1\n2 3 -4\n", "h.txt", real);
+  REQUIRE(h.ok());
+  CHECK_FALSE(h->integer);
+  CHECK(h->ising_real.coupling(1, 2) == -4.0);
+
   auto e = io::parse_model_text("3 2\n1 2 1\n2 3 0.5\n", "e.txt", integer);
   REQUIRE_FALSE(e.ok());
   check_error(e.status(), StatusCode::parse_error, "e.txt", 3);
 
-  // A literal too large for int64 in an all-integer file is refused rather than rounded.
+  // An integer literal beyond int64 makes an edge list real (automatic) ...
   auto f = io::parse_model_text("3 1\n1 2 12345678901234567890\n", "f.txt");
-  REQUIRE_FALSE(f.ok());
-  check_error(f.status(), StatusCode::value_out_of_range, "f.txt", 2);
+  REQUIRE(f.ok());
+  CHECK_FALSE(f->integer);
+  CHECK(f->ising_real.coupling(0, 1) == 12345678901234567890.0);
+  // ... and is refused when int64 is required, by the option or by an 'integer' banner.
+  auto f2 = io::parse_model_text("3 1\n1 2 12345678901234567890\n", "f.txt", integer);
+  REQUIRE_FALSE(f2.ok());
+  check_error(f2.status(), StatusCode::value_out_of_range, "f.txt", 2);
+  auto f3 = io::parse_model_text(
+      "%%MatrixMarket matrix coordinate integer general\n2 2 1\n1 2 12345678901234567890\n", "f3.mtx");
+  REQUIRE_FALSE(f3.ok());
+  check_error(f3.status(), StatusCode::value_out_of_range, "f3.mtx", 3);
 
   auto g = io::parse_model_text("%%MatrixMarket matrix coordinate integer general\n% spinwright form ising\n2 2 1\n1 1 7\n",
                                 "g.mtx");
@@ -105,6 +120,20 @@ TEST_CASE("converting between formats through LoadedModel") {
   auto refused = io::format_model(ql.value(), io::FileFormat::edge_list, "out.txt");
   REQUIRE_FALSE(refused.ok());
   check_error(refused.status(), StatusCode::invalid_argument, "out.txt", 0);
+
+  // Real models keep their value type through the automatic reader, even when every value is
+  // a whole number (the writer marks reals: "2.0", "1.2345678901234568e+20").
+  IsingBuilder<double> rb(4);
+  rb.add_coupling(0, 1, 2.0).add_coupling(1, 2, -123456789012345678901.0).add_coupling(2, 3, 1e300);
+  auto rm = rb.build();
+  REQUIRE(rm.ok());
+  auto rtext = io::format_edge_list(rm.value());
+  REQUIRE(rtext.ok());
+  CHECK(rtext->find("1 2 2.0\n") != std::string::npos);
+  auto rback = io::parse_model_text(rtext.value(), "r.txt");
+  REQUIRE_MESSAGE(rback.ok(), rback.message());
+  REQUIRE_FALSE(rback->integer);
+  test_support::check_same_model(rm.value(), rback->ising_real);
 
   const std::string missing = dir.file("missing.mtx");
   auto r = io::read_model_file(missing);

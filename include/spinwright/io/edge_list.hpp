@@ -118,7 +118,8 @@ inline IoResult<TermList> scan_edge_list(std::string_view text, std::string_view
     t.j = ends[1] - 1;
     t.token = tok[2];
     t.line = line.number;
-    list.all_integer = list.all_integer && t.value.integer;
+    // Automatic value type: int64_t only when every weight is an integer literal that fits.
+    list.all_integer = list.all_integer && t.value.integer && !t.value.int_overflow;
     list.terms.push_back(t);
   }
   if (!have_header) {

@@ -158,7 +158,6 @@ inline IoResult<TermList> scan_matrix_market(std::string_view text, std::string_
         list.has_offset = true;
         list.offset_token = tok[2];
         list.offset_line = line.number;
-        list.all_integer = list.all_integer && list.offset.integer;
       } else {
         return IoStatus::error(StatusCode::parse_error, name, line.number,
                                "unknown directive " + quote(tok[1]) + "; expected 'form' or 'offset'");
@@ -237,7 +236,6 @@ inline IoResult<TermList> scan_matrix_market(std::string_view text, std::string_
     t.token = tok[2];
     t.line = line.number;
     t.mirrored = symmetric && t.i != t.j;
-    list.all_integer = list.all_integer && t.value.integer;
     list.terms.push_back(t);
   }
   if (!have_size) {
@@ -249,6 +247,8 @@ inline IoResult<TermList> scan_matrix_market(std::string_view text, std::string_
                            "file ends after " + std::to_string(list.terms.size()) + " of the " + std::to_string(declared) +
                                " entries declared on line " + std::to_string(list.header_line) + " (truncated file?)");
   }
+  // Automatic value type: the banner's field decides.
+  list.all_integer = integer_field;
   return list;
 }
 

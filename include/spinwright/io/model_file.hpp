@@ -1,9 +1,10 @@
 // spinwright — one entry point for model files of either format. The format is detected from
 // the content (a first line starting with '%%MatrixMarket' means Matrix Market, anything else
 // is an edge list); an edge list is always an Ising max-cut model, a Matrix Market file is
-// Ising or QUBO by its '% spinwright form' directive. The value type is int64_t when every
-// value in the file is an integer literal and double otherwise (ReadOptions::value_kind
-// overrides this). The index type is uint32_t.
+// Ising or QUBO by its '% spinwright form' directive. The value type (unless
+// ReadOptions::value_kind fixes it): for Matrix Market, the banner's field ('integer' ->
+// int64_t, 'real' -> double); for an edge list, int64_t when every weight is an integer literal
+// that fits int64_t, double otherwise. The index type is uint32_t.
 #ifndef SPINWRIGHT_IO_MODEL_FILE_HPP
 #define SPINWRIGHT_IO_MODEL_FILE_HPP
 

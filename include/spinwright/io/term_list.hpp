@@ -39,7 +39,7 @@ struct TermList {
   std::uint64_t header_line = 0;     // line of the size header (for whole-model errors)
   std::uint64_t form_line = 0;       // line that fixed the form (0 if defaulted)
   bool diagonal_is_linear = false;   // Matrix Market: (i, i) is a field / unary term
-  bool all_integer = true;           // every value token is an integer literal
+  bool all_integer = true;           // automatic value type is int64_t (see model_file.hpp)
   bool has_offset = false;
   Number offset;
   std::string_view offset_token;

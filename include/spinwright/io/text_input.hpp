@@ -22,9 +22,10 @@
 
 namespace spinwright::io {
 
-/// Which value type read_model_file() builds: int64_t when every value in the file is an
-/// integer literal (automatic), always int64_t (integer; a real literal is then an error), or
-/// always double (real).
+/// Which value type read_model_file() builds. automatic: Matrix Market files follow their
+/// banner's field ('integer' -> int64_t, 'real' -> double); edge lists give int64_t when every
+/// weight is an integer literal that fits int64_t, double otherwise. integer: always int64_t
+/// (a real literal is then an error). real: always double.
 enum class ValueKind : std::uint8_t { automatic, integer, real };
 
 /// Limits and choices shared by every reader.
@@ -338,18 +339,21 @@ std::string number_to_value(const Number& n, std::string_view token, Value& out,
 }
 
 /// Appends a value exactly: integers in decimal, floating values as the shortest text that
-/// reads back to the same double (std::to_chars); float values are widened to double first so
-/// that reading back through double is exact.
+/// reads back to the same double (std::to_chars), with ".0" added when that text looks like an
+/// integer, so that a reader can tell real values from integers. float values are widened to
+/// double first so that reading back through double is exact.
 template <class Value>
 void append_value(std::string& s, Value v) {
   char buf[64];
-  std::to_chars_result r{};
   if constexpr (std::is_integral_v<Value>) {
-    r = std::to_chars(buf, buf + sizeof buf, static_cast<std::int64_t>(v));
+    const auto r = std::to_chars(buf, buf + sizeof buf, static_cast<std::int64_t>(v));
+    s.append(buf, static_cast<std::size_t>(r.ptr - buf));
   } else {
-    r = std::to_chars(buf, buf + sizeof buf, static_cast<double>(v));
+    const auto r = std::to_chars(buf, buf + sizeof buf, static_cast<double>(v));
+    const std::string_view text(buf, static_cast<std::size_t>(r.ptr - buf));
+    s.append(text);
+    if (text.find_first_of(".eE") == std::string_view::npos) s.append(".0");
   }
-  s.append(buf, static_cast<std::size_t>(r.ptr - buf));
 }
 
 inline void append_u64(std::string& s, std::uint64_t v) {
