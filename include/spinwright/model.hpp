@@ -8,5 +8,6 @@
 #include "model/form.hpp"
 #include "model/maxcut.hpp"
 #include "model/sparse_model.hpp"
+#include "model/sparse_view.hpp"
 
 #endif  // SPINWRIGHT_MODEL_HPP

@@ -15,13 +15,13 @@
 #define SPINWRIGHT_STATE_SPIN_STATE_HPP
 
 #include "../config.hpp"
+#include "../detail/buffer.hpp"
 #include "../model/form.hpp"
 #include "../status.hpp"
 
 #include <cstddef>      // std::size_t
 #include <cstdint>      // std::int8_t
 #include <type_traits>  // std::is_integral_v
-#include <vector>       // std::vector (allocated at construction only)
 
 namespace spinwright {
 
@@ -41,11 +41,30 @@ class SpinState {
   using energy_type = typename Model::energy_type;
   static constexpr Form form = Model::form;
 
-  // All spins +1.
+#if !SPINWRIGHT_NO_HEAP
+  // All spins +1; the three arrays are allocated on the heap, once.
   explicit SpinState(const Model& model)
       : model_(&model), spins_(model.num_spins(), 1), fields_(model.num_spins()), mark_(model.num_spins(), 0) {
     resync();
   }
+#endif
+
+  // All spins +1; the arrays are carved from a caller-supplied arena (no heap). Check valid():
+  // false when the arena had less than bytes_needed(N) left.
+  SpinState(const Model& model, Arena& arena)
+      : model_(&model),
+        spins_(model.num_spins(), arena, 1),
+        fields_(model.num_spins(), arena),
+        mark_(model.num_spins(), arena, 0) {
+    if (valid()) resync();
+  }
+
+  // Arena bytes a state over n spins needs.
+  static constexpr std::size_t bytes_needed(std::size_t n) noexcept {
+    return 2 * arena_bytes<std::int8_t>(n) + arena_bytes<energy_type>(n);
+  }
+
+  bool valid() const noexcept { return spins_.valid() && fields_.valid() && mark_.valid(); }
 
   const Model& model() const noexcept { return *model_; }
   std::size_t size() const noexcept { return spins_.size(); }
@@ -214,9 +233,9 @@ class SpinState {
   }
 
   const Model* model_;
-  std::vector<std::int8_t> spins_;
-  std::vector<energy_type> fields_;
-  mutable std::vector<std::int8_t> mark_;  // scratch for delta_group, always all zero between calls
+  detail::Buffer<std::int8_t> spins_;
+  detail::Buffer<energy_type> fields_;
+  mutable detail::Buffer<std::int8_t> mark_;  // scratch for delta_group, always all zero between calls
   energy_type energy_{0};
 };
 
