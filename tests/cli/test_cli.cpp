@@ -196,7 +196,11 @@ TEST_CASE("cli: every bad input exits 1 with file:line: reason and no output") {
       {"nan.txt", "3 2\n1 2 nan\n2 3 1\n", "nan.txt:2:"},
       {"inf.txt", "3 2\n1 2 1\n2 3 -inf\n", "inf.txt:3:"},
       {"overflow_real.txt", "3 2\n1 2 1e999\n2 3 1\n", "overflow_real.txt:2:"},
-      {"overflow_int.txt", "3 2\n1 2 99999999999999999999999\n2 3 1\n", "overflow_int.txt:2:"},
+      // An integer Matrix Market file: the value type is int64_t, and this entry does not fit it.
+      {"overflow_int.mtx", "%%MatrixMarket matrix coordinate integer general\n2 2 1\n1 2 99999999999999999999999\n",
+       "overflow_int.mtx:3:"},
+      // Fits int64_t, but the program keeps integer models exact in double only below 2^53.
+      {"beyond_2_53.txt", "3 2\n1 2 18014398509481984\n2 3 1\n", "beyond_2_53.txt:"},
       {"absurd.txt", "1000000000000 1\n1 2 1\n", "absurd.txt:1:"},
       {"absurd_edges.txt", "4 1000000000000\n1 2 1\n", "absurd_edges.txt:"},
       {"array.mtx", "%%MatrixMarket matrix array real general\n2 2\n1\n2\n3\n4\n", "array.mtx:1:"},
