@@ -29,7 +29,7 @@
 #include <cstddef>      // std::size_t
 #include <cstdint>      // std::int8_t, std::uint64_t
 #include <cstring>      // std::memcpy
-#include <type_traits>  // std::is_constructible_v
+#include <type_traits>  // std::is_constructible_v, std::is_same_v
 #include <utility>      // std::move
 #include <vector>       // std::vector (allocated at construction only)
 
@@ -212,15 +212,9 @@ class Annealer {
     Xoshiro256 rng = rng_;  // a local copy stays in registers across the spin writes
     detail::move_begin_sweep(move_, state_, rng);
     const std::size_t m = move_.moves_per_sweep(state_);
-    std::uint64_t accepted = 0;
-    for (std::size_t k = 0; k < m; ++k) {
-      const auto p = move_.propose(state_, rng);
-      const energy_type d = move_.delta(state_, p);
-      if (acceptor_.accept(d, rng)) {
-        move_.apply(state_, p, d);
-        ++accepted;
-      }
-    }
+    const std::uint64_t accepted = acceptor_.rule() == Acceptance::metropolis
+                                       ? sweep_moves<Acceptance::metropolis>(rng, m)
+                                       : sweep_moves<Acceptance::heat_bath>(rng, m);
     rng_ = rng;
     attempted_ += m;
     accepted_ += accepted;
@@ -232,6 +226,47 @@ class Annealer {
       return true;
     }
     return false;
+  }
+
+  template <Acceptance Rule>
+  std::uint64_t sweep_moves(Xoshiro256& rng, std::size_t m) {
+    const auto acceptor = acceptor_.template fixed<Rule>();
+    std::uint64_t accepted = 0;
+    if constexpr (std::is_same_v<Move, SingleFlip<Model>>) {
+      // The built-in move, inlined by hand: spins and fields through local pointers, the site
+      // order fixed outside the loop. Same proposals and RNG use as the generic path below.
+      const std::int8_t* spins = state_.spins();
+      const energy_type* fields = state_.local_fields();
+      const auto n = static_cast<std::uint32_t>(m);
+      auto visit = [&](std::uint32_t i) {
+        const auto ii = static_cast<typename Model::index_type>(i);
+        energy_type d;
+        if constexpr (Model::form == Form::ising) {
+          d = -2 * spins[i] * fields[i];
+        } else {
+          d = spins[i] * fields[i];
+        }
+        if (acceptor.accept(d, rng)) {
+          state_.flip_with_delta(ii, d);
+          ++accepted;
+        }
+      };
+      if (move_.order() == SiteOrder::sequential) {
+        for (std::uint32_t i = 0; i < n; ++i) visit(i);
+      } else {
+        for (std::uint32_t k = 0; k < n; ++k) visit(rng.below(n));
+      }
+    } else {
+      for (std::size_t k = 0; k < m; ++k) {
+        const auto p = move_.propose(state_, rng);
+        const energy_type d = move_.delta(state_, p);
+        if (acceptor.accept(d, rng)) {
+          move_.apply(state_, p, d);
+          ++accepted;
+        }
+      }
+    }
+    return accepted;
   }
 
   const Model* model_;

@@ -10,7 +10,9 @@
 //    fall back to the log-uniform comparison below.
 //  * floating models (and the integer fallback): Metropolis accepts delta > 0 when
 //    beta * delta < -log(u), u uniform in (0, 1]; heat-bath accepts when
-//    beta * delta < log(1/u - 1). When |beta * delta| exceeds 53 ln 2 the outcome is decided
+//    beta * delta < log(1/u - 1). Before the logarithm, the bound
+//    exp(x) >= 1 + x + x^2/2 + x^3/6 (x >= 0) settles most draws by a multiplication, with
+//    a margin that keeps each decision identical to the exact comparison. When |beta * delta| exceeds 53 ln 2 the outcome is decided
 //    without a draw: no u of 53 bits could change it (u >= 2^-53). The decision to draw
 //    depends only on (beta, delta), so a seed fully determines a run.
 #ifndef SPINWRIGHT_KERNELS_SCHEDULE_HPP
@@ -242,44 +244,79 @@ class Acceptor {
     }
   }
 
-  bool accept(Energy delta, Xoshiro256& rng) const noexcept {
-    if constexpr (integer) {
-      if (rule_ == Acceptance::metropolis) {
-        if (delta <= 0) return true;
-        const auto k = static_cast<std::uint64_t>(delta) >> shift_;
-        if (k < used_) return (rng.next() >> 11) < table_[k];
-        if (!overflow_) return false;
-        return accept_by_log(static_cast<double>(delta), rng);
-      } else {
-        if (delta == 0) return rng.coin();
-        const std::uint64_t k = (delta < 0 ? std::uint64_t{0} - static_cast<std::uint64_t>(delta)
-                                           : static_cast<std::uint64_t>(delta)) >> shift_;
-        if (k < used_) {
-          const std::uint64_t u = rng.next() >> 11;
-          return delta > 0 ? u < table_[k] : u >= table_[k];
+  // A copy of the acceptance state for one sweep, with the rule fixed at compile time, so a
+  // kernel's loop keeps everything in registers. Valid until the next set_beta().
+  template <Acceptance Rule>
+  struct Fixed {
+    const std::uint64_t* table;
+    std::uint64_t used;
+    unsigned shift;
+    bool overflow;
+    double beta;
+
+    bool accept(Energy delta, Xoshiro256& rng) const noexcept {
+      if constexpr (integer) {
+        if constexpr (Rule == Acceptance::metropolis) {
+          if (delta <= 0) return true;
+          const auto k = static_cast<std::uint64_t>(delta) >> shift;
+          if (k < used) return (rng.next() >> 11) < table[k];
+          if (!overflow) return false;
+          return accept_by_log<Rule>(beta, static_cast<double>(delta), rng);
+        } else {
+          if (delta == 0) return rng.coin();
+          const std::uint64_t k = (delta < 0 ? std::uint64_t{0} - static_cast<std::uint64_t>(delta)
+                                             : static_cast<std::uint64_t>(delta)) >> shift;
+          if (k < used) {
+            const std::uint64_t u = rng.next() >> 11;
+            return delta > 0 ? u < table[k] : u >= table[k];
+          }
+          if (!overflow) return delta < 0;
+          return accept_by_log<Rule>(beta, static_cast<double>(delta), rng);
         }
-        if (!overflow_) return delta < 0;
-        return accept_by_log(static_cast<double>(delta), rng);
+      } else {
+        return accept_by_log<Rule>(beta, static_cast<double>(delta), rng);
       }
-    } else {
-      return accept_by_log(static_cast<double>(delta), rng);
     }
+  };
+
+  template <Acceptance Rule>
+  Fixed<Rule> fixed() const noexcept {
+    return {table_.data(), used_, shift_, overflow_, beta_};
+  }
+
+  bool accept(Energy delta, Xoshiro256& rng) const noexcept {
+    if (rule_ == Acceptance::metropolis) return fixed<Acceptance::metropolis>().accept(delta, rng);
+    return fixed<Acceptance::heat_bath>().accept(delta, rng);
   }
 
  private:
   static constexpr double two53 = 9007199254740992.0;
 
-  bool accept_by_log(double delta, Xoshiro256& rng) const noexcept {
-    const double x = beta_ * delta;
-    if (rule_ == Acceptance::metropolis) {
+  // exp(x) >= 1 + x + x^2/2 + x^3/6 for x >= 0, so u * that > 1 proves u > exp(-x). The
+  // margin keeps every shortcut decision identical to the exact comparison despite rounding.
+  static double exp_lower(double x) noexcept { return 1 + x * (1 + x * (0.5 + x * (1.0 / 6))); }
+  static constexpr double squeeze_margin = 1 + 1e-12;
+
+  // Exact decisions by comparison with log(u); a polynomial squeeze settles most draws
+  // without the logarithm (same outcome, same RNG use).
+  template <Acceptance Rule>
+  static bool accept_by_log(double beta, double delta, Xoshiro256& rng) noexcept {
+    const double x = beta * delta;
+    if constexpr (Rule == Acceptance::metropolis) {
       if (!(x > 0)) return true;
       if (x > acceptance_cutoff) return false;
-      return x < -std::log(rng.uniform_open_zero());
+      const double u = rng.uniform_open_zero();
+      if (u * exp_lower(x) > squeeze_margin) return false;
+      return x < -std::log(u);
+    } else {
+      if (x > acceptance_cutoff) return false;
+      if (x < -acceptance_cutoff) return true;
+      const double u = rng.uniform_open_zero();
+      // Acceptance 1 / (1 + e^x): below e^-x for x > 0, above 1 - e^x for x < 0.
+      if (x > 0 && u * exp_lower(x) > squeeze_margin) return false;
+      if (x < 0 && (1 - u) * exp_lower(-x) > squeeze_margin) return true;
+      return x < std::log((1 - u) / u);
     }
-    if (x > acceptance_cutoff) return false;
-    if (x < -acceptance_cutoff) return true;
-    const double u = rng.uniform_open_zero();
-    return x < std::log((1 - u) / u);
   }
 
   Acceptance rule_ = Acceptance::metropolis;
