@@ -13,6 +13,7 @@
 #include "runner.hpp"
 #include "text.hpp"
 
+#include <cstdio>  // std::snprintf
 #include <limits>  // std::numeric_limits
 
 namespace spinwright_cli {
@@ -34,6 +35,12 @@ const std::vector<OptionSpec>& bench_options() {
       {"help", nullptr, "show this help"},
   };
   return specs;
+}
+
+std::string short_number(double v) {
+  char buf[32];
+  std::snprintf(buf, sizeof buf, "%.4g", v);
+  return buf;
 }
 
 struct Row {
@@ -178,7 +185,7 @@ int run_bench(int argc, const char* const* argv) {
     for (const auto& r : rows) {
       const auto& t = r.result.tally;
       const double per = t.restarts() == 0 ? 0 : static_cast<double>(t.total_sweeps()) / static_cast<double>(t.restarts());
-      table.row({kernel_name(r.kernel), std::to_string(t.restarts()), number_text(per), number_text(t.best().energy),
+      table.row({kernel_name(r.kernel), std::to_string(t.restarts()), short_number(per), number_text(t.best().energy),
                  probability_text(t.success_probability(target, tol)), number_text(t.residual_energy(target)),
                  seconds_text(t.median_seconds()), seconds_text(t.tts99(target, tol))});
     }
