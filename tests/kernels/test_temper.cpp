@@ -6,6 +6,7 @@
 #include <spinwright/spinwright.hpp>
 
 #include <cstdint>
+#include <string>
 #include <vector>
 
 #include "support/temper_graph.hpp"
@@ -227,4 +228,21 @@ TEST_CASE("stop token and target stop a run") {
   CHECK(t.reason == StopReason::target_reached);
   CHECK(t.energy == -72);
   CHECK(t.sweeps < 100000);
+}
+
+// OR-Library bqp250 instances in max-cut form (J. E. Beasley, J. Oper. Res. Soc. 41, 1069-1072,
+// 1990; instances from Beasley 1998); proven optima from /work/shared/data/maxcut/reference.csv.
+// A generous fixed budget of 5000 sweeps (the run stops early at the optimum).
+TEST_CASE("bqp250 instances: tempering reaches the proven optimum cut") {
+  for (int k = 1; k <= 5; ++k) {
+    const std::string name = "bqp250-" + std::to_string(k);
+    const auto m = test_support::load_maxcut<std::int32_t>(name);
+    const std::int64_t ref = test_support::reference_cut(test_support::maxcut_path("reference.csv"), name);
+    REQUIRE(ref > 0);
+    const std::int64_t w = total_weight(m);
+    TemperParams p;
+    const auto s = temper(m, p, 2026, 0, Budget{}.with_sweeps(5000).with_target(static_cast<double>(energy_from_cut(w, ref))));
+    CHECK(cut_value(m, s.spins.data()) == ref);
+    CHECK(cut_from_energy(w, s.energy) == ref);
+  }
 }

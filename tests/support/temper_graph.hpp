@@ -1,9 +1,10 @@
-// Test helper for the tempering / tabu / exact tests: small graph families, a tiny reader of
-// the benchmark edge lists (`N M` then 1-based `i j w` lines) and of reference.csv, and model
+// Test helper for the tempering / tabu / exact tests: small graph families, the benchmark
+// max-cut instances (read with the io layer's edge-list reader) and reference.csv, and model
 // builders for every value type.
 #ifndef SPINWRIGHT_TEST_SUPPORT_TEMPER_GRAPH_HPP
 #define SPINWRIGHT_TEST_SUPPORT_TEMPER_GRAPH_HPP
 
+#include <spinwright/io/edge_list.hpp>
 #include <spinwright/spinwright.hpp>
 
 #include <cstdint>
@@ -71,28 +72,6 @@ inline Graph petersen() {
   return g;
 }
 
-inline Graph read_edge_list(const std::string& path) {
-  Graph g;
-  std::ifstream in(path);
-  if (!in) return g;
-  std::string line;
-  if (!std::getline(in, line)) return g;
-  std::istringstream head(line);
-  std::uint64_t n = 0;
-  std::uint64_t m = 0;
-  if (!(head >> n >> m)) return g;
-  g.n = static_cast<std::uint32_t>(n);
-  for (std::uint64_t k = 0; k < m; ++k) {
-    std::int64_t i = 0;
-    std::int64_t j = 0;
-    std::int64_t w = 0;
-    if (!(in >> i >> j >> w) || i < 1 || j < 1 || static_cast<std::uint64_t>(i) > n || static_cast<std::uint64_t>(j) > n) return g;
-    g.edges.push_back({static_cast<std::uint32_t>(i - 1), static_cast<std::uint32_t>(j - 1), w});
-  }
-  g.ok = true;
-  return g;
-}
-
 // The reference cut of an instance in reference.csv (second-to-last numeric column "cut"),
 // or -1 when the instance is not listed.
 inline std::int64_t reference_cut(const std::string& csv_path, const std::string& instance) {
@@ -110,6 +89,13 @@ inline std::int64_t reference_cut(const std::string& csv_path, const std::string
 
 inline std::string maxcut_path(const std::string& name) {
   return std::string(SPINWRIGHT_DATA_DIR) + "/maxcut/" + name;
+}
+
+// A benchmark instance as the max-cut Ising model J = w, h = 0 (io/edge_list.hpp).
+template <class Value = std::int32_t>
+spinwright::IsingModel<Value> load_maxcut(const std::string& instance) {
+  auto read = spinwright::io::read_edge_list<Value>(maxcut_path(instance + ".txt"));
+  return read.value();
 }
 
 // Max-cut Ising model J_ij = scale * w_ij, h = 0.
