@@ -4,7 +4,7 @@
 //   exactly one colour per vertex:  A (1 - sum_c x_{v,c})^2          (ConstraintKind::exactly_one)
 //   no monochromatic edge:          A x_{u,c} x_{v,c} per edge, colour (ConstraintKind::at_most_one)
 // H = 0 exactly for a proper k-colouring, and H >= A otherwise (A. Lucas, "Ising formulations
-// of many NP problems", Front. Phys. 2:5, 2014, section 6.1 "Graph colouring"). With no
+// of many NP problems", Front. Phys. 2:5, 2014, section 6.1 [section number from memory]). With no
 // objective, any A > 0 keeps infeasible states above feasible ones; the ground energy is A
 // times the fewest violated terms, 0 exactly when the graph is k-colourable.
 #ifndef SPINWRIGHT_PROBLEMS_COLOURING_HPP
