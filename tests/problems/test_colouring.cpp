@@ -4,6 +4,7 @@
 // P(C_n, k) = (k - 1)^n + (-1)^n (k - 1) (common practice; e.g. Bondy & Murty, Graph Theory,
 // 2008), which counts proper colourings and hence the ground states of the encoding.
 #include <doctest/doctest.h>
+#include <spinwright/kernels/anneal.hpp>
 #include <spinwright/kernels/exact.hpp>
 #include <spinwright/problems/colouring.hpp>
 
@@ -159,4 +160,24 @@ TEST_CASE("colouring: refused input") {
   CHECK(ColouringProblem<std::int32_t>::encode(3, {{0, 5}}, 2).status().code == StatusCode::index_out_of_range);
   CHECK(ColouringProblem<std::int32_t, std::uint16_t>::encode(40000, {}, 2).status().code == StatusCode::size_limit);
   CHECK(ColouringProblem<std::int32_t>::encode(3, {{0, 1}}, 2, -1).status().code == StatusCode::invalid_argument);
+}
+
+// Beyond enumeration here (30 bits): annealing on the encoded model reaches energy 0, and the
+// decoded answer is a proper 3-colouring of the Petersen graph by the graph's own check.
+TEST_CASE("colouring: annealing finds a proper 3-colouring of the Petersen graph") {
+  auto p = ColouringProblem<std::int32_t>::encode(10, problems_test::petersen_graph(), 3);
+  REQUIRE(p.ok());
+  AnnealParams params;
+  params.sweeps = 2000;
+  bool found = false;
+  for (std::uint64_t r = 0; r < 8 && !found; ++r) {
+    const auto sol = anneal(p->model(), params, 2026, r);
+    if (sol.energy != 0) continue;
+    found = true;
+    CHECK(p->feasibility(sol.spins.data()).feasible);
+    const auto rep = p->check(p->decode(sol.spins.data()));
+    CHECK(rep.valid);
+    CHECK(rep.colours_used == 3);
+  }
+  CHECK(found);
 }
