@@ -173,8 +173,9 @@ class TermBuilder {
       bound = abs_double(offset_);
       for (const Value v : linear) bound += abs_double(v);
       for (const auto& p : merged) bound += abs_double(p.v);
-      if (!is_finite(bound)) {
-        return Status::error(StatusCode::energy_overflow, "the energy range is not finite in double precision");
+      if (!is_finite(bound) || bound > float_energy_limit) {
+        return Status::error(StatusCode::energy_overflow,
+                             "the energy range (|offset| + sum of |coefficients|) exceeds DBL_MAX/4, so flip deltas could overflow to infinity");
       }
     }
 

@@ -56,7 +56,17 @@ class DenseModel {
     }
     m.offset_ = sparse.offset();
     m.bound_ = sparse.energy_bound();
-    if constexpr (std::is_integral_v<Value>) m.abs_sum_ = static_cast<std::uint64_t>(sparse.energy_bound());
+    if constexpr (std::is_integral_v<Value>) {
+      // Exact sum of magnitudes (the double bound rounds above 2^53); cannot wrap, since the
+      // sparse model already keeps it within integer_energy_limit.
+      std::uint64_t sum = detail::magnitude_u64(m.offset_);
+      for (std::size_t i = 0; i < m.n_; ++i) {
+        sum += detail::magnitude_u64(m.linear_[i]);
+        for (std::size_t j = i + 1; j < m.n_; ++j) sum += detail::magnitude_u64(m.matrix_[i * m.n_ + j]);
+      }
+      m.abs_sum_ = sum;
+      m.bound_ = static_cast<double>(sum);
+    }
     return made;
   }
 
@@ -171,7 +181,11 @@ class DenseModel {
       abs_sum_ = sum;
       bound_ = static_cast<double>(sum);
     } else {
-      bound_ += detail::abs_double(c) - detail::abs_double(offset_);
+      const double b = bound_ + detail::abs_double(c) - detail::abs_double(offset_);
+      if (!detail::is_finite(b) || b > float_energy_limit) {
+        return Status::error(StatusCode::energy_overflow, "offset would let the energy range exceed DBL_MAX/4 (flip deltas could overflow)");
+      }
+      bound_ = b;
     }
     offset_ = c;
     return Status::success();
@@ -188,7 +202,9 @@ class DenseModel {
       bound_ = static_cast<double>(sum);
     } else {
       const double b = bound_ + detail::abs_double(new_value) - detail::abs_double(old_value);
-      if (!detail::is_finite(b)) return Status::error(StatusCode::energy_overflow, "edit would make the energy range infinite");
+      if (!detail::is_finite(b) || b > float_energy_limit) {
+        return Status::error(StatusCode::energy_overflow, "edit would let the energy range exceed DBL_MAX/4 (flip deltas could overflow)");
+      }
       bound_ = b;
     }
     return Status::success();

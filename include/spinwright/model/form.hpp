@@ -37,6 +37,10 @@ using energy_t = std::conditional_t<std::is_integral_v<Value>, std::int64_t, dou
 inline constexpr std::uint64_t integer_energy_limit =
     static_cast<std::uint64_t>(std::numeric_limits<std::int64_t>::max()) / 4;
 
+// Floating models are refused when the same bound exceeds this limit: an Ising flip delta is
+// 2 * |local field|, so a bound up to DBL_MAX would let a delta or an energy reach infinity.
+inline constexpr double float_energy_limit = std::numeric_limits<double>::max() / 4;
+
 // The largest number of spins an index type can address: index values 0 .. max-1, so that
 // max() itself stays free as a sentinel.
 template <class Index>

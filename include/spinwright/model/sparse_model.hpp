@@ -205,7 +205,11 @@ class SparseModel {
       abs_sum_ = sum;
       bound_ = static_cast<double>(abs_sum_);
     } else {
-      bound_ += detail::abs_double(c) - detail::abs_double(offset_);
+      const double b = bound_ + detail::abs_double(c) - detail::abs_double(offset_);
+      if (!detail::is_finite(b) || b > float_energy_limit) {
+        return Status::error(StatusCode::energy_overflow, "offset would let the energy range exceed DBL_MAX/4 (flip deltas could overflow)");
+      }
+      bound_ = b;
     }
     offset_ = c;
     return Status::success();
@@ -230,7 +234,9 @@ class SparseModel {
       bound_ = static_cast<double>(abs_sum_);
     } else {
       const double b = bound_ + detail::abs_double(new_value) - detail::abs_double(old_value);
-      if (!detail::is_finite(b)) return Status::error(StatusCode::energy_overflow, "edit would make the energy range infinite");
+      if (!detail::is_finite(b) || b > float_energy_limit) {
+        return Status::error(StatusCode::energy_overflow, "edit would let the energy range exceed DBL_MAX/4 (flip deltas could overflow)");
+      }
       bound_ = b;
     }
     return Status::success();
