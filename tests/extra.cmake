@@ -13,3 +13,19 @@ if(TARGET cli_test_cli)
   endif()
 endif()
 # ---- cli: end ----
+
+# ---- kernels (tempering / tabu / exact): begin ----
+# GLPK (GNU Linear Programming Kit) is a test-only dependency of kernels_test_glpk_reference:
+# exact enumeration is checked against its MILP optimum. Debian: apt-get install libglpk-dev.
+if(TARGET kernels_test_glpk_reference)
+  find_library(SPINWRIGHT_GLPK_LIBRARY NAMES glpk)
+  find_path(SPINWRIGHT_GLPK_INCLUDE_DIR NAMES glpk.h)
+  if(NOT SPINWRIGHT_GLPK_LIBRARY OR NOT SPINWRIGHT_GLPK_INCLUDE_DIR)
+    message(FATAL_ERROR
+      "GLPK not found (needed by tests/kernels/test_glpk_reference.cpp): install libglpk-dev "
+      "(apt-get install libglpk-dev) or set SPINWRIGHT_GLPK_LIBRARY and SPINWRIGHT_GLPK_INCLUDE_DIR.")
+  endif()
+  target_include_directories(kernels_test_glpk_reference SYSTEM PRIVATE ${SPINWRIGHT_GLPK_INCLUDE_DIR})
+  target_link_libraries(kernels_test_glpk_reference PRIVATE ${SPINWRIGHT_GLPK_LIBRARY})
+endif()
+# ---- kernels (tempering / tabu / exact): end ----
