@@ -11,14 +11,16 @@
 // A lower energy seen only in the middle of a sweep is not kept; polish the result with
 // descent (kernels/descent.hpp) when the last bit matters.
 //
-// Allocation: the constructor allocates (state, best copy, acceptance table, move lists);
-// step(), reset() and warm_start() allocate nothing. run() and solution() allocate the
-// returned Solution's spin vector only.
+// Allocation: the constructor allocates (state, best copy, acceptance table, move lists), on
+// the heap or from a caller-supplied Arena; step(), advance(), reset() and warm_start()
+// allocate nothing. run() and solution() allocate the returned Solution's spin vector only;
+// with SPINWRIGHT_NO_HEAP they, anneal() and the heap constructors are not declared.
 #ifndef SPINWRIGHT_KERNELS_ANNEAL_HPP
 #define SPINWRIGHT_KERNELS_ANNEAL_HPP
 
 #include "../config.hpp"
 #include "../control/control.hpp"
+#include "../detail/buffer.hpp"
 #include "../moves/move.hpp"
 #include "../moves/single_flip.hpp"
 #include "../rng/xoshiro.hpp"
@@ -31,7 +33,6 @@
 #include <cstring>      // std::memcpy
 #include <type_traits>  // std::is_constructible_v, std::is_same_v
 #include <utility>      // std::move
-#include <vector>       // std::vector (allocated at construction only)
 
 namespace spinwright {
 
@@ -71,7 +72,9 @@ class Annealer {
   using state_type = SpinState<Model>;
   using energy_type = typename Model::energy_type;
 
+#if !SPINWRIGHT_NO_HEAP
   /// Random start state from Xoshiro256::for_restart(seed, restart), or params.initial.
+  /// Allocates the workspace on the heap.
   Annealer(const Model& model, const AnnealParams& params, std::uint64_t seed, std::uint64_t restart = 0)
       : Annealer(model, params, default_move(params), seed, restart) {}
 
@@ -81,23 +84,34 @@ class Annealer {
         state_(model),
         move_(std::move(move)),
         acceptor_(make_acceptor(model, params.acceptance, params.table_limit)),
-        best_spins_(model.num_spins(), 1),
-        schedule_sweeps_(params.sweeps) {
-    schedule_ = params.schedule;
-    if (schedule_.automatic()) {
-      range_ = auto_beta_range(model);
-      schedule_.beta_start = range_.beta_start;
-      schedule_.beta_end = range_.beta_end;
-    } else {
-      range_.beta_start = schedule_.beta_start;
-      range_.beta_end = schedule_.beta_end;
-    }
-    if (params.initial != nullptr) {
-      warm_start(params.initial, seed, restart);
-    } else {
-      reset(seed, restart);
-    }
+        best_spins_(model.num_spins(), 1) {
+    init(seed, restart);
   }
+#endif
+
+  /// The same with the workspace carved from a caller-supplied arena (no heap; firmware).
+  /// Check valid(): false when the arena had less than bytes_needed(model, params) left.
+  Annealer(const Model& model, const AnnealParams& params, Arena& arena, std::uint64_t seed, std::uint64_t restart = 0)
+      : Annealer(model, params, default_move(params), arena, seed, restart) {}
+
+  Annealer(const Model& model, const AnnealParams& params, Move move, Arena& arena, std::uint64_t seed,
+           std::uint64_t restart = 0)
+      : model_(&model),
+        params_(params),
+        state_(model, arena),
+        move_(std::move(move)),
+        acceptor_(make_acceptor(model, params.acceptance, params.table_limit, arena)),
+        best_spins_(model.num_spins(), arena, 1) {
+    if (valid()) init(seed, restart);
+  }
+
+  /// Arena bytes the arena constructors need (the move's own storage not included).
+  static std::size_t bytes_needed(const Model& model, const AnnealParams& params) {
+    return state_type::bytes_needed(model.num_spins()) + arena_bytes<std::int8_t>(model.num_spins()) +
+           acceptor_bytes(model, params.table_limit);
+  }
+
+  bool valid() const noexcept { return state_.valid() && acceptor_.valid() && best_spins_.valid(); }
 
   /// Restart: new RNG stream (seed, restart), random spins (params.initial is not reused),
   /// counters and best cleared. No allocation.
@@ -123,8 +137,9 @@ class Annealer {
 
   /// Runs until the budget ends (its sweeps, or params.sweeps when 0, span the schedule),
   /// honouring the stop token and deadline once per sweep and the target at each sweep end.
+  /// Allocates nothing; read best() afterwards. `seconds` receives the elapsed clock time.
   template <class Observer>
-  Solution<energy_type> run(const Budget& budget, Observer& observer) {
+  StopReason advance(const Budget& budget, Observer& observer, double* seconds = nullptr) {
     const std::uint64_t limit = budget.sweeps != 0 ? budget.sweeps : params_.sweeps;
     schedule_sweeps_ = limit;
     prime_beta();
@@ -139,19 +154,31 @@ class Annealer {
         notify_progress(observer, sweeps_, static_cast<double>(best_energy_));
       }
     }
+    if (seconds != nullptr) *seconds = guard.elapsed();
+    return why;
+  }
+
+#if !SPINWRIGHT_NO_HEAP
+  /// advance(), then the best state as a Solution (allocates its spin vector).
+  template <class Observer>
+  Solution<energy_type> run(const Budget& budget, Observer& observer) {
+    double seconds = 0;
+    const StopReason why = advance(budget, observer, &seconds);
     Solution<energy_type> s = solution();
     s.reason = why;
-    s.seconds = guard.elapsed();
+    s.seconds = seconds;
     return s;
   }
   Solution<energy_type> run(const Budget& budget = Budget{}) {
     NoObserver none;
     return run(budget, none);
   }
+#endif
 
   BestView<energy_type> best() const noexcept {
     return {best_spins_.data(), best_spins_.size(), best_energy_, best_sweep_};
   }
+#if !SPINWRIGHT_NO_HEAP
   /// The best state as a Solution (allocates its spin vector); the energy is recomputed from
   /// the model, so floating models report no accumulated rounding.
   Solution<energy_type> solution() const {
@@ -164,6 +191,10 @@ class Annealer {
     s.restart = restart_;
     return s;
   }
+#endif
+
+  /// Energy of the best state recomputed from the model (no drift for floating models).
+  energy_type best_energy_exact() const noexcept { return model_->energy(best_spins_.data()); }
 
   const state_type& state() const noexcept { return state_; }
   const Model& model() const noexcept { return *model_; }
@@ -181,6 +212,24 @@ class Annealer {
   void set_schedule_sweeps(std::uint64_t s) noexcept { schedule_sweeps_ = s; }
 
  private:
+  void init(std::uint64_t seed, std::uint64_t restart) {
+    schedule_sweeps_ = params_.sweeps;
+    schedule_ = params_.schedule;
+    if (schedule_.automatic()) {
+      range_ = auto_beta_range(*model_);
+      schedule_.beta_start = range_.beta_start;
+      schedule_.beta_end = range_.beta_end;
+    } else {
+      range_.beta_start = schedule_.beta_start;
+      range_.beta_end = schedule_.beta_end;
+    }
+    if (params_.initial != nullptr) {
+      warm_start(params_.initial, seed, restart);
+    } else {
+      reset(seed, restart);
+    }
+  }
+
   static Move default_move(const AnnealParams& params) {
     if constexpr (std::is_constructible_v<Move, SiteOrder>) {
       return Move(params.order);
@@ -277,7 +326,7 @@ class Annealer {
   Schedule schedule_{};
   BetaRange range_{};
   Xoshiro256 rng_{};
-  std::vector<std::int8_t> best_spins_;
+  detail::Buffer<std::int8_t> best_spins_;
   energy_type best_energy_{};
   std::uint64_t best_sweep_ = 0;
   std::uint64_t sweeps_ = 0;
@@ -287,6 +336,7 @@ class Annealer {
   std::uint64_t restart_ = 0;
 };
 
+#if !SPINWRIGHT_NO_HEAP
 /// One restart of annealing with the default single-flip move.
 template <class Model>
 Solution<typename Model::energy_type> anneal(const Model& model, const AnnealParams& params, std::uint64_t seed,
@@ -311,6 +361,8 @@ Solution<typename Model::energy_type> anneal_with(const Model& model, const Anne
   Annealer<Model, Move> a(model, params, std::move(move), seed, restart);
   return a.run(budget);
 }
+
+#endif  // !SPINWRIGHT_NO_HEAP
 
 }  // namespace spinwright
 

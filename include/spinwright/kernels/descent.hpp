@@ -12,12 +12,15 @@
 // tolerance = 1e-12 * (1 + energy bound), so rounding in the tracked local fields can never
 // make two moves undo each other forever.
 //
-// Allocation: the constructor allocates; step(), reset() and warm_start() do not.
+// Allocation: the constructor allocates (heap or caller Arena); step(), advance(), reset() and
+// warm_start() do not. With SPINWRIGHT_NO_HEAP the heap constructors, run(), solution(),
+// descend() and polish() are not declared.
 #ifndef SPINWRIGHT_KERNELS_DESCENT_HPP
 #define SPINWRIGHT_KERNELS_DESCENT_HPP
 
 #include "../config.hpp"
 #include "../control/control.hpp"
+#include "../detail/buffer.hpp"
 #include "../moves/move.hpp"
 #include "../moves/single_flip.hpp"
 #include "../rng/xoshiro.hpp"
@@ -55,22 +58,26 @@ class Descender {
   using state_type = SpinState<Model>;
   using energy_type = typename Model::energy_type;
 
+#if !SPINWRIGHT_NO_HEAP
   Descender(const Model& model, const DescentParams& params, std::uint64_t seed, std::uint64_t restart = 0)
       : Descender(model, params, Move{}, seed, restart) {}
 
   Descender(const Model& model, const DescentParams& params, Move move, std::uint64_t seed, std::uint64_t restart = 0)
       : model_(&model), rule_(params.rule), state_(model), move_(std::move(move)) {
-    if constexpr (std::is_integral_v<energy_type>) {
-      tolerance_ = 0;
-    } else {
-      tolerance_ = 1e-12 * (1 + model.energy_bound());
-    }
-    if (params.initial != nullptr) {
-      warm_start(params.initial, restart);
-    } else {
-      reset(seed, restart);
-    }
+    init(params, seed, restart);
   }
+#endif
+
+  /// The same with the state carved from a caller-supplied arena (no heap); check valid().
+  Descender(const Model& model, const DescentParams& params, Move move, Arena& arena, std::uint64_t seed,
+            std::uint64_t restart = 0)
+      : model_(&model), rule_(params.rule), state_(model, arena), move_(std::move(move)) {
+    if (valid()) init(params, seed, restart);
+  }
+
+  /// Arena bytes the arena constructor needs (the move's own storage not included).
+  static std::size_t bytes_needed(const Model& model) { return state_type::bytes_needed(model.num_spins()); }
+  bool valid() const noexcept { return state_.valid(); }
 
   /// Random spins from Xoshiro256::for_restart(seed, restart). No allocation.
   void reset(std::uint64_t seed, std::uint64_t restart = 0) {
@@ -96,8 +103,9 @@ class Descender {
   }
 
   /// Runs to a local minimum or until the budget ends (budget sweeps = passes; 0 = no limit).
+  /// Allocates nothing. `seconds` receives the elapsed clock time.
   template <class Observer>
-  Solution<energy_type> run(const Budget& budget, Observer& observer) {
+  StopReason advance(const Budget& budget, Observer& observer, double* seconds = nullptr) {
     const std::uint64_t limit = budget.sweeps != 0 ? budget.sweeps : std::numeric_limits<std::uint64_t>::max();
     BudgetGuard guard(budget);
     guard.start();
@@ -107,15 +115,25 @@ class Descender {
       if (pass() != 0) notify_improvement(observer, passes_, static_cast<double>(state_.energy()));
     }
     if (done_ && budget.has_target && static_cast<double>(state_.energy()) <= budget.target) why = StopReason::target_reached;
+    if (seconds != nullptr) *seconds = guard.elapsed();
+    return why;
+  }
+
+#if !SPINWRIGHT_NO_HEAP
+  template <class Observer>
+  Solution<energy_type> run(const Budget& budget, Observer& observer) {
+    double seconds = 0;
+    const StopReason why = advance(budget, observer, &seconds);
     Solution<energy_type> s = solution();
     s.reason = why;
-    s.seconds = guard.elapsed();
+    s.seconds = seconds;
     return s;
   }
   Solution<energy_type> run(const Budget& budget = Budget{}) {
     NoObserver none;
     return run(budget, none);
   }
+#endif
 
   /// True once a whole neighbourhood has been seen without an improving move.
   bool done() const noexcept { return done_; }
@@ -126,6 +144,7 @@ class Descender {
   std::uint64_t attempted() const noexcept { return attempted_; }
   std::uint64_t accepted() const noexcept { return accepted_; }
 
+#if !SPINWRIGHT_NO_HEAP
   /// The current state (descent never goes up, so it is the best) as a Solution; allocates.
   Solution<energy_type> solution() const {
     Solution<energy_type> s;
@@ -137,8 +156,22 @@ class Descender {
     s.restart = restart_;
     return s;
   }
+#endif
 
  private:
+  void init(const DescentParams& params, std::uint64_t seed, std::uint64_t restart) {
+    if constexpr (std::is_integral_v<energy_type>) {
+      tolerance_ = 0;
+    } else {
+      tolerance_ = 1e-12 * (1 + model_->energy_bound());
+    }
+    if (params.initial != nullptr) {
+      warm_start(params.initial, restart);
+    } else {
+      reset(seed, restart);
+    }
+  }
+
   void start() {
     detail::move_prepare(move_, state_);
     cursor_ = 0;
@@ -215,6 +248,7 @@ class Descender {
   bool done_ = false;
 };
 
+#if !SPINWRIGHT_NO_HEAP
 /// Descent from random spins (seed, restart) or params.initial, to a local minimum.
 template <class Model>
 Solution<typename Model::energy_type> descend(const Model& model, const DescentParams& params, std::uint64_t seed,
@@ -241,6 +275,8 @@ Solution<typename Model::energy_type> polish(const Model& model, const Solution<
   s.reason = from.reason;
   return s;
 }
+
+#endif  // !SPINWRIGHT_NO_HEAP
 
 }  // namespace spinwright
 

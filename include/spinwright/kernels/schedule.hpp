@@ -19,6 +19,7 @@
 #define SPINWRIGHT_KERNELS_SCHEDULE_HPP
 
 #include "../config.hpp"
+#include "../detail/buffer.hpp"
 #include "../model/form.hpp"
 #include "../rng/xoshiro.hpp"
 
@@ -26,7 +27,6 @@
 #include <cstddef>      // std::size_t
 #include <cstdint>      // std::uint64_t, std::uint8_t
 #include <type_traits>  // std::is_integral_v
-#include <vector>       // std::vector (threshold table, sized at construction)
 
 namespace spinwright {
 
@@ -205,16 +205,29 @@ class Acceptor {
 
   Acceptor() = default;
 
+#if !SPINWRIGHT_NO_HEAP
   // `shift` and `max_delta` from the model (see make_acceptor); table_limit bounds the table.
   Acceptor(Acceptance rule, unsigned shift, std::uint64_t max_delta, std::size_t table_limit = default_table_limit)
-      : rule_(rule), shift_(shift) {
-    if constexpr (integer) {
+      : rule_(rule), shift_(shift), table_(table_entries(shift, max_delta, table_limit), 0) {}
+#endif
+
+  // The same with the table carved from an arena; check valid().
+  Acceptor(Acceptance rule, unsigned shift, std::uint64_t max_delta, std::size_t table_limit, Arena& arena)
+      : rule_(rule), shift_(shift), table_(table_entries(shift, max_delta, table_limit), arena, 0) {}
+
+  // Entries of the threshold table (0 for floating models).
+  static std::size_t table_entries(unsigned shift, std::uint64_t max_delta, std::size_t table_limit) noexcept {
+    if constexpr (!integer) {
+      return 0;
+    } else {
       std::uint64_t entries = (max_delta >> shift) + 1;
       if (entries > table_limit) entries = table_limit;
       if (entries < 2) entries = 2;
-      table_.assign(static_cast<std::size_t>(entries), 0);
+      return static_cast<std::size_t>(entries);
     }
   }
+
+  bool valid() const noexcept { return table_.valid(); }
 
   Acceptance rule() const noexcept { return rule_; }
   double beta() const noexcept { return beta_; }
@@ -322,11 +335,12 @@ class Acceptor {
   Acceptance rule_ = Acceptance::metropolis;
   unsigned shift_ = 0;
   double beta_ = 0;
-  std::vector<std::uint64_t> table_;  // integer models: 2^53 * acceptance of delta = k << shift
+  detail::Buffer<std::uint64_t> table_;  // integer models: 2^53 * acceptance of delta = k << shift
   std::size_t used_ = 0;              // entries [0, used_) are non-zero
   bool overflow_ = false;             // the table was too short for this beta
 };
 
+#if !SPINWRIGHT_NO_HEAP
 // The acceptor suited to a model (integer models get the threshold table).
 template <class Model>
 Acceptor<typename Model::energy_type> make_acceptor(const Model& model, Acceptance rule,
@@ -336,6 +350,30 @@ Acceptor<typename Model::energy_type> make_acceptor(const Model& model, Acceptan
     return Acceptor<energy_type>(rule, detail::delta_shift(model), detail::max_flip_delta(model), table_limit);
   } else {
     return Acceptor<energy_type>(rule, 0, 0, table_limit);
+  }
+}
+#endif
+
+// The same with the table carved from an arena; check valid().
+template <class Model>
+Acceptor<typename Model::energy_type> make_acceptor(const Model& model, Acceptance rule, std::size_t table_limit, Arena& arena) {
+  using energy_type = typename Model::energy_type;
+  if constexpr (std::is_integral_v<energy_type>) {
+    return Acceptor<energy_type>(rule, detail::delta_shift(model), detail::max_flip_delta(model), table_limit, arena);
+  } else {
+    return Acceptor<energy_type>(rule, 0, 0, table_limit, arena);
+  }
+}
+
+// Arena bytes the acceptance table of a model needs.
+template <class Model>
+std::size_t acceptor_bytes(const Model& model, std::size_t table_limit) {
+  using energy_type = typename Model::energy_type;
+  if constexpr (std::is_integral_v<energy_type>) {
+    return arena_bytes<std::uint64_t>(
+        Acceptor<energy_type>::table_entries(detail::delta_shift(model), detail::max_flip_delta(model), table_limit));
+  } else {
+    return 0;
   }
 }
 

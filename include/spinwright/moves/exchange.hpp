@@ -8,9 +8,10 @@
 #include "../config.hpp"
 #include "move.hpp"
 
+#include "../detail/buffer.hpp"
+
 #include <cstddef>  // std::size_t
 #include <cstdint>  // std::uint32_t
-#include <vector>   // std::vector (sized by prepare(), reused afterwards)
 
 namespace spinwright {
 
@@ -27,12 +28,29 @@ class Exchange {
     std::uint32_t down_pos; // its place in the -1 list
   };
 
-  // Rebuilds the two lists from the state. Allocates on the first call only (per size).
+  Exchange() = default;
+
+  /// Lists for n spins carved from an arena (no heap); check valid().
+  Exchange(std::size_t n, Arena& arena) : up_(n, arena), down_(n, arena), pos_(n, arena) {}
+  static std::size_t bytes_needed(std::size_t n) noexcept {
+    return 2 * arena_bytes<index_type>(n) + arena_bytes<std::uint32_t>(n);
+  }
+  bool valid() const noexcept { return up_.valid() && down_.valid() && pos_.valid(); }
+
+  // Rebuilds the two lists from the state. Heap builds allocate on the first call for a given
+  // size only; arena-built lists must already have the state's size (asserted).
   void prepare(const state_type& s) {
     const std::size_t n = s.size();
-    up_.resize(n);
-    down_.resize(n);
-    pos_.resize(n);
+    if (up_.size() != n) {
+#if !SPINWRIGHT_NO_HEAP
+      up_ = detail::Buffer<index_type>(n);
+      down_ = detail::Buffer<index_type>(n);
+      pos_ = detail::Buffer<std::uint32_t>(n);
+#else
+      SPINWRIGHT_ASSERT(false, "Exchange lists were made for another number of spins");
+      return;
+#endif
+    }
     n_up_ = n_down_ = 0;
     for (std::size_t i = 0; i < n; ++i) {
       if (s.spin(static_cast<index_type>(i)) > 0) {
@@ -79,9 +97,9 @@ class Exchange {
   }
 
  private:
-  std::vector<index_type> up_;
-  std::vector<index_type> down_;
-  std::vector<std::uint32_t> pos_;
+  detail::Buffer<index_type> up_;
+  detail::Buffer<index_type> down_;
+  detail::Buffer<std::uint32_t> pos_;
   std::uint32_t n_up_ = 0;
   std::uint32_t n_down_ = 0;
 };
