@@ -103,6 +103,7 @@ int run_bench(int argc, const char* const* argv) {
 
   LoadedModel m;
   if ((f = load_model(args.positional[0], format, m)).failed()) return fail(f);
+  if ((f = check_restarts(m, base.restarts, "bench")).failed()) return fail(f);
   std::vector<Kernel> kernels;
   if ((f = parse_kernels(kernel_text, m, kernels)).failed()) return fail(f);
   for (const Kernel k : kernels) {

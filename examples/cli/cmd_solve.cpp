@@ -203,6 +203,7 @@ int run_solve(int argc, const char* const* argv) {
 
   LoadedModel m;
   if ((f = load_model(args.positional[0], s.format, m)).failed()) return fail(f);
+  if ((f = check_restarts(m, s.run.restarts, "solve")).failed()) return fail(f);
   std::vector<std::int8_t> warm;
   if (!s.warm_path.empty()) {
     if ((f = load_state(s.warm_path, m.num_spins(), warm)).failed()) return fail(f);

@@ -13,6 +13,7 @@
 
 #include <algorithm>  // std::max
 #include <atomic>     // std::atomic
+#include <csignal>    // std::signal, SIGINT, SIG_DFL
 #include <thread>     // std::thread::hardware_concurrency
 
 namespace spinwright_cli {
@@ -130,7 +131,10 @@ template <class Model>
 Failure run_exact_kernel(const LoadedModel& m, const Model& model, const RunOptions& o, RunResult& out) {
   spinwright::ExactParams params;
   const double start = spinwright::steady_seconds(nullptr);
+  // The enumeration does not poll the stop token: Ctrl-C keeps its default action meanwhile.
+  std::signal(SIGINT, SIG_DFL);
   auto result = spinwright::solve_exact_threads(model, params, o.threads);
+  install_interrupt_handler();
   if (!result) {
     return input_failure(m.path + ": exact enumeration refused: the model has " + std::to_string(m.num_spins()) +
                          " spins and the limit is " + std::to_string(exact_limit()));
@@ -150,6 +154,17 @@ Failure run_exact_kernel(const LoadedModel& m, const Model& model, const RunOpti
 }
 
 }  // namespace
+
+Failure check_restarts(const LoadedModel& m, std::uint64_t restarts, const std::string& command) {
+  // Every restart keeps its best state until the tally is assembled.
+  const double bytes = static_cast<double>(restarts) * static_cast<double>(m.num_spins() + 64);
+  if (bytes > static_cast<double>(max_restart_bytes)) {
+    return usage_failure("--restarts " + std::to_string(restarts) + " would keep " + std::to_string(restarts) +
+                             " states of " + std::to_string(m.num_spins()) + " spins in memory (limit 1 GiB)",
+                         "use fewer restarts, or run 'spinwright " + command + "' several times with other seeds");
+  }
+  return {};
+}
 
 Failure run_kernel(const LoadedModel& m, const RunOptions& options, RunResult& out) {
   RunOptions o = options;

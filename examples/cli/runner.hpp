@@ -58,6 +58,10 @@ struct RunResult {
 // How many restarts ended at or below `energy` (within 1e-9 of the model's energy range `scale`).
 std::uint64_t count_at(const spinwright::Tally<double>& tally, double energy, double scale);
 
+// Refuses (usage error) a restart count whose results would not fit in memory.
+inline constexpr std::uint64_t max_restart_bytes = std::uint64_t{1} << 30;
+Failure check_restarts(const LoadedModel& m, std::uint64_t restarts, const std::string& command);
+
 // Runs `options.kernel` on the model. Fails (input error) only when the kernel refuses the
 // model (e.g. exact beyond its limit).
 Failure run_kernel(const LoadedModel& m, const RunOptions& options, RunResult& out);
