@@ -204,7 +204,9 @@ TEST_CASE("every max-cut instance in the shared data folder reads with the publi
   const std::string dir = std::string(SPINWRIGHT_DATA_DIR) + "/maxcut/";
   const auto refs = read_reference_csv(dir + "reference.csv");
   REQUIRE(refs.size() >= 30);
-  for (const auto& [name, ref] : refs) {
+  for (const auto& entry : refs) {
+    const std::string& name = entry.first;
+    const Reference& ref = entry.second;
     INFO("instance " << name);
     const std::string path = dir + name + ".txt";
     auto r = io::read_model_file(path);
