@@ -94,6 +94,12 @@ TEST_CASE("lines, tokens, quoting") {
   CHECK(seen == std::vector<std::string>{"1:a", "2:", "3:b c", "4:  d"});
   CHECK(r.last_line() == 4);
 
+  // A UTF-8 byte order mark before the first line is skipped.
+  auto bom = io::parse_model_text("\xEF\xBB\xBF%%MatrixMarket matrix coordinate integer general\n1 1 1\n1 1 3\n", "bom.mtx");
+  REQUIRE_MESSAGE(bom.ok(), bom.message());
+  CHECK(bom->format == io::FileFormat::matrix_market);
+  CHECK(bom->qubo_integer.unary(0) == 3);
+
   std::string_view tok[2];
   CHECK(io::detail::split_tokens(" x\ty  z ", tok, 2) == 3);
   CHECK(tok[0] == "x");

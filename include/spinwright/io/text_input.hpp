@@ -100,10 +100,13 @@ struct Line {
 };
 
 /// Splits a buffer into lines at '\n'; a trailing '\r' is dropped (CRLF files). A final line
-/// without '\n' still counts; the empty piece after a final '\n' does not.
+/// without '\n' still counts; the empty piece after a final '\n' does not. A UTF-8 byte order
+/// mark at the very start is skipped.
 class LineReader {
  public:
-  explicit LineReader(std::string_view text) noexcept : text_(text) {}
+  explicit LineReader(std::string_view text) noexcept : text_(text) {
+    if (text_.substr(0, 3) == "\xEF\xBB\xBF") pos_ = 3;
+  }
 
   bool next(Line& out) noexcept {
     if (pos_ >= text_.size()) return false;
