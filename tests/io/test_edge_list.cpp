@@ -120,6 +120,8 @@ TEST_CASE("edge list: missing or broken header") {
   expect_error("5.5 1\n1 2 1\n", StatusCode::parse_error, 1);
   expect_error("-3 1\n1 2 1\n", StatusCode::invalid_argument, 1);
   expect_error("3 -1\n", StatusCode::invalid_argument, 1);
+  // A repeated header is not an edge line.
+  expect_error("3 2\n3 2\n1 2 1\n2 3 1\n", StatusCode::parse_error, 2);
   expect_error("%%MatrixMarket matrix coordinate real general\n3 3 1\n1 2 1\n", StatusCode::parse_error, 1);
   expect_error("\n%%MatrixMarket matrix coordinate real general\n3 3 1\n1 2 1\n", StatusCode::parse_error, 2);
 }
