@@ -12,12 +12,14 @@
 // [0, tenure_spread]).
 //
 // Move selection without a scan: two tournament trees (complete binary trees over the spins, each
-// internal node holding the leaf of least delta below it; ties go to the lower index), one over the
+// internal node holding the leaf of least delta below it; ties go to the leftmost leaf), one over the
 // deltas of the free spins and one over the deltas of the tabu spins (the other entries hold +inf).
 // The best free move and the best tabu move are read at the roots in O(1). Flipping spin i changes
 // the deltas of i and of its neighbours, so each flip updates deg(i) + 1 leaves of both trees in
 // O((deg(i) + 1) log N); when that exceeds the cost of rebuilding both trees bottom-up (O(N), as on
-// dense models) the trees are rebuilt instead. Releasing a spin from the tabu list (at most one per
+// dense models) the trees are rebuilt instead. Spins sit on the leaves in a random order drawn
+// afresh at every cycle (start and perturbation), so ties between equal deltas (frequent with
+// small integer weights) are broken at random rather than always towards low indices. Releasing a spin from the tabu list (at most one per
 // move: the list is a FIFO of flip times) is two leaf updates, O(log N). A move therefore costs
 // O(min((deg + 1) log N, N)) on top of SpinState::flip's O(deg).
 //
@@ -47,10 +49,10 @@ namespace spinwright {
 
 struct TabuParams {
   std::uint64_t sweeps = 1000;          // default budget of run(): sweeps of N moves each
-  std::size_t tenure = 0;               // 0: automatic, min(N / 4, 10 + N / 100), at least 1
+  std::size_t tenure = 0;               // 0: automatic, max(N / 10, min(N / 4, 10)), at least 1
   std::size_t tenure_spread = 0;        // random extra tenure per cycle in [0, spread]; 0: automatic tenure / 2
-  std::uint64_t stagnation = 0;         // moves without a new best before a perturbation; 0: max(1000, 10 N)
-  double perturb_fraction = 0.15;       // fraction of spins flipped at a perturbation (at least 1 spin)
+  std::uint64_t stagnation = 0;         // moves without a new best before a perturbation; 0: max(1000, 20 N)
+  double perturb_fraction = 0.1;        // fraction of spins flipped at a perturbation (at least 1 spin)
   const std::int8_t* initial = nullptr; // warm start (n spins); random spins otherwise
   std::uint64_t progress_every = 0;     // observers' on_progress period in sweeps (0: never)
 };
@@ -131,11 +133,15 @@ class TabuSearch {
         tabu_(model.num_spins()),
         best_spins_(model.num_spins(), 1),
         tabu_until_(model.num_spins(), 0),
-        order_(model.num_spins(), 0) {
+        order_(model.num_spins(), 0),
+        leaf_of_(model.num_spins(), 0),
+        spin_at_(free_.leaves(), 0) {
     base_tenure_ = params.tenure;
     if (base_tenure_ == 0) {
-      base_tenure_ = 10 + n_ / 100;
-      if (base_tenure_ > n_ / 4) base_tenure_ = n_ / 4;
+      // Tuned on the bqp250 and G-set max-cut instances (docs/time-to-target.md): short tenures
+      // cycle on graphs with many equal deltas.
+      base_tenure_ = n_ / 4 < 10 ? n_ / 4 : 10;
+      if (n_ / 10 > base_tenure_) base_tenure_ = n_ / 10;
     }
     if (base_tenure_ < 1) base_tenure_ = 1;
     spread_ = params.tenure_spread == 0 && params.tenure == 0 ? base_tenure_ / 2 : params.tenure_spread;
@@ -145,11 +151,15 @@ class TabuSearch {
     if (base_tenure_ + spread_ > cap) spread_ = cap - base_tenure_;
     ring_spin_.assign(base_tenure_ + spread_ + 2, 0);
     ring_stamp_.assign(base_tenure_ + spread_ + 2, 0);
-    stagnation_ = params.stagnation != 0 ? params.stagnation : (10 * n_ > 1000 ? 10 * n_ : 1000);
+    stagnation_ = params.stagnation != 0 ? params.stagnation : (20 * n_ > 1000 ? 20 * n_ : 1000);
     perturb_count_ = static_cast<std::size_t>(params.perturb_fraction * static_cast<double>(n_));
     if (perturb_count_ < 1) perturb_count_ = 1;
     if (perturb_count_ > n_) perturb_count_ = n_;
-    for (std::size_t i = 0; i < n_; ++i) order_[i] = static_cast<index_type>(i);
+    for (std::size_t i = 0; i < n_; ++i) {
+      order_[i] = static_cast<index_type>(i);
+      leaf_of_[i] = static_cast<std::uint32_t>(i);
+      spin_at_[i] = static_cast<index_type>(i);
+    }
     point_cost_limit_ = free_.leaves();
     log_leaves_ = 1;
     for (std::size_t l = free_.leaves(); l > 1; l /= 2) ++log_leaves_;
@@ -251,6 +261,14 @@ class TabuSearch {
     ring_head_ = ring_size_ = 0;
     tenure_ = base_tenure_ + (spread_ > 0 ? rng_.below(static_cast<std::uint32_t>(spread_ + 1)) : 0);
     since_best_ = 0;
+    // New random placement of the spins on the leaves (Fisher-Yates).
+    for (std::size_t k = n_; k > 1; --k) {
+      const std::size_t r = rng_.below(static_cast<std::uint32_t>(k));
+      const std::uint32_t tmp = leaf_of_[k - 1];
+      leaf_of_[k - 1] = leaf_of_[r];
+      leaf_of_[r] = tmp;
+    }
+    for (std::size_t i = 0; i < n_; ++i) spin_at_[leaf_of_[i]] = static_cast<index_type>(i);
     rebuild_trees();
   }
 
@@ -258,8 +276,8 @@ class TabuSearch {
     for (std::size_t i = 0; i < n_; ++i) {
       const energy_type d = state_.delta(static_cast<index_type>(i));
       const bool tabu = tabu_until_[i] > moves_;
-      free_.put(i, tabu ? inf : d);
-      tabu_.put(i, tabu ? d : inf);
+      free_.put(leaf_of_[i], tabu ? inf : d);
+      tabu_.put(leaf_of_[i], tabu ? d : inf);
     }
     free_.rebuild();
     tabu_.rebuild();
@@ -268,8 +286,8 @@ class TabuSearch {
   void refresh(index_type j) noexcept {
     const energy_type d = state_.delta(j);
     const bool tabu = tabu_until_[j] > moves_;
-    free_.set(j, tabu ? inf : d);
-    tabu_.set(j, tabu ? d : inf);
+    free_.set(leaf_of_[j], tabu ? inf : d);
+    tabu_.set(leaf_of_[j], tabu ? d : inf);
   }
 
   void sync_best() const noexcept {
@@ -311,20 +329,18 @@ class TabuSearch {
       }
     }
     const energy_type e = state_.energy();
-    const std::uint32_t i_free = free_.top();
     const energy_type d_free = free_.top_key();
-    const std::uint32_t i_tabu = tabu_.top();
     const energy_type d_tabu = tabu_.top_key();
     index_type i;
     energy_type d;
     if (d_tabu != inf && d_tabu < d_free && e + d_tabu < best_energy_) {
-      i = static_cast<index_type>(i_tabu);  // aspiration
+      i = spin_at_[tabu_.top()];  // aspiration
       d = d_tabu;
     } else if (d_free != inf) {
-      i = static_cast<index_type>(i_free);
+      i = spin_at_[free_.top()];
       d = d_free;
     } else {
-      i = static_cast<index_type>(i_tabu);
+      i = spin_at_[tabu_.top()];
       d = d_tabu;
     }
     if (at_best_ && !(d < 0)) sync_best();  // leaving a best state: keep a copy
@@ -378,6 +394,8 @@ class TabuSearch {
   mutable std::vector<std::int8_t> best_spins_;
   std::vector<std::uint64_t> tabu_until_;  // spin i is tabu while moves_ < tabu_until_[i]
   std::vector<index_type> order_;
+  std::vector<std::uint32_t> leaf_of_;  // spin -> leaf of the trees
+  std::vector<index_type> spin_at_;     // leaf -> spin (padding leaves hold 0 and +inf keys)
   std::vector<index_type> ring_spin_;      // FIFO of flipped spins and their move numbers
   std::vector<std::uint64_t> ring_stamp_;
   std::size_t ring_head_ = 0;
