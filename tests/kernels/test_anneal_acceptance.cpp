@@ -1,0 +1,133 @@
+// Acceptance rules of kernels/schedule.hpp against their definitions: Metropolis accepts an
+// energy change d with probability min(1, exp(-beta d)) (Metropolis, Rosenbluth, Rosenbluth,
+// Teller, Teller, J. Chem. Phys. 21, 1087 (1953)); heat-bath (Glauber) with probability
+// 1 / (1 + exp(beta d)) (R. J. Glauber, J. Math. Phys. 4, 294 (1963)).
+#include <doctest/doctest.h>
+
+#include <spinwright/kernels/schedule.hpp>
+#include <spinwright/model/builder.hpp>
+
+#include <cmath>
+#include <cstdint>
+
+using namespace spinwright;
+
+namespace {
+
+double metropolis(double beta, double d) { return d <= 0 ? 1.0 : std::exp(-beta * d); }
+double heat_bath(double beta, double d) { return 1.0 / (1.0 + std::exp(beta * d)); }
+
+// Fraction of `trials` accepted, checked against p within 4 binomial standard deviations.
+template <class Energy>
+void check_rate(Acceptor<Energy>& acc, Energy d, double p, std::uint64_t seed) {
+  Xoshiro256 rng(seed);
+  const int trials = 200000;
+  int accepted = 0;
+  for (int k = 0; k < trials; ++k) accepted += acc.accept(d, rng) ? 1 : 0;
+  const double rate = static_cast<double>(accepted) / trials;
+  const double sigma = std::sqrt(p * (1 - p) / trials);
+  CAPTURE(d);
+  CAPTURE(p);
+  CAPTURE(rate);
+  if (p == 0 || p == 1) {
+    CHECK(rate == p);
+  } else {
+    CHECK(std::fabs(rate - p) <= 4 * sigma + 1e-12);
+  }
+}
+
+}  // namespace
+
+TEST_CASE("integer tables: acceptance rates match the definitions, table and fallback alike") {
+  for (const Acceptance rule : {Acceptance::metropolis, Acceptance::heat_bath}) {
+    CAPTURE(static_cast<int>(rule));
+    // shift 1 (Ising deltas are even), max delta 40; a table of 4 entries forces the fallback
+    // (log comparison) for |d| >= 8.
+    for (const std::size_t limit : {std::size_t{4096}, std::size_t{4}}) {
+      CAPTURE(limit);
+      Acceptor<std::int64_t> acc(rule, 1, 40, limit);
+      for (const double beta : {0.0, 0.05, 0.3, 1.0}) {
+        acc.set_beta(beta);
+        for (const std::int64_t d : {-12, -2, 0, 2, 4, 6, 10, 20, 40}) {
+          const double p = rule == Acceptance::metropolis ? metropolis(beta, static_cast<double>(d))
+                                                          : heat_bath(beta, static_cast<double>(d));
+          check_rate(acc, d, p, 17 + static_cast<std::uint64_t>(d + 100));
+        }
+      }
+    }
+  }
+}
+
+TEST_CASE("the threshold table ends where the acceptance drops below 2^-53") {
+  Acceptor<std::int64_t> acc(Acceptance::metropolis, 2, 4000, 4096);  // deltas multiples of 4
+  acc.set_beta(0.07);
+  CHECK(acc.table_used() > 10);
+  CHECK(acc.table_used() < acc.table_size());  // 0.07 * 4k > 53 ln 2 well before k = 1000
+  // Entry k is floor(2^53 exp(-0.07 * 4k)); the entries in use stop where exp(-0.28 k)
+  // falls below 2^-53 (the rates themselves are checked in the test above).
+  const double k_cut = std::ceil(53 * std::log(2.0) / 0.28);
+  CHECK(static_cast<double>(acc.table_used()) == doctest::Approx(k_cut).epsilon(0.02));
+}
+
+TEST_CASE("floating acceptance: the squeeze before the logarithm never changes a decision") {
+  // The same RNG stream through the Acceptor and through the plain definition
+  // (accept iff beta d < -log(u); heat-bath iff beta d < log(1/u - 1); no draw when the
+  // outcome is certain) must give identical decisions.
+  Xoshiro256 pick(3);
+  for (const Acceptance rule : {Acceptance::metropolis, Acceptance::heat_bath}) {
+    Acceptor<double> acc(rule, 0, 0);
+    for (int t = 0; t < 200; ++t) {
+      const double beta = 0.01 + 5 * pick.uniform();
+      acc.set_beta(beta);
+      Xoshiro256 a(100 + t), b(100 + t);
+      for (int k = 0; k < 2000; ++k) {
+        const double d = (pick.uniform() - 0.3) * 20;
+        const bool fast = acc.accept(d, a);
+        bool plain;
+        const double x = beta * d;
+        if (rule == Acceptance::metropolis) {
+          if (!(x > 0)) {
+            plain = true;
+          } else if (x > acceptance_cutoff) {
+            plain = false;
+          } else {
+            plain = x < -std::log(b.uniform_open_zero());
+          }
+        } else {
+          if (x > acceptance_cutoff) {
+            plain = false;
+          } else if (x < -acceptance_cutoff) {
+            plain = true;
+          } else {
+            const double u = b.uniform_open_zero();
+            plain = x < std::log((1 - u) / u);
+          }
+        }
+        REQUIRE(fast == plain);
+      }
+      CHECK(a.next() == b.next());  // same number of draws
+    }
+  }
+  Acceptor<double> m(Acceptance::metropolis, 0, 0);
+  for (const double beta : {0.1, 1.0}) {
+    m.set_beta(beta);
+    for (const double d : {-1.0, 0.5, 3.0, 10.0}) check_rate(m, d, metropolis(beta, d), 5);
+  }
+  Acceptor<double> h(Acceptance::heat_bath, 0, 0);
+  for (const double beta : {0.1, 1.0}) {
+    h.set_beta(beta);
+    for (const double d : {-3.0, 0.0, 0.5, 3.0}) check_rate(h, d, heat_bath(beta, d), 6);
+  }
+}
+
+TEST_CASE("make_acceptor derives the delta granularity from the model") {
+  // Couplings that are all multiples of 4: Ising deltas are multiples of 8 (shift 3).
+  IsingBuilder<std::int32_t> b(3);
+  b.add_coupling(0, 1, 4).add_coupling(1, 2, -12).add_field(2, 8);
+  const auto model = b.build().value();
+  CHECK(detail::delta_shift(model) == 3u);
+  CHECK(detail::max_flip_delta(model) == 2u * (12u + 8u));
+  QuboBuilder<std::int64_t> q(2);
+  q.add_unary(0, 6).add_pair(0, 1, -2);
+  CHECK(detail::delta_shift(q.build().value()) == 1u);
+}
