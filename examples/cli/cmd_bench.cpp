@@ -48,9 +48,14 @@ struct Row {
   RunResult result;
 };
 
-Failure parse_kernels(const std::string& text, const LoadedModel& m, std::vector<Kernel>& out) {
+struct Entry {
+  Kernel kernel;
+  std::uint64_t sweeps;  // 0: the kernel's own default
+};
+
+Failure parse_kernels(const std::string& text, const LoadedModel& m, std::vector<Entry>& out) {
   if (text == "all") {
-    out = {Kernel::anneal, Kernel::temper, Kernel::tabu, Kernel::descent};
+    out = {{Kernel::anneal, 0}, {Kernel::temper, 0}, {Kernel::tabu, 0}, {Kernel::descent, 0}};
     return {};
   }
   std::size_t start = 0;
@@ -63,8 +68,13 @@ Failure parse_kernels(const std::string& text, const LoadedModel& m, std::vector
       return usage_failure("unknown kernel '" + name + "' in --kernel",
                            "kernels are: auto, all, anneal, temper, tabu, descent, exact");
     }
-    if (is_auto) k = choose_kernel(m);
-    out.push_back(k);
+    std::uint64_t sweeps = 0;
+    if (is_auto) {
+      const AutoPick pick = auto_choice(m);
+      k = pick.kernel;
+      sweeps = pick.sweeps;
+    }
+    out.push_back({k, sweeps});
     if (comma == std::string::npos) break;
     start = comma + 1;
   }
@@ -104,10 +114,10 @@ int run_bench(int argc, const char* const* argv) {
   LoadedModel m;
   if ((f = load_model(args.positional[0], format, m)).failed()) return fail(f);
   if ((f = check_restarts(m, base.restarts, "bench")).failed()) return fail(f);
-  std::vector<Kernel> kernels;
+  std::vector<Entry> kernels;
   if ((f = parse_kernels(kernel_text, m, kernels)).failed()) return fail(f);
-  for (const Kernel k : kernels) {
-    if (k == Kernel::exact && m.num_spins() > exact_limit()) {
+  for (const Entry& e : kernels) {
+    if (e.kernel == Kernel::exact && m.num_spins() > exact_limit()) {
       return fail(input_failure(m.path + ": the exact kernel is limited to " + std::to_string(exact_limit()) +
                                 " spins and this model has " + std::to_string(m.num_spins())));
     }
@@ -115,10 +125,12 @@ int run_bench(int argc, const char* const* argv) {
 
   std::vector<Row> rows;
   bool interrupted_run = false;
-  for (const Kernel k : kernels) {
+  for (const Entry& e : kernels) {
     if (interrupted()) break;
+    const Kernel k = e.kernel;
     RunOptions o = base;
     o.kernel = k;
+    if (o.sweeps == 0) o.sweeps = e.sweeps;
     // The target is not given to the kernels: every restart runs its whole budget, so the
     // restart time in TTS99 is that of a full run.
     ProgressCounters counters;

@@ -47,7 +47,7 @@ int run_inspect(int argc, const char* const* argv) {
   const bool ising = m.form == spinwright::Form::ising;
   const char* linear_name = ising ? "fields" : "unary";
   const char* pair_name = ising ? "couplings" : "pairs";
-  const Kernel chosen = choose_kernel(m);
+  const AutoPick chosen = auto_choice(m);
   std::string report;
   if (json) {
     JsonWriter j;
@@ -73,7 +73,8 @@ int run_inspect(int argc, const char* const* argv) {
     j.member("largest_component", static_cast<std::uint64_t>(g.largest_component));
     j.member("model_bytes", g.model_bytes);
     j.member("state_bytes", g.state_bytes);
-    j.member("auto_kernel", kernel_name(chosen));
+    j.member("auto_kernel", kernel_name(chosen.kernel));
+    j.member("auto_sweeps", chosen.sweeps);
     j.end_object();
     report = j.str();
   } else {
@@ -97,7 +98,9 @@ int run_inspect(int argc, const char* const* argv) {
     t.line("components", std::to_string(g.components) + " (largest " + std::to_string(g.largest_component) +
                              (g.largest_component == 1 ? " node)" : " nodes)"));
     t.line("memory", bytes_text(g.model_bytes) + " model + " + bytes_text(g.state_bytes) + " per restart");
-    t.line("auto kernel", kernel_name(chosen));
+    t.line("auto kernel", std::string(kernel_name(chosen.kernel)) +
+                              (chosen.sweeps > 0 ? ", " + std::to_string(chosen.sweeps) + " sweeps per restart" : "") +
+                              " (" + chosen.reason + ")");
     report = t.str();
   }
   if (!write_stdout(report)) return fail(input_failure("spinwright: cannot write the report to standard output"));

@@ -180,7 +180,9 @@ std::string solve_text(const LoadedModel& m, const SolveSettings& s, const RunRe
   if (s.run.has_target) {
     const double tol = 1e-9 * (scale > 1 ? scale : 1.0);
     const double p = r.tally.success_probability(s.run.target, tol);
-    t.line("target", number_text(s.run.target) + ": reached by " + probability_text(p) + " of restarts, TTS99 " +
+    const auto hits = static_cast<std::uint64_t>(p * static_cast<double>(r.tally.restarts()) + 0.5);
+    t.line("target", number_text(s.run.target) + " reached in " + std::to_string(hits) + " of " +
+                         std::to_string(r.tally.restarts()) + " restarts (p = " + probability_text(p) + "), TTS99 " +
                          seconds_text(r.tally.tts99(s.run.target, tol)));
   }
   if (!s.state_out.empty()) t.line("state written to", s.state_out);
@@ -209,7 +211,12 @@ int run_solve(int argc, const char* const* argv) {
     if ((f = load_state(s.warm_path, m.num_spins(), warm)).failed()) return fail(f);
     s.run.warm = &warm;
   }
-  s.run.kernel = s.kernel_auto ? choose_kernel(m) : s.kernel;
+  s.run.kernel = s.kernel;
+  if (s.kernel_auto) {
+    const AutoPick pick = auto_choice(m);
+    s.run.kernel = pick.kernel;
+    if (!args.has("sweeps")) s.run.sweeps = pick.sweeps;
+  }
   if (s.run.kernel == Kernel::exact && m.num_spins() > exact_limit()) {
     return fail(input_failure(m.path + ": the exact kernel is limited to " + std::to_string(exact_limit()) +
                               " spins and this model has " + std::to_string(m.num_spins())));

@@ -4,6 +4,7 @@
 
 #include <spinwright/control/steady_clock.hpp>
 #include <spinwright/kernels/anneal.hpp>
+#include <spinwright/kernels/auto.hpp>
 #include <spinwright/kernels/descent.hpp>
 #include <spinwright/kernels/exact.hpp>
 #include <spinwright/kernels/tabu.hpp>
@@ -43,13 +44,19 @@ bool kernel_from_name(const std::string& name, bool& is_auto, Kernel& out) {
 
 std::size_t exact_limit() { return spinwright::exact_default_limit; }
 
-Kernel choose_kernel(const LoadedModel& m) {
-  const std::size_t n = m.num_spins();
-  if (n <= 20) return Kernel::exact;
-  const double density =
-      static_cast<double>(m.num_pairs()) / (0.5 * static_cast<double>(n) * static_cast<double>(n - 1));
-  if (m.form == spinwright::Form::qubo || density >= 0.1) return Kernel::tabu;
-  return Kernel::anneal;
+AutoPick auto_choice(const LoadedModel& m) {
+  const spinwright::AutoChoice c = visit(m, [](const auto& model) { return spinwright::choose_kernel(model); });
+  AutoPick pick;
+  switch (c.kernel) {
+    case spinwright::KernelKind::anneal: pick.kernel = Kernel::anneal; break;
+    case spinwright::KernelKind::temper: pick.kernel = Kernel::temper; break;
+    case spinwright::KernelKind::tabu: pick.kernel = Kernel::tabu; break;
+    case spinwright::KernelKind::descent: pick.kernel = Kernel::descent; break;
+    case spinwright::KernelKind::exact: pick.kernel = Kernel::exact; break;
+  }
+  pick.sweeps = c.sweeps;
+  pick.reason = c.reason;
+  return pick;
 }
 
 std::uint64_t count_at(const spinwright::Tally<double>& tally, double energy, double scale) {
@@ -60,6 +67,10 @@ std::uint64_t count_at(const spinwright::Tally<double>& tally, double energy, do
 }
 
 namespace {
+
+bool cut(const spinwright::Solution<double>& s) {
+  return s.reason == spinwright::StopReason::stopped || s.reason == spinwright::StopReason::deadline;
+}
 
 // Feeds the progress line; kernels call it from their own thread.
 struct ProgressObserver {
@@ -90,9 +101,9 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
       spinwright::AnnealParams p;
       p.initial = warm;
       s = spinwright::anneal(model, p, o.seed, r, budget, observer);
-      // Annealing keeps the best state seen at sweep ends; a descent takes it to the local
-      // minimum below (never raises the energy).
-      if (s.reason != spinwright::StopReason::stopped) s = spinwright::polish(model, s);
+      // Annealing keeps the best state seen at sweep ends; a steepest descent takes it to the
+      // local minimum below (never raises the energy), unless the run was cut short.
+      if (!cut(s)) s = spinwright::polish(model, s, spinwright::DescentRule::steepest);
       break;
     }
     case Kernel::descent: {
@@ -105,7 +116,7 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
       spinwright::TemperParams p;
       p.initial = warm;
       s = static_cast<spinwright::Solution<double>>(spinwright::temper(model, p, o.seed, r, budget, observer));
-      if (s.reason != spinwright::StopReason::stopped) s = spinwright::polish(model, s);
+      if (!cut(s)) s = spinwright::polish(model, s, spinwright::DescentRule::steepest);
       break;
     }
     case Kernel::tabu: {
@@ -117,7 +128,7 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
     case Kernel::exact:
       break;  // run_exact_kernel
   }
-  if (s.reason == spinwright::StopReason::deadline || s.reason == spinwright::StopReason::stopped) {
+  if (cut(s)) {
     cut_short.fetch_add(1, std::memory_order_relaxed);
   }
   if (o.progress != nullptr) {

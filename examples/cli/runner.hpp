@@ -23,11 +23,15 @@ const char* kernel_name(Kernel k);
 // "auto" is resolved by choose_kernel; false for an unknown name.
 bool kernel_from_name(const std::string& name, bool& is_auto, Kernel& out);
 
-// The automatic choice (documented in docs/cli.md):
-//   exact    N <= 20 (at most 2^20 states: milliseconds)
-//   tabu     QUBO input, or any model with pair density >= 0.1 (dense, QUBO-like)
-//   anneal   otherwise (sparse models, max-cut graphs)
-Kernel choose_kernel(const LoadedModel& m);
+// The automatic choice: spinwright::choose_kernel of kernels/auto.hpp (exact for N <= 20,
+// tabu with 2000 sweeps at pair density >= 0.1, annealing otherwise with 4000 / 2000 / 1000
+// sweeps by size), documented in docs/cli.md.
+struct AutoPick {
+  Kernel kernel = Kernel::anneal;
+  std::uint64_t sweeps = 0;  // the rule's sweeps per restart (0 for exact)
+  std::string reason;
+};
+AutoPick auto_choice(const LoadedModel& m);
 
 // Largest N the exact kernel takes from the command line.
 std::size_t exact_limit();
