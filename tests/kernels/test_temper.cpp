@@ -87,6 +87,24 @@ TEST_CASE_TEMPLATE("random models: tempering reaches the exact ground energy", V
     const auto dq = DenseQuboModel<Value>::from(q).value();
     const auto sd = temper(dq, p, 5, static_cast<std::uint64_t>(trial));
     CHECK(static_cast<double>(sd.energy) == doctest::Approx(static_cast<double>(exact->energy)));
+    // Houdayer moves on a QUBO (the pair's energy is conserved whatever the unary terms).
+    TemperParams ph = p;
+    ph.houdayer = true;
+    Tempering<QuboModel<Value>> th(q, ph, 5, static_cast<std::uint64_t>(trial));
+    th.step(1);
+    for (std::size_t k = 0; k < th.temperatures(); ++k) {
+      const double before = static_cast<double>(th.state(k, 0).energy()) + static_cast<double>(th.state(k, 1).energy());
+      th.houdayer_move(k);
+      const double after = static_cast<double>(th.state(k, 0).energy()) + static_cast<double>(th.state(k, 1).energy());
+      CHECK(after == doctest::Approx(before));
+    }
+    const auto sh = th.run();
+    CHECK(sh.cluster_moves > 0);
+    CHECK(static_cast<double>(sh.energy) == doctest::Approx(static_cast<double>(exact->energy)));
+    for (std::size_t k = 0; k < th.temperatures(); ++k) {
+      CHECK(th.state(k, 0).check().max_field_error < 1e-6);
+      CHECK(th.state(k, 1).check().max_field_error < 1e-6);
+    }
   }
 }
 
@@ -144,6 +162,15 @@ TEST_CASE("Houdayer cluster moves on a 2D +-J glass") {
   Tempering<IsingModel<std::int32_t>> t(m, p, 9);
   CHECK(t.replicas() == 2 * t.temperatures());
   t.step(20);
+  std::size_t flipped = 0;
+  for (int round = 0; round < 10; ++round) {
+    for (std::size_t k = 0; k < t.temperatures(); ++k) {
+      const std::int64_t before = t.state(k, 0).energy() + t.state(k, 1).energy();
+      flipped += t.houdayer_move(k);
+      CHECK(t.state(k, 0).energy() + t.state(k, 1).energy() == before);
+    }
+  }
+  CHECK(flipped > 0);
   for (std::size_t k = 0; k < t.temperatures(); ++k) {
     CHECK(t.state(k, 0).check().exact);
     CHECK(t.state(k, 1).check().exact);

@@ -231,6 +231,16 @@ class Tempering {
     return a;
   }
 
+  /// One Houdayer cluster move between the two replicas on rung k (params.houdayer must be set;
+  /// asserted). Returns the number of sites flipped in each replica (0 when the replicas are
+  /// equal or opposite everywhere). No allocation.
+  std::size_t houdayer_move(std::size_t k) {
+    SPINWRIGHT_ASSERT(sets_ == 2 && k < temps_, "houdayer_move needs params.houdayer and a rung index");
+    const std::uint64_t before = cluster_sites_;
+    cluster_move(k, rng_);
+    return static_cast<std::size_t>(cluster_sites_ - before);
+  }
+
   std::size_t temperatures() const noexcept { return temps_; }
   std::size_t replicas() const noexcept { return replicas_.size(); }
   double beta(std::size_t k) const noexcept { return betas_[k]; }
