@@ -20,6 +20,10 @@
 #include <utility>    // std::pair
 #include <vector>     // std::vector
 
+#include <fcntl.h>   // fcntl, O_NONBLOCK
+#include <pty.h>     // openpty
+#include <unistd.h>  // read, close
+
 #ifndef SPINWRIGHT_CLI_PATH
 #define SPINWRIGHT_CLI_PATH ""  // tests/extra.cmake defines it when the program is built
 #endif
@@ -601,17 +605,64 @@ TEST_CASE("cli: Ctrl-C stops a long run, prints the best state so far and exits 
   CHECK(t.out.find("\nspins ") != std::string::npos);
 }
 
-TEST_CASE("cli: a time limit ends a run that its sweep budget would not") {
+TEST_CASE("cli: a time limit ends a run that its sweep budget would not; no progress line off a terminal") {
   TempDir dir;
   REQUIRE(dir.ok());
   const std::string path = dir.write("g.txt", random_graph(500, 1500, -1, 1, 4).edge_list());
+  // Longer than the second after which a terminal would show the progress line.
   const RunOutput r = cli_test::run_process(exe, {"solve", path, "--kernel", "anneal", "--sweeps", "1000000000",
-                                                  "--restarts", "2", "--time-limit", "0.3", "--report", "json"},
+                                                  "--restarts", "2", "--time-limit", "1.3", "--report", "json"},
                                             dir, 0, 60);
   CHECK_FALSE(r.hung);
   CHECK(r.code == 0);
+  CHECK(r.err.empty());  // stderr is a file here, not a terminal
   const Json j = parse_ok(r);
   CHECK(j["cut_short"].num == 2);
   CHECK_FALSE(j["interrupted"].b);
   CHECK(spins_of(j).size() == 500);
+}
+
+namespace {
+// Everything a pseudo-terminal's master side holds (non-blocking reads until empty).
+std::string drain(int fd) {
+  std::string all;
+  char buf[4096];
+  for (;;) {
+    const ssize_t n = ::read(fd, buf, sizeof buf);
+    if (n <= 0) break;
+    all.append(buf, static_cast<std::size_t>(n));
+  }
+  return all;
+}
+}  // namespace
+
+TEST_CASE("cli: on a terminal a long run shows the progress line on stderr, unless --quiet") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const std::string path = dir.write("g.txt", random_graph(500, 1500, -1, 1, 4).edge_list());
+  for (const bool quiet : {false, true}) {
+    int master = -1, slave = -1;
+    REQUIRE(::openpty(&master, &slave, nullptr, nullptr, nullptr) == 0);
+    ::fcntl(master, F_SETFL, ::fcntl(master, F_GETFL) | O_NONBLOCK);
+    ::fcntl(master, F_SETFD, FD_CLOEXEC);
+    std::vector<std::string> args = {"solve", path, "--kernel", "anneal", "--sweeps", "1000000000",
+                                     "--restarts", "2", "--time-limit", "1.6"};
+    if (quiet) args.push_back("--quiet");
+    const RunOutput r = cli_test::run_process(exe, args, dir, 0, 60, slave);
+    ::close(slave);
+    const std::string tty = drain(master);
+    ::close(master);
+    CHECK_FALSE(r.hung);
+    CHECK(r.code == 0);
+    CHECK(r.out.find("\nspins ") != std::string::npos);  // the report itself goes to stdout
+    INFO("terminal: " << tty);
+    if (quiet) {
+      CHECK(tty.empty());
+    } else {
+      CHECK(tty.find("elapsed") != std::string::npos);
+      CHECK(tty.find("restarts") != std::string::npos);
+      CHECK(tty.find('\r') != std::string::npos);           // redrawn in place
+      CHECK(tty.find('\n') == std::string::npos);           // a single line, never scrolled
+    }
+  }
 }

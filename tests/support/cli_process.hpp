@@ -79,8 +79,10 @@ class TempDir {
 };
 
 // Starts `exe args...`; when `interrupt_after` > 0 sends SIGINT that many seconds after start.
+// With `stderr_fd` >= 0 the child's stderr is that descriptor (e.g. a pseudo-terminal) instead
+// of a file, and RunOutput::err stays empty.
 inline RunOutput run_process(const std::string& exe, const std::vector<std::string>& args, TempDir& dir,
-                             double interrupt_after = 0, double hang_seconds = 60) {
+                             double interrupt_after = 0, double hang_seconds = 60, int stderr_fd = -1) {
   static int counter = 0;
   ++counter;
   const std::string out_path = dir.file("stdout" + std::to_string(counter));
@@ -89,7 +91,11 @@ inline RunOutput run_process(const std::string& exe, const std::vector<std::stri
   posix_spawn_file_actions_t actions;
   posix_spawn_file_actions_init(&actions);
   posix_spawn_file_actions_addopen(&actions, 1, out_path.c_str(), O_WRONLY | O_CREAT | O_TRUNC, 0644);
-  posix_spawn_file_actions_addopen(&actions, 2, err_path.c_str(), O_WRONLY | O_CREAT | O_TRUNC, 0644);
+  if (stderr_fd >= 0) {
+    posix_spawn_file_actions_adddup2(&actions, stderr_fd, 2);
+  } else {
+    posix_spawn_file_actions_addopen(&actions, 2, err_path.c_str(), O_WRONLY | O_CREAT | O_TRUNC, 0644);
+  }
   posix_spawn_file_actions_addopen(&actions, 0, "/dev/null", O_RDONLY, 0);
   std::vector<std::string> all;
   all.push_back(exe);
@@ -127,7 +133,7 @@ inline RunOutput run_process(const std::string& exe, const std::vector<std::stri
   if (WIFEXITED(status)) r.code = WEXITSTATUS(status);
   if (WIFSIGNALED(status)) r.code = 128 + WTERMSIG(status);
   r.out = read_file(out_path);
-  r.err = read_file(err_path);
+  if (stderr_fd < 0) r.err = read_file(err_path);
   return r;
 }
 
