@@ -301,7 +301,24 @@ class Annealer {
         }
       };
       if (move_.order() == SiteOrder::sequential) {
-        for (std::uint32_t i = 0; i < n; ++i) visit(i);
+        // A tight scan that only evaluates and rejects, leaving it for each accepted flip:
+        // the common case (rejection at low temperature) keeps its values in registers.
+        std::uint32_t i = 0;
+        for (;;) {
+          energy_type d{};
+          for (; i < n; ++i) {
+            if constexpr (Model::form == Form::ising) {
+              d = -2 * spins[i] * fields[i];
+            } else {
+              d = spins[i] * fields[i];
+            }
+            if (acceptor.accept(d, rng)) break;
+          }
+          if (i >= n) break;
+          state_.flip_with_delta(static_cast<typename Model::index_type>(i), d);
+          ++accepted;
+          ++i;
+        }
       } else {
         for (std::uint32_t k = 0; k < n; ++k) visit(rng.below(n));
       }
