@@ -276,6 +276,18 @@ TEST_CASE("cli: solve --report json holds the documented keys, and its cut and e
   CHECK(t["target"].kind == Json::Kind::null);
 }
 
+TEST_CASE("cli: JSON strings are escaped (a file name with a quote, a backslash and a tab)") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const std::string path = dir.write("odd \"name\\\twith.txt", cycle(5).edge_list());
+  for (const char* cmd : {"solve", "exact", "inspect"}) {
+    const RunOutput r = run(dir, {cmd, path, "--report", "json"});
+    REQUIRE(r.code == 0);
+    const Json j = parse_ok(r);
+    CHECK(j["file"].text == path);
+  }
+}
+
 TEST_CASE("cli: solve with a target reports the success probability; text report is aligned") {
   TempDir dir;
   REQUIRE(dir.ok());
