@@ -158,7 +158,8 @@ class Tempering {
   }
 
   /// Restart: new RNG stream (seed, restart), independent random spins for every replica,
-  /// counters and best cleared, the ladder back to its initial shape only if it was not adapted.
+  /// counters and best cleared. The ladder in use is kept (an adapted ladder is not re-adapted).
+  /// No allocation.
   void reset(std::uint64_t seed, std::uint64_t restart = 0) {
     rng_ = Xoshiro256::for_restart(seed, restart);
     restart_ = restart;
