@@ -69,6 +69,10 @@ TEST_CASE_TEMPLATE("4x4 torus ferromagnet: lowest levels and degeneracies", Mode
     }
     CHECK(r->ground_count == 2);
     CHECK(static_cast<double>(r->energy) == -32.0);
+    CHECK(r->solution().energy == r->energy);
+    CHECK(r->solution().spins == r->spins);
+    CHECK(r->solution().attempted == r->states);
+    CHECK(r->states == (symmetry ? 32768u : 65536u));
     // The lowest canonical index of the two ground states is all spins +1 (index 0).
     CHECK(r->levels[0].first_index == 0);
     for (auto s : r->spins) CHECK(s == 1);

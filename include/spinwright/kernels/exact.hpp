@@ -36,6 +36,7 @@
 #include "../model/form.hpp"
 #include "../state/spin_state.hpp"
 #include "../status.hpp"
+#include "solution.hpp"
 
 #include <cstddef>      // std::size_t
 #include <cstdint>      // std::int8_t, std::uint64_t, std::uint8_t
@@ -80,6 +81,15 @@ struct ExactResult {
     std::vector<std::uint8_t> b(spins.size());
     for (std::size_t i = 0; i < spins.size(); ++i) b[i] = spins[i] < 0 ? 1 : 0;
     return b;
+  }
+
+  /// The ground state as a Solution (attempted = assignments visited), e.g. for a Tally.
+  Solution<Energy> solution() const {
+    Solution<Energy> s;
+    s.spins = spins;
+    s.energy = energy;
+    s.attempted = states;
+    return s;
   }
 };
 
