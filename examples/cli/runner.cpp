@@ -14,6 +14,7 @@
 
 #include <algorithm>  // std::max
 #include <atomic>     // std::atomic
+#include <cmath>      // std::ceil
 #include <csignal>    // std::signal, SIGINT, SIG_DFL
 #include <thread>     // std::thread::hardware_concurrency
 
@@ -88,8 +89,12 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
   budget.stop = &interrupt_token();
   if (o.has_target) budget.with_target(o.target);
   if (o.time_limit < std::numeric_limits<double>::infinity()) {
-    const double used = spinwright::steady_seconds(nullptr) - run_start;
-    budget.with_time_limit(std::max(0.0, o.time_limit - used), spinwright::steady_clock());
+    // An equal share of the limit per restart (the restarts run `threads` at a time), and
+    // never more than what is left of the whole run.
+    const double waves = std::ceil(static_cast<double>(o.restarts) / static_cast<double>(o.threads));
+    const double share = o.time_limit / (waves < 1 ? 1 : waves);
+    const double left = o.time_limit - (spinwright::steady_seconds(nullptr) - run_start);
+    budget.with_time_limit(std::max(0.0, std::min(share, left)), spinwright::steady_clock());
   } else {
     budget.clock = spinwright::steady_clock();  // for Solution::seconds
   }
@@ -186,6 +191,7 @@ Failure run_kernel(const LoadedModel& m, const RunOptions& options, RunResult& o
     f = visit(m, [&](const auto& model) { return run_exact_kernel(m, model, o, out); });
   } else {
     out.threads = static_cast<unsigned>(std::min<std::uint64_t>(o.threads, std::max<std::uint64_t>(o.restarts, 1)));
+    o.threads = out.threads;
     std::atomic<std::uint64_t> cut_short{0};
     out.tally = visit(m, [&](const auto& model) {
       return spinwright::run_restarts<double>(
