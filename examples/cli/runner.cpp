@@ -73,6 +73,19 @@ bool cut(const spinwright::Solution<double>& s) {
   return s.reason == spinwright::StopReason::stopped || s.reason == spinwright::StopReason::deadline;
 }
 
+// The closing descent of annealing and tempering: steepest after a full schedule; after a
+// deadline cut the schedule short (the best state may still be far from a local minimum), the
+// cheaper first-improvement descent, so the limit is passed by one descent at most; none after
+// Ctrl-C, which must stop promptly.
+template <class Model>
+spinwright::Solution<double> finish(const Model& model, const spinwright::Solution<double>& s) {
+  if (s.reason == spinwright::StopReason::stopped) return s;
+  if (s.reason == spinwright::StopReason::deadline) {
+    return spinwright::polish(model, s, spinwright::DescentRule::first_improvement);
+  }
+  return spinwright::polish(model, s, spinwright::DescentRule::steepest);
+}
+
 // Feeds the progress line; kernels call it from their own thread.
 struct ProgressObserver {
   ProgressCounters* counters = nullptr;
@@ -106,9 +119,9 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
       spinwright::AnnealParams p;
       p.initial = warm;
       s = spinwright::anneal(model, p, o.seed, r, budget, observer);
-      // Annealing keeps the best state seen at sweep ends; a steepest descent takes it to the
-      // local minimum below (never raises the energy), unless the run was cut short.
-      if (!cut(s)) s = spinwright::polish(model, s, spinwright::DescentRule::steepest);
+      // Annealing keeps the best state seen at sweep ends; a descent takes it to the local
+      // minimum below (never raises the energy).
+      s = finish(model, s);
       break;
     }
     case Kernel::descent: {
@@ -121,7 +134,7 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
       spinwright::TemperParams p;
       p.initial = warm;
       s = static_cast<spinwright::Solution<double>>(spinwright::temper(model, p, o.seed, r, budget, observer));
-      if (!cut(s)) s = spinwright::polish(model, s, spinwright::DescentRule::steepest);
+      s = finish(model, s);
       break;
     }
     case Kernel::tabu: {
