@@ -12,6 +12,7 @@
 #include <spinwright/model/builder.hpp>
 #include <spinwright/model/convert.hpp>
 #include <spinwright/model/dense_model.hpp>
+#include <spinwright/model/sparse_view.hpp>
 #include <spinwright/rng/xoshiro.hpp>
 #include <spinwright/state/spin_state.hpp>
 #include <spinwright/io/edge_list.hpp>
@@ -928,6 +929,148 @@ inline Failure state_entry(const std::uint8_t* data, std::size_t size) {
     if (!again.ok() || again.value() != spins) return "a state written by format_state does not read back";
   }
   return nullptr;
+}
+
+// ---------------------------------------------------------------------------------------------
+// SparseModelView::over(): caller arrays (no heap) checked before use.
+
+template <spinwright::Form F, class Value, class Index>
+Failure view_case(ByteReader& r, std::uint64_t seed) {
+  using namespace spinwright;
+  using Energy = energy_t<Value>;
+  using View = SparseModelView<F, Value, Index>;
+  constexpr bool integral = std::is_integral_v<Value>;
+  const std::size_t n = r.byte() % 12;
+  std::vector<std::size_t> row(n + 1, 0);
+  if (r.byte() == 0xa5) row[0] = 1;  // a bad first entry
+  std::size_t top = row[0];
+  for (std::size_t i = 0; i < n; ++i) {
+    const std::uint8_t b = r.byte();
+    row[i + 1] = (b & 0x80) && row[i] > 0 ? row[i] - 1 : row[i] + b % 6;
+    if (row[i + 1] > top) top = row[i + 1];
+  }
+  std::vector<Index> nbr(top + 1);
+  std::vector<Value> val(top + 1);
+  std::vector<Value> lin(n + 1);
+  // Mostly a consistent symmetric pattern: entry k of row i mirrors a random earlier choice.
+  for (std::size_t k = 0; k <= top; ++k) {
+    nbr[k] = static_cast<Index>(r.byte() % (n + 2));
+    val[k] = decode_value<Value>(r);
+  }
+  for (std::size_t i = 0; i < n; ++i) lin[i] = decode_value<Value>(r);
+  const Energy offset = decode_value<Energy>(r);
+  auto made = View::over(n, lin.data(), row.data(), nbr.data(), val.data(), offset);
+
+  // Independent validity of the arrays.
+  bool valid = row[0] == 0 && finite_value(offset);
+  for (std::size_t i = 0; i < n && valid; ++i) {
+    if (row[i + 1] < row[i] || !finite_value(lin[i])) valid = false;
+  }
+  auto lookup = [&](std::size_t i, std::size_t j, Value& out) {
+    for (std::size_t k = row[i]; k < row[i + 1]; ++k) {
+      if (nbr[k] == j) {
+        out = val[k];
+        return true;
+      }
+    }
+    return false;
+  };
+  for (std::size_t i = 0; i < n && valid; ++i) {
+    for (std::size_t k = row[i]; k < row[i + 1] && valid; ++k) {
+      const std::size_t j = nbr[k];
+      Value back{};
+      if (j >= n || j == i || (k > row[i] && nbr[k - 1] >= nbr[k]) || !finite_value(val[k]) || val[k] == Value{0} ||
+          !lookup(j, i, back) || !(back == val[k])) {
+        valid = false;
+      }
+    }
+  }
+  bool maybe = false;
+  if (valid) {
+    if constexpr (integral) {
+      Wide sum = magnitude<Wide>(offset);
+      for (std::size_t i = 0; i < n; ++i) {
+        sum += magnitude<Wide>(lin[i]);
+        for (std::size_t k = row[i]; k < row[i + 1]; ++k) {
+          if (nbr[k] > i) sum += magnitude<Wide>(val[k]);
+        }
+      }
+      if (sum > static_cast<Wide>(integer_energy_limit)) valid = false;
+    } else {
+      long double sum = magnitude<long double>(offset);
+      for (std::size_t i = 0; i < n; ++i) {
+        sum += magnitude<long double>(lin[i]);
+        for (std::size_t k = row[i]; k < row[i + 1]; ++k) {
+          if (nbr[k] > i) sum += magnitude<long double>(val[k]);
+        }
+      }
+      const long double lim = float_energy_limit;
+      if (sum > lim * (1 + 1e-9L)) valid = false;
+      else if (sum > lim * (1 - 1e-9L)) maybe = true;
+    }
+  }
+  if (!made.ok()) {
+    if (valid && !maybe) return "SparseModelView::over refused valid arrays";
+    if (made.status().message == nullptr || made.status().message[0] == '\0') return "view refusal without a message";
+    return nullptr;
+  }
+  if (!valid) return "SparseModelView::over accepted invalid arrays";
+  const View& v = made.value();
+  if (v.num_spins() != n || v.num_pairs() * 2 != row[n]) return "view size differs from the arrays";
+  if (n == 0) return nullptr;
+
+  // The same terms through a builder: same energies, same bound.
+  std::conditional_t<F == Form::ising, IsingBuilder<Value, Index>, QuboBuilder<Value, Index>> b(n);
+  for (std::size_t i = 0; i < n; ++i) {
+    if constexpr (F == Form::ising) b.add_field(i, lin[i]); else b.add_unary(i, lin[i]);
+    for (std::size_t k = row[i]; k < row[i + 1]; ++k) {
+      if (nbr[k] <= i) continue;
+      if constexpr (F == Form::ising) b.add_coupling(i, nbr[k], val[k]); else b.add_pair(i, nbr[k], val[k]);
+    }
+  }
+  b.add_offset(offset);
+  auto m = b.build();
+  if (!m.ok()) return maybe ? nullptr : "builder refused terms a view accepted";
+  if constexpr (integral) {
+    if (v.energy_bound() != m->energy_bound()) return "view and builder disagree on the energy bound";
+  }
+  Xoshiro256 rng(seed);
+  SpinState<View> st(v);
+  for (int k = 0; k < 24; ++k) {
+    st.randomize(rng);
+    for (int f = 0; f < 4; ++f) st.flip(static_cast<Index>(rng.below(static_cast<std::uint32_t>(n))));
+    if constexpr (integral) {
+      if (st.energy() != m->energy(st.spins())) return "view state energy differs from the built model";
+      if (!st.check().exact) return "view state drifted";
+    } else {
+      if (!finite_value(st.energy())) return "non-finite energy in a view state";
+      for (std::size_t i = 0; i < n; ++i) {
+        if (!finite_value(st.delta(static_cast<Index>(i)))) return "non-finite delta in a view state";
+      }
+      const long double d = magnitude(static_cast<long double>(st.energy()) - m->energy(st.spins()));
+      if (d > 1e-9L * (v.energy_bound() + 1e-300)) return "view state energy far from the built model";
+    }
+  }
+  return nullptr;
+}
+
+inline Failure view_entry(const std::uint8_t* data, std::size_t size) {
+  using spinwright::Form;
+  ByteReader r(data, size);
+  const std::uint8_t c = r.byte();
+  const std::uint64_t seed = hash_bytes(data, size);
+  const bool ising = (c & 1) == 0;
+  const bool wide = (c & 8) != 0;
+#define SPINWRIGHT_FUZZ_VIEW(V)                                                                                   \
+  return ising ? (wide ? view_case<Form::ising, V, std::uint32_t>(r, seed) : view_case<Form::ising, V, std::uint16_t>(r, seed)) \
+               : (wide ? view_case<Form::qubo, V, std::uint32_t>(r, seed) : view_case<Form::qubo, V, std::uint16_t>(r, seed))
+  switch ((c >> 1) & 3) {
+    case 0: SPINWRIGHT_FUZZ_VIEW(double);
+    case 1: SPINWRIGHT_FUZZ_VIEW(float);
+    case 2: SPINWRIGHT_FUZZ_VIEW(std::int32_t);
+    default: SPINWRIGHT_FUZZ_VIEW(std::int64_t);
+  }
+#undef SPINWRIGHT_FUZZ_VIEW
 }
 
 }  // namespace fuzz_entries

@@ -63,3 +63,7 @@ TEST_CASE("Matrix Market fuzz inputs: corpus and regressions keep every invarian
 TEST_CASE("state-file fuzz inputs: corpus and regressions keep every invariant") {
   CHECK(replay("state_file", fuzz_entries::state_entry) >= 1);
 }
+
+TEST_CASE("SparseModelView fuzz inputs: corpus and regressions keep every invariant") {
+  CHECK(replay("sparse_view", fuzz_entries::view_entry) >= 1);
+}
