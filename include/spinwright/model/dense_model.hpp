@@ -152,8 +152,8 @@ class DenseModel {
   double energy_bound() const noexcept { return bound_; }
 
   Status set_linear(index_type i, Value v) noexcept {
-    if (i >= n_) return Status::error(StatusCode::index_out_of_range, "edit of a linear term beyond the model").at_term(no_term, i, i);
-    if (!detail::is_finite(v)) return Status::error(StatusCode::non_finite_value, "edited value is NaN or infinite").at_term(no_term, i, i);
+    if (i >= n_) return Status::error(StatusCode::index_out_of_range, "edit of a linear term at an index >= num_spins() (valid: 0 .. num_spins() - 1)").at_term(no_term, i, i);
+    if (!detail::is_finite(v)) return Status::error(StatusCode::non_finite_value, "edited value is NaN or infinite; only finite values are allowed").at_term(no_term, i, i);
     const Status st = rebound(linear_[i], v);
     if (!st) return Status(st).at_term(no_term, i, i);
     linear_[i] = v;
@@ -161,9 +161,9 @@ class DenseModel {
   }
 
   Status set_pair(index_type i, index_type j, Value v) noexcept {
-    if (i >= n_ || j >= n_) return Status::error(StatusCode::index_out_of_range, "edit of a pair beyond the model").at_term(no_term, i, j);
+    if (i >= n_ || j >= n_) return Status::error(StatusCode::index_out_of_range, "edit of a pair with an index >= num_spins() (valid: 0 .. num_spins() - 1)").at_term(no_term, i, j);
     if (i == j) return Status::error(StatusCode::invalid_argument, "a pair needs two different indices").at_term(no_term, i, j);
-    if (!detail::is_finite(v)) return Status::error(StatusCode::non_finite_value, "edited value is NaN or infinite").at_term(no_term, i, j);
+    if (!detail::is_finite(v)) return Status::error(StatusCode::non_finite_value, "edited value is NaN or infinite; only finite values are allowed").at_term(no_term, i, j);
     const Status st = rebound(matrix_[static_cast<std::size_t>(i) * n_ + j], v);
     if (!st) return Status(st).at_term(no_term, i, j);
     matrix_[static_cast<std::size_t>(i) * n_ + j] = v;
@@ -172,11 +172,11 @@ class DenseModel {
   }
 
   Status set_offset(energy_type c) noexcept {
-    if (!detail::is_finite(c)) return Status::error(StatusCode::non_finite_value, "offset is NaN or infinite");
+    if (!detail::is_finite(c)) return Status::error(StatusCode::non_finite_value, "offset is NaN or infinite; only finite values are allowed");
     if constexpr (std::is_integral_v<Value>) {
       std::uint64_t sum = abs_sum_ - detail::magnitude_u64(offset_);
       if (!detail::add_bounded(sum, detail::magnitude_u64(c), integer_energy_limit)) {
-        return Status::error(StatusCode::energy_overflow, "offset would let the energy overflow the 64-bit accumulator");
+        return Status::error(StatusCode::energy_overflow, "offset would let the energy range (|offset| + sum of |coefficients|) pass 2^61 - 1 and overflow the 64-bit accumulator");
       }
       abs_sum_ = sum;
       bound_ = static_cast<double>(sum);
@@ -196,7 +196,7 @@ class DenseModel {
     if constexpr (std::is_integral_v<Value>) {
       std::uint64_t sum = abs_sum_ - detail::magnitude_u64(old_value);
       if (!detail::add_bounded(sum, detail::magnitude_u64(new_value), integer_energy_limit)) {
-        return Status::error(StatusCode::energy_overflow, "edit would let the energy overflow the 64-bit accumulator");
+        return Status::error(StatusCode::energy_overflow, "edit would let the energy range (|offset| + sum of |coefficients|) pass 2^61 - 1 and overflow the 64-bit accumulator");
       }
       abs_sum_ = sum;
       bound_ = static_cast<double>(sum);

@@ -165,10 +165,10 @@ class SparseModel {
   // state/spin_state.hpp to keep a state's local fields exact through an edit.
   Status set_linear(Index i, Value v) noexcept {
     if (i >= num_spins()) {
-      return Status::error(StatusCode::index_out_of_range, "edit of a linear term beyond the model").at_term(no_term, i, i);
+      return Status::error(StatusCode::index_out_of_range, "edit of a linear term at an index >= num_spins() (valid: 0 .. num_spins() - 1)").at_term(no_term, i, i);
     }
     if (!detail::is_finite(v)) {
-      return Status::error(StatusCode::non_finite_value, "edited value is NaN or infinite").at_term(no_term, i, i);
+      return Status::error(StatusCode::non_finite_value, "edited value is NaN or infinite; only finite values are allowed").at_term(no_term, i, i);
     }
     const Status st = rebound(linear_[i], v);
     if (!st) return Status(st).at_term(no_term, i, i);
@@ -178,14 +178,14 @@ class SparseModel {
 
   Status set_pair(Index i, Index j, Value v) noexcept {
     if (i >= num_spins() || j >= num_spins()) {
-      return Status::error(StatusCode::index_out_of_range, "edit of a pair beyond the model").at_term(no_term, i, j);
+      return Status::error(StatusCode::index_out_of_range, "edit of a pair with an index >= num_spins() (valid: 0 .. num_spins() - 1)").at_term(no_term, i, j);
     }
     const std::size_t kij = find(i, j);
     if (kij == npos) {
       return Status::error(StatusCode::missing_term, "edit of a pair the model does not have (the pattern is fixed at build)").at_term(no_term, i, j);
     }
     if (!detail::is_finite(v)) {
-      return Status::error(StatusCode::non_finite_value, "edited value is NaN or infinite").at_term(no_term, i, j);
+      return Status::error(StatusCode::non_finite_value, "edited value is NaN or infinite; only finite values are allowed").at_term(no_term, i, j);
     }
     const Status st = rebound(values_[kij], v);
     if (!st) return Status(st).at_term(no_term, i, j);
@@ -195,12 +195,12 @@ class SparseModel {
   }
 
   Status set_offset(energy_type c) noexcept {
-    if (!detail::is_finite(c)) return Status::error(StatusCode::non_finite_value, "offset is NaN or infinite");
+    if (!detail::is_finite(c)) return Status::error(StatusCode::non_finite_value, "offset is NaN or infinite; only finite values are allowed");
     if constexpr (std::is_integral_v<Value>) {
       const std::uint64_t rest = abs_sum_ - detail::magnitude_u64(offset_);
       std::uint64_t sum = rest;
       if (!detail::add_bounded(sum, detail::magnitude_u64(c), integer_energy_limit)) {
-        return Status::error(StatusCode::energy_overflow, "offset would let the energy overflow the 64-bit accumulator");
+        return Status::error(StatusCode::energy_overflow, "offset would let the energy range (|offset| + sum of |coefficients|) pass 2^61 - 1 and overflow the 64-bit accumulator");
       }
       abs_sum_ = sum;
       bound_ = static_cast<double>(abs_sum_);
@@ -228,7 +228,7 @@ class SparseModel {
     if constexpr (std::is_integral_v<Value>) {
       std::uint64_t sum = abs_sum_ - detail::magnitude_u64(old_value);
       if (!detail::add_bounded(sum, detail::magnitude_u64(new_value), integer_energy_limit)) {
-        return Status::error(StatusCode::energy_overflow, "edit would let the energy overflow the 64-bit accumulator");
+        return Status::error(StatusCode::energy_overflow, "edit would let the energy range (|offset| + sum of |coefficients|) pass 2^61 - 1 and overflow the 64-bit accumulator");
       }
       abs_sum_ = sum;
       bound_ = static_cast<double>(abs_sum_);
