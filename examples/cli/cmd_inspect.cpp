@@ -1,3 +1,4 @@
+// SPDX-License-Identifier: MIT
 // spinwright command-line program — `inspect FILE`: what is in a model file.
 #include "commands.hpp"
 #include "json.hpp"

@@ -1,3 +1,4 @@
+// SPDX-License-Identifier: MIT
 // spinwright command-line program — `solve FILE`: low-energy states by a heuristic kernel
 // over independent restarts (or by exact enumeration for small models).
 #include "commands.hpp"

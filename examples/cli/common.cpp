@@ -1,3 +1,4 @@
+// SPDX-License-Identifier: MIT
 // spinwright command-line program — pieces shared by the subcommands.
 #include "commands.hpp"
 #include "loaded_model.hpp"

@@ -1,3 +1,4 @@
+// SPDX-License-Identifier: MIT
 // spinwright command-line program — JSON writer.
 #include "json.hpp"
 

@@ -1,3 +1,4 @@
+// SPDX-License-Identifier: MIT
 // spinwright command-line program — Ctrl-C handling and the progress line.
 #include "progress.hpp"
 

@@ -1,3 +1,4 @@
+// SPDX-License-Identifier: MIT
 // spinwright command-line program — kernel dispatch over restarts. Every kernel is
 // instantiated here, and only here, for the two model types of the program.
 #include "runner.hpp"

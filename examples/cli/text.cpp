@@ -1,3 +1,4 @@
+// SPDX-License-Identifier: MIT
 // spinwright command-line program — text report helpers.
 #include "text.hpp"
 
