@@ -289,6 +289,28 @@ TEST_CASE("cli: JSON strings are escaped (a file name with a quote, a backslash 
   }
 }
 
+TEST_CASE("cli: real weights are written as real numbers that read back exactly") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  // Dyadic weights: every partial sum is exact in double, so the recount below is exact too.
+  const std::string path = dir.write("r.txt", "4 5\n1 2 0.5\n2 3 -1.25\n3 4 0.75\n4 1 2.5\n1 3 -0.125\n");
+  const double w[5] = {0.5, -1.25, 0.75, 2.5, -0.125};
+  const int ends[5][2] = {{0, 1}, {1, 2}, {2, 3}, {3, 0}, {0, 2}};
+  const RunOutput r = run(dir, {"solve", path, "--report", "json"});
+  REQUIRE(r.code == 0);
+  const Json j = parse_ok(r);
+  const std::vector<int> s = spins_of(j);
+  REQUIRE(s.size() == 4);
+  double energy = 0, cut = 0;
+  for (int k = 0; k < 5; ++k) {
+    energy += w[k] * s[ends[k][0]] * s[ends[k][1]];
+    cut += s[ends[k][0]] != s[ends[k][1]] ? w[k] : 0;
+  }
+  CHECK(j["energy"].num == energy);
+  CHECK(j["cut"].num == cut);
+  CHECK_FALSE(j["energy"].is_integer_literal());
+}
+
 TEST_CASE("cli: solve with a target reports the success probability; text report is aligned") {
   TempDir dir;
   REQUIRE(dir.ok());
