@@ -238,7 +238,10 @@ class Annealer {
     }
   }
 
+  // Every restart re-reads the model (O(N + pairs), like the state's resync), so in-place
+  // coefficient edits between re-solves are honoured exactly.
   void start_from_state() {
+    acceptor_.retune(*model_);
     detail::move_prepare(move_, state_);
     std::memcpy(best_spins_.data(), state_.spins(), best_spins_.size());
     best_energy_ = state_.energy();

@@ -229,6 +229,21 @@ class Acceptor {
 
   bool valid() const noexcept { return table_.valid(); }
 
+  // Follow a model whose coefficients were edited in place: the table is indexed by
+  // |delta| >> shift, so a shift larger than the new common power of two would merge unequal
+  // deltas. The table keeps its size (deltas beyond it take the exact logarithm path), the
+  // current beta is kept and the table refilled. No allocation.
+  template <class Model>
+  void retune(const Model& model) noexcept {
+    if constexpr (integer) {
+      const unsigned shift = detail::delta_shift(model);
+      if (shift != shift_) {
+        shift_ = shift;
+        set_beta(beta_);
+      }
+    }
+  }
+
   Acceptance rule() const noexcept { return rule_; }
   double beta() const noexcept { return beta_; }
   std::size_t table_size() const noexcept { return table_.size(); }

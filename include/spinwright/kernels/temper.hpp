@@ -256,6 +256,7 @@ class Tempering {
 
  private:
   void start() {
+    for (auto& a : acceptors_) a.retune(*model_);  // honour in-place coefficient edits (no allocation)
     slot_.resize(temps_ * sets_);  // no-op after construction (same size)
     for (std::size_t s = 0; s < sets_; ++s)
       for (std::size_t k = 0; k < temps_; ++k) slot_[s * temps_ + k] = s * temps_ + k;
