@@ -50,15 +50,6 @@ struct AnnealParams {
   std::size_t table_limit = 4096;        // entries of the integer acceptance table
 };
 
-// The best state found so far, without a copy: valid until the annealer is next stepped.
-template <class Energy>
-struct BestView {
-  const std::int8_t* spins = nullptr;
-  std::size_t size = 0;
-  Energy energy{};
-  std::uint64_t sweep = 0;  // sweeps done when it was found (0: the start state)
-};
-
 template <class Model, class Move = SingleFlip<Model>>
 class Annealer {
   static_assert(is_move_generator_v<Move, Model>,

@@ -11,6 +11,16 @@
 
 namespace spinwright {
 
+// The best state a stepping kernel has found so far, without a copy: valid until the kernel
+// is next stepped.
+template <class Energy>
+struct BestView {
+  const std::int8_t* spins = nullptr;
+  std::size_t size = 0;
+  Energy energy{};
+  std::uint64_t sweep = 0;  // sweeps done when it was found (0: the start state)
+};
+
 template <class Energy>
 struct Solution {
   std::vector<std::int8_t> spins;  // best state found, +1/-1 (QUBO: x = (1 - s) / 2)

@@ -36,7 +36,6 @@
 #include "../control/control.hpp"
 #include "../rng/xoshiro.hpp"
 #include "../state/spin_state.hpp"
-#include "anneal.hpp"  // BestView
 #include "solution.hpp"
 
 #include <cstddef>   // std::size_t

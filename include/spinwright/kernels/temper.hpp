@@ -42,7 +42,6 @@
 #include "../rng/xoshiro.hpp"
 #include "../state/spin_state.hpp"
 #include "../moves/single_flip.hpp"  // SiteOrder
-#include "anneal.hpp"                // BestView
 #include "schedule.hpp"
 #include "solution.hpp"
 
