@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — argument parsing.
 #include "args.hpp"
 

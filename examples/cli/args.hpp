@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — argument parsing (own code, no library).
 // Options are spelled out in full: `--name VALUE` or `--name=VALUE`; `--` ends the options.
 // Every mistake becomes a Failure with exit code 2 (usage error), a one-line message and a hint.

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — `bench FILE`: success probability, residual energy and
 // time to solution (TTS99) over R restarts, one table row per kernel.
 //

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — `convert IN OUT --to ising|qubo`: exact conversion between
 // the two forms (model/convert.hpp) and the two file formats (io/). The energy of every
 // assignment is preserved, offset included; the command checks this on a few assignments

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — `exact FILE`: exhaustive enumeration of a small model.
 // The enumeration does not poll the stop token, so during it Ctrl-C keeps its default action
 // (the program ends at once; the shell reports status 130). There is no partial answer to print.

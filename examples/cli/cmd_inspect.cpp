@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — `inspect FILE`: what is in a model file.
 #include "commands.hpp"
 #include "json.hpp"

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — `solve FILE`: low-energy states by a heuristic kernel
 // over independent restarts (or by exact enumeration for small models).
 #include "commands.hpp"

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — `verify FILE STATEFILE`: recomputes the energy (and the
 // cut, for graphs) of a given assignment from the model, from scratch.
 #include "commands.hpp"

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — the subcommands. Each takes the whole argv (argv[1] is
 // the subcommand) and returns the process exit code; it writes its report to stdout in one
 // piece at the end, and errors to stderr.

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — pieces shared by the subcommands.
 #include "commands.hpp"
 #include "loaded_model.hpp"

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — model figures for `inspect` and the automatic kernel choice.
 #include "loaded_model.hpp"
 

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — JSON writer.
 #include "json.hpp"
 

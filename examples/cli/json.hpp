@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — a small JSON writer for the report.
 // Integers are written as integers; doubles with %.17g (they read back to the same double);
 // NaN and infinities, which JSON cannot hold, become null. Strings are escaped per RFC 8259

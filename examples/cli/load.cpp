@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — reading models and states through io/, and the
 // conversion of every model to double values (exact for integer files whose energy range is
 // below 2^53, refused above).

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — the model a command works on, read from a file.
 // Every model is held with double values and 32-bit indices: integer weights stay exact
 // (|energies| below 2^53), and one instantiation of each kernel serves every file.

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — entry point: subcommand dispatch, help and version.
 // Exit codes: 0 success, 1 input error, 2 usage error, 130 interrupted (Ctrl-C).
 #include "args.hpp"

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — Ctrl-C handling and the progress line.
 #include "progress.hpp"
 

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — Ctrl-C handling and the self-updating progress line.
 //
 // The SIGINT handler sets a StopToken (a lock-free atomic store, safe in a signal handler);

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — kernel dispatch over restarts. Every kernel is
 // instantiated here, and only here, for the two model types of the program.
 #include "runner.hpp"

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — runs a heuristic kernel over independent restarts.
 // Restart r is seeded from (seed, r) only and the tally is assembled in restart order
 // (parallel/restarts.hpp), so the same seed gives the same answer for any thread count, as long

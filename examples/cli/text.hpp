@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright command-line program — text report helpers: aligned label/value lines, tables,
 // number formatting, and writing a finished report in one piece.
 #ifndef SPINWRIGHT_CLI_TEXT_HPP
