@@ -4,7 +4,9 @@
 set -euo pipefail
 cd "$(dirname "$0")/.."
 
-packages=(cmake g++ doctest-dev libbenchmark-dev clang libclang-rt-14-dev glpk-utils libglpk-dev)
+packages=(cmake g++ doctest-dev libbenchmark-dev clang libclang-rt-14-dev glpk-utils libglpk-dev
+          gcc-arm-none-eabi libstdc++-arm-none-eabi-newlib libnewlib-arm-none-eabi qemu-system-arm
+          g++-aarch64-linux-gnu qemu-user)
 missing=()
 for p in "${packages[@]}"; do
   dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing+=("$p")
@@ -17,10 +19,13 @@ if [ ${#missing[@]} -gt 0 ]; then
   DEBIAN_FRONTEND=noninteractive $sudo_cmd apt-get install -y -qq "${missing[@]}"
 fi
 
-workflows=(${SPINWRIGHT_TEST_WORKFLOWS:-test test-clang})
+# test: GCC, C++17; test-clang: Clang, C++20, -fno-exceptions -fno-rtti; sanitize: ASan+UBSan;
+# fuzz: each libFuzzer target for a bounded time; cortex-m4: the firmware example under
+# qemu-system-arm; aarch64: the suite cross-compiled and run under qemu-aarch64.
+workflows=(${SPINWRIGHT_TEST_WORKFLOWS:-test test-clang sanitize fuzz cortex-m4 aarch64})
 for w in "${workflows[@]}"; do
-  if grep -q "\"name\": \"$w\"" CMakePresets.json; then
-    echo "=== cmake --workflow --preset $w"
-    cmake --workflow --preset "$w"
-  fi
+  echo "=== cmake --workflow --preset $w"
+  start=$(date +%s)
+  cmake --workflow --preset "$w" --fresh
+  echo "=== $w: $(( $(date +%s) - start )) s"
 done
