@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright — problems layer umbrella: penalties, constraint checks and problem encoders.
 #ifndef SPINWRIGHT_PROBLEMS_HPP
 #define SPINWRIGHT_PROBLEMS_HPP

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // Behaviour tests of the `spinwright` command-line program: the executable is run on files in a
 // temporary folder, and its exit codes, stdout and stderr are checked. Energies and cuts in the
 // reports are recomputed here, independently, from the files the test wrote and the spins the

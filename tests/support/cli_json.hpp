@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // Test support for tests/cli: a strict little JSON reader (RFC 8259 subset large enough for the
 // CLI report: objects, arrays, strings with the standard escapes, numbers, true/false/null).
 // parse() fails on trailing text, so it also proves stdout held exactly one JSON document.

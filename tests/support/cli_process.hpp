@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // Test support for tests/cli: runs the `spinwright` executable with posix_spawn, stdout and
 // stderr captured in files of a temporary folder, and reports the exit code (128 + signal when
 // it died of a signal). A run that has not ended after `hang_seconds` is killed and reported as

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright — exact enumeration of every spin assignment in Gray-code order.
 //
 // Each step flips one spin (SpinState::flip, O(degree)), so 2^N states cost about

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright — tabu search over one-flip moves: a one-call function tabu_search() and a
 // stepping object TabuSearch for embedding.
 //

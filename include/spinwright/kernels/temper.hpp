@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright — replica-exchange tempering: a one-call function temper() and a stepping object
 // Tempering for embedding (construct once, call step(n) from your own loop, read best()).
 //

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright — exact enumeration split over threads (opt-in header; uses <thread>).
 // The chunks are those of solve_exact (their number depends only on N and the parameters);
 // threads take chunks from a shared counter, each with its own state, and the per-chunk

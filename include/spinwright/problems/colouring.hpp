@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright — graph colouring with k colours as a QUBO.
 // Bit x_{v,c} (index v * k + c) says vertex v has colour c. Penalties, all with weight A:
 //   exactly one colour per vertex:  A (1 - sum_c x_{v,c})^2          (ConstraintKind::exactly_one)

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright — constraint records and the feasibility check of a returned state.
 //
 // Every penalty builder (problems/penalty.hpp) registers one Constraint in a ConstraintSet:

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright — small graph and answer types shared by the problem encoders: edges, a
 // two-sided split of items (cut sides, partition subsets), a chosen subset of items.
 #ifndef SPINWRIGHT_PROBLEMS_GRAPH_HPP

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright — maximum (weighted) independent set and minimum (weighted) vertex cover as QUBOs.
 // Bit x_v says vertex v is chosen; vertex weights w_v > 0 (all 1 when none are given).
 //   independent set:  H = -sum_v w_v x_v + A sum_{(u,v)} x_u x_v        (at_most_one per edge)

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright — 0-1 knapsack as a QUBO with slack bits.
 //   maximise sum_i v_i x_i  subject to  sum_i w_i x_i <= W   (integer w_i >= 0, W >= 0)
 // becomes  H = -sum_i v_i x_i + A (sum_i w_i x_i + sum_m c_m y_m - W)^2, where the slack bits

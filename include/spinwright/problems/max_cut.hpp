@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright — max-cut on a weighted graph as an Ising model: J_ij = w_ij, h = 0.
 // Edge (i, j) is cut when s_i != s_j and cut(s) = (W - E(s)) / 2 with W the total weight,
 // so the ground state is a maximum cut (common practice; e.g. F. Barahona, M. Groetschel,

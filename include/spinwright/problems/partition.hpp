@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright — number partitioning as an Ising model.
 // Numbers n_1..n_N are split in two by spins s_i; H = A (sum_i n_i s_i)^2 is A times the
 // squared difference of the two subset sums. Expanded (s_i^2 = 1):

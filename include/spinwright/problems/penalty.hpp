@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright — exact quadratic penalties added to a QuboBuilder, and the penalty weight that
 // keeps every infeasible state above the best feasible one.
 //

@@ -1,4 +1,3 @@
-// SPDX-License-Identifier: MIT
 // spinwright — cardinality-constrained mean-variance selection as a QUBO: pick exactly K of N
 // items trading expected return against pairwise covariance,
 //   minimise  f(x) = lambda x^T C x - mu^T x   subject to  sum_i x_i = K,
