@@ -2,7 +2,7 @@
 // loop of reference_anneal.hpp measured in the same run (counter x_reference = our speed /
 // reference speed). Graphs: random 3-regular-like graph with 2^16 nodes (+-1 weights), the
 // 256 x 256 periodic lattice (ferromagnet, our J = -1), and G22 (Helmberg-Rendl G-set,
-// /work/shared/data/maxcut/G22.txt). Couplings int32, float, double.
+// shared/data/maxcut/G22.txt). Couplings int32, float, double.
 // Phases: "cold" = a fixed beta at the cold end of the automatic range (after 20 untimed
 // sweeps), "anneal" = whole 100-sweep runs over the automatic geometric schedule.
 #include <benchmark/benchmark.h>

@@ -4,7 +4,7 @@
 // search (one run), each with default parameters. Median over seeds; a seed that does not
 // reach the target within the cap counts as "not reached" (and as +inf in the median).
 // Instances: bqp250-1..5 (OR-Library, proven optima) and the G-set graphs G11, G14, G22, G43
-// (best known cuts, Benlic & Hao 2013), all from /work/shared/data/maxcut/.
+// (best known cuts, Benlic & Hao 2013), all from shared/data/maxcut/.
 // Results and the command line are in docs/time-to-target.md.
 #include <benchmark/benchmark.h>
 

@@ -1,5 +1,5 @@
 // Annealing against max-cut values from outside the project (REFERENCES.md section 5 and
-// /work/shared/data/maxcut/reference.csv). Max-cut is our Ising form with J_ij = w_ij, h = 0:
+// shared/data/maxcut/reference.csv). Max-cut is our Ising form with J_ij = w_ij, h = 0:
 // cut = (W - E) / 2 (textbook identity; Barahona, Groetschel, Juenger, Reinelt, Oper. Res. 36,
 // 493 (1988)). Budgets are sweep counts, never time.
 #include <doctest/doctest.h>
@@ -74,7 +74,7 @@ TEST_CASE("Petersen graph: max cut 12") {
 
 TEST_CASE("bqp250 instances: the proven optimum cut within a fixed sweep budget") {
   // Beasley's OR-Library bqp250 programs in max-cut form, proven optima listed in
-  // /work/shared/data/maxcut/reference.csv (Beasley 1998). Budget: 5 restarts of 5000 sweeps.
+  // shared/data/maxcut/reference.csv (Beasley 1998). Budget: 5 restarts of 5000 sweeps.
   struct Instance {
     const char* file;
     long long optimum;

@@ -258,7 +258,7 @@ TEST_CASE("stop token and target stop a run") {
 }
 
 // OR-Library bqp250 instances in max-cut form (J. E. Beasley, J. Oper. Res. Soc. 41, 1069-1072,
-// 1990; instances from Beasley 1998); proven optima from /work/shared/data/maxcut/reference.csv.
+// 1990; instances from Beasley 1998); proven optima from shared/data/maxcut/reference.csv.
 // A generous fixed budget of 5000 sweeps (the run stops early at the optimum).
 TEST_CASE("bqp250 instances: tempering reaches the proven optimum cut") {
   for (int k = 1; k <= 5; ++k) {

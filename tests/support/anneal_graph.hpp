@@ -1,5 +1,5 @@
 // Test and benchmark helper (annealing area): small graph builders and a tiny reader for
-// the weighted edge lists of /work/shared/data/maxcut ("N M" then M lines "i j w", 1-based).
+// the weighted edge lists of shared/data/maxcut ("N M" then M lines "i j w", 1-based).
 #ifndef SPINWRIGHT_TEST_SUPPORT_ANNEAL_GRAPH_HPP
 #define SPINWRIGHT_TEST_SUPPORT_ANNEAL_GRAPH_HPP
 
