@@ -7,7 +7,7 @@
 #include <atomic>   // std::atomic
 #include <cstddef>  // std::size_t
 #include <cstdlib>  // std::malloc, std::free, std::abort
-#include <new>      // std::bad_alloc, std::align_val_t
+#include <new>      // std::bad_alloc, std::align_val_t, std::nothrow_t
 
 namespace alloc_counter {
 inline std::atomic<std::size_t> count{0};
@@ -25,6 +25,10 @@ inline void* allocate(std::size_t n) {
   if (void* p = std::malloc(n != 0 ? n : 1)) return p;
   std::abort();
 }
+inline void* allocate_nothrow(std::size_t n) noexcept {
+  if (counting.load(std::memory_order_relaxed)) count.fetch_add(1, std::memory_order_relaxed);
+  return std::malloc(n != 0 ? n : 1);
+}
 }  // namespace alloc_counter
 
 void* operator new(std::size_t n) { return alloc_counter::allocate(n); }
@@ -33,5 +37,12 @@ void operator delete(void* p) noexcept { std::free(p); }
 void operator delete[](void* p) noexcept { std::free(p); }
 void operator delete(void* p, std::size_t) noexcept { std::free(p); }
 void operator delete[](void* p, std::size_t) noexcept { std::free(p); }
+// The nothrow forms too (std::stable_sort's temporary buffer uses them): otherwise they come from
+// the runtime's allocator and are freed by the replaced delete above, which AddressSanitizer
+// reports as an alloc-dealloc mismatch.
+void* operator new(std::size_t n, const std::nothrow_t&) noexcept { return alloc_counter::allocate_nothrow(n); }
+void* operator new[](std::size_t n, const std::nothrow_t&) noexcept { return alloc_counter::allocate_nothrow(n); }
+void operator delete(void* p, const std::nothrow_t&) noexcept { std::free(p); }
+void operator delete[](void* p, const std::nothrow_t&) noexcept { std::free(p); }
 
 #endif  // SPINWRIGHT_TEST_SUPPORT_ALLOC_COUNTER_HPP
