@@ -329,7 +329,6 @@ Failure builder_case(ByteReader& r, bool fixed, std::uint64_t declared, std::uin
   std::uint64_t n = fixed ? declared : 0;
   Wide offset_wide = 0;             // integer running offset
   Energy offset_run{0};             // floating running offset (same order as the builder)
-  bool offset_prefix_overflow = false;
 
   const std::size_t max_terms = 48;
   for (std::size_t t = 0; t < max_terms && !r.empty(); ++t) {
@@ -379,7 +378,7 @@ Failure builder_case(ByteReader& r, bool fixed, std::uint64_t declared, std::uin
             offset_wide += term.v;
             if (offset_wide > std::numeric_limits<std::int64_t>::max() ||
                 offset_wide < std::numeric_limits<std::int64_t>::min()) {
-              offset_prefix_overflow = true;
+              bad_code = StatusCode::energy_overflow;  // refused when added: the offset sum is checked per term
             }
           } else {
             offset_run += static_cast<Energy>(term.v);
@@ -398,7 +397,7 @@ Failure builder_case(ByteReader& r, bool fixed, std::uint64_t declared, std::uin
           offset_wide += term.c;
           if (offset_wide > std::numeric_limits<std::int64_t>::max() ||
               offset_wide < std::numeric_limits<std::int64_t>::min()) {
-            offset_prefix_overflow = true;
+            bad_code = StatusCode::energy_overflow;  // refused when added: the offset sum is checked per term
           }
         } else {
           offset_run += term.c;
@@ -422,7 +421,7 @@ Failure builder_case(ByteReader& r, bool fixed, std::uint64_t declared, std::uin
 
   // Oracle of build(): merged coefficients, exactly (integers in Wide; floats summed in double
   // in the order the terms were given, which is the documented merge).
-  bool maybe = offset_prefix_overflow;  // integer prefix overflow: refusing is allowed
+  bool maybe = false;  // integer prefix overflow of a merge: refusing is allowed
   bool must_refuse = false;
   std::vector<Wide> lin_w(n, 0);
   std::vector<Energy> lin_f(n, Energy{0});
