@@ -29,14 +29,17 @@ inline void* allocate_nothrow(std::size_t n) noexcept {
   if (counting.load(std::memory_order_relaxed)) count.fetch_add(1, std::memory_order_relaxed);
   return std::malloc(n != 0 ? n : 1);
 }
+// Out of line, so that GCC does not see operator new's malloc meet operator delete's free at an
+// inlined call site (a false -Wmismatched-new-delete at -O1).
+[[gnu::noinline]] inline void release(void* p) noexcept { std::free(p); }
 }  // namespace alloc_counter
 
 void* operator new(std::size_t n) { return alloc_counter::allocate(n); }
 void* operator new[](std::size_t n) { return alloc_counter::allocate(n); }
-void operator delete(void* p) noexcept { std::free(p); }
-void operator delete[](void* p) noexcept { std::free(p); }
-void operator delete(void* p, std::size_t) noexcept { std::free(p); }
-void operator delete[](void* p, std::size_t) noexcept { std::free(p); }
+void operator delete(void* p) noexcept { alloc_counter::release(p); }
+void operator delete[](void* p) noexcept { alloc_counter::release(p); }
+void operator delete(void* p, std::size_t) noexcept { alloc_counter::release(p); }
+void operator delete[](void* p, std::size_t) noexcept { alloc_counter::release(p); }
 // The nothrow forms too (std::stable_sort's temporary buffer uses them): otherwise they come from
 // the runtime's allocator and are freed by the replaced delete above, which AddressSanitizer
 // reports as an alloc-dealloc mismatch.
