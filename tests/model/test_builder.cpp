@@ -196,3 +196,20 @@ TEST_CASE("Max-cut: cut = (W - E) / 2 on the weighted 4-node graph") {
   const std::int8_t side[4] = {1, -1, -1, 1};
   CHECK(cut_value(*m, side) == 12);
 }
+
+TEST_CASE("floating energy bound survives an edit that removes a dominant term") {
+  // Found by the builder fuzzer: 1e290 is absorbed by rounding next to 4e307; removing the
+  // large term must give it back (compensated summation, Neumaier 1974).
+  IsingBuilder<double> b(2);
+  b.add_field(0, 4e307).add_field(1, 1e290);
+  auto m = b.build();
+  REQUIRE(m.ok());
+  REQUIRE(m->set_linear(0, 0.0).ok());
+  CHECK(m->energy_bound() == doctest::Approx(1e290).epsilon(1e-12));
+  auto d = DenseIsingModel<double>::from(*m);
+  REQUIRE(d.ok());
+  CHECK(d->energy_bound() == doctest::Approx(1e290).epsilon(1e-12));
+  REQUIRE(m->set_linear(0, 4e307).ok());
+  REQUIRE(m->set_linear(0, -2.0).ok());
+  CHECK(m->energy_bound() == doctest::Approx(1e290).epsilon(1e-12));
+}

@@ -160,6 +160,7 @@ class TermBuilder {
     // Energy range: |c| + sum |linear| + sum |pair|.
     std::uint64_t abs_sum = 0;
     double bound = 0;
+    MagnitudeSum magnitudes;
     if constexpr (std::is_integral_v<Value>) {
       bool fits = add_bounded(abs_sum, magnitude_u64(offset_), integer_energy_limit);
       for (const Value v : linear) fits = fits && add_bounded(abs_sum, magnitude_u64(v), integer_energy_limit);
@@ -170,9 +171,10 @@ class TermBuilder {
       }
       bound = static_cast<double>(abs_sum);
     } else {
-      bound = abs_double(offset_);
-      for (const Value v : linear) bound += abs_double(v);
-      for (const auto& p : merged) bound += abs_double(p.v);
+      magnitudes.add(abs_double(offset_));
+      for (const Value v : linear) magnitudes.add(abs_double(v));
+      for (const auto& p : merged) magnitudes.add(abs_double(p.v));
+      bound = magnitudes.value();
       if (!is_finite(bound) || bound > float_energy_limit) {
         return Status::error(StatusCode::energy_overflow,
                              "the energy range (|offset| + sum of |coefficients|) exceeds DBL_MAX/4, so flip deltas could overflow to infinity; scale the coefficients down");
@@ -201,7 +203,7 @@ class TermBuilder {
       val[fill[p.i]++] = p.v;
     }
     return ModelAccess::make<F, Value, Index>(std::move(linear), std::move(row), std::move(nbr), std::move(val),
-                                              offset_, abs_sum, bound);
+                                              offset_, abs_sum, bound, magnitudes);
   }
 
  private:

@@ -66,6 +66,13 @@ class DenseModel {
       }
       m.abs_sum_ = sum;
       m.bound_ = static_cast<double>(sum);
+    } else {
+      m.magnitudes_.add(detail::abs_double(m.offset_));
+      for (std::size_t i = 0; i < m.n_; ++i) {
+        m.magnitudes_.add(detail::abs_double(m.linear_[i]));
+        for (std::size_t j = i + 1; j < m.n_; ++j) m.magnitudes_.add(detail::abs_double(m.matrix_[i * m.n_ + j]));
+      }
+      m.bound_ = m.magnitudes_.value();
     }
     return made;
   }
@@ -181,10 +188,14 @@ class DenseModel {
       abs_sum_ = sum;
       bound_ = static_cast<double>(sum);
     } else {
-      const double b = bound_ + detail::abs_double(c) - detail::abs_double(offset_);
+      detail::MagnitudeSum sum = magnitudes_;
+      sum.add(-detail::abs_double(offset_));
+      sum.add(detail::abs_double(c));
+      const double b = sum.value();
       if (!detail::is_finite(b) || b > float_energy_limit) {
         return Status::error(StatusCode::energy_overflow, "offset would let the energy range exceed DBL_MAX/4 (flip deltas could overflow)");
       }
+      magnitudes_ = sum;
       bound_ = b;
     }
     offset_ = c;
@@ -201,10 +212,14 @@ class DenseModel {
       abs_sum_ = sum;
       bound_ = static_cast<double>(sum);
     } else {
-      const double b = bound_ + detail::abs_double(new_value) - detail::abs_double(old_value);
+      detail::MagnitudeSum sum = magnitudes_;
+      sum.add(-detail::abs_double(old_value));
+      sum.add(detail::abs_double(new_value));
+      const double b = sum.value();
       if (!detail::is_finite(b) || b > float_energy_limit) {
         return Status::error(StatusCode::energy_overflow, "edit would let the energy range exceed DBL_MAX/4 (flip deltas could overflow)");
       }
+      magnitudes_ = sum;
       bound_ = b;
     }
     return Status::success();
@@ -216,6 +231,7 @@ class DenseModel {
   energy_type offset_{0};
   std::uint64_t abs_sum_ = 0;
   double bound_ = 0;
+  detail::MagnitudeSum magnitudes_{};  // floating models: the compensated sum behind bound_
 };
 
 template <class Value>

@@ -83,6 +83,28 @@ constexpr double abs_double(Value v) noexcept {
   return d < 0 ? -d : d;
 }
 
+// A running sum of magnitudes with Neumaier's compensation (Neumaier, ZAMM 54, 1974): the
+// floating energy bound is kept through edits that add and remove terms, and removing a large
+// term gives back the small ones that rounding had absorbed next to it.
+class MagnitudeSum {
+ public:
+  constexpr void add(double x) noexcept {
+    const double t = sum_ + x;
+    const double a = sum_ < 0 ? -sum_ : sum_;
+    const double b = x < 0 ? -x : x;
+    comp_ += a >= b ? (sum_ - t) + x : (x - t) + sum_;
+    sum_ = t;
+  }
+  constexpr double value() const noexcept {
+    const double v = sum_ + comp_;
+    return v < 0 ? 0 : v;
+  }
+
+ private:
+  double sum_ = 0;
+  double comp_ = 0;
+};
+
 template <class Value>
 constexpr bool is_finite(Value v) noexcept {
   if constexpr (std::is_floating_point_v<Value>) {

@@ -205,10 +205,14 @@ class SparseModel {
       abs_sum_ = sum;
       bound_ = static_cast<double>(abs_sum_);
     } else {
-      const double b = bound_ + detail::abs_double(c) - detail::abs_double(offset_);
+      detail::MagnitudeSum sum = magnitudes_;
+      sum.add(-detail::abs_double(offset_));
+      sum.add(detail::abs_double(c));
+      const double b = sum.value();
       if (!detail::is_finite(b) || b > float_energy_limit) {
         return Status::error(StatusCode::energy_overflow, "offset would let the energy range exceed DBL_MAX/4 (flip deltas could overflow)");
       }
+      magnitudes_ = sum;
       bound_ = b;
     }
     offset_ = c;
@@ -233,10 +237,14 @@ class SparseModel {
       abs_sum_ = sum;
       bound_ = static_cast<double>(abs_sum_);
     } else {
-      const double b = bound_ + detail::abs_double(new_value) - detail::abs_double(old_value);
+      detail::MagnitudeSum sum = magnitudes_;
+      sum.add(-detail::abs_double(old_value));
+      sum.add(detail::abs_double(new_value));
+      const double b = sum.value();
       if (!detail::is_finite(b) || b > float_energy_limit) {
         return Status::error(StatusCode::energy_overflow, "edit would let the energy range exceed DBL_MAX/4 (flip deltas could overflow)");
       }
+      magnitudes_ = sum;
       bound_ = b;
     }
     return Status::success();
@@ -249,6 +257,7 @@ class SparseModel {
   energy_type offset_{0};
   std::uint64_t abs_sum_ = 0;  // integer models: exact |c| + sum |linear| + sum |pair|
   double bound_ = 0;
+  detail::MagnitudeSum magnitudes_{};  // floating models: the compensated sum behind bound_
 };
 
 template <class Value, class Index = std::uint32_t>
@@ -261,7 +270,8 @@ struct ModelAccess {
   template <Form F, class Value, class Index>
   static SparseModel<F, Value, Index> make(std::vector<Value> linear, std::vector<std::size_t> row,
                                            std::vector<Index> neighbours, std::vector<Value> values,
-                                           energy_t<Value> offset, std::uint64_t abs_sum, double bound) {
+                                           energy_t<Value> offset, std::uint64_t abs_sum, double bound,
+                                           MagnitudeSum magnitudes = {}) {
     SparseModel<F, Value, Index> m;
     m.linear_ = std::move(linear);
     m.row_ = std::move(row);
@@ -270,6 +280,7 @@ struct ModelAccess {
     m.offset_ = offset;
     m.abs_sum_ = abs_sum;
     m.bound_ = bound;
+    m.magnitudes_ = magnitudes;
     return m;
   }
 };
