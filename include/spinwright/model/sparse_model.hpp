@@ -161,7 +161,8 @@ class SparseModel {
   // For integer models this never exceeds integer_energy_limit (enforced by build and edits).
   double energy_bound() const noexcept { return bound_; }
 
-  // In-place edits of existing terms; the pattern never changes. Use the free functions in
+  // In-place edits of existing terms; the pattern never changes (a pair set to 0 stays stored,
+  // and can be given a value again). Use the free functions in
   // state/spin_state.hpp to keep a state's local fields exact through an edit.
   Status set_linear(Index i, Value v) noexcept {
     if (i >= num_spins()) {

@@ -188,29 +188,51 @@ class SpinState {
     return c;
   }
 
-  // Low-level hooks for in-place coefficient edits (used by edit_linear / edit_pair).
+  // Low-level hooks for in-place coefficient edits, called by edit_linear / edit_pair /
+  // edit_offset after the model holds the new value; `change` is new minus old.
+  // Integer models update in O(1) and stay exact. Floating models recompute the touched local
+  // fields from the model (O(degree)) and the energy from the fields (O(N)): an incremental
+  // update would keep the rounding of a removed dominant term (a coefficient 10^17 times the
+  // others leaves its rounding in the sums after it is edited away).
   void on_linear_change(index_type i, energy_type change) noexcept {
-    fields_[i] += change;
-    if constexpr (form == Form::ising) {
-      energy_ += change * spins_[i];
+    if constexpr (std::is_integral_v<energy_type>) {
+      fields_[i] += change;
+      if constexpr (form == Form::ising) {
+        energy_ += change * spins_[i];
+      } else {
+        if (spins_[i] < 0) energy_ += change;
+      }
     } else {
-      if (spins_[i] < 0) energy_ += change;
+      fields_[i] = recompute_field(i);
+      energy_ = energy_from_fields();
     }
   }
   void on_pair_change(index_type i, index_type j, energy_type change) noexcept {
-    if constexpr (form == Form::ising) {
-      fields_[i] += change * spins_[j];
-      fields_[j] += change * spins_[i];
-      energy_ += change * spins_[i] * spins_[j];
+    if constexpr (std::is_integral_v<energy_type>) {
+      if constexpr (form == Form::ising) {
+        fields_[i] += change * spins_[j];
+        fields_[j] += change * spins_[i];
+        energy_ += change * spins_[i] * spins_[j];
+      } else {
+        const bool xi = spins_[i] < 0;
+        const bool xj = spins_[j] < 0;
+        if (xj) fields_[i] += change;
+        if (xi) fields_[j] += change;
+        if (xi && xj) energy_ += change;
+      }
     } else {
-      const bool xi = spins_[i] < 0;
-      const bool xj = spins_[j] < 0;
-      if (xj) fields_[i] += change;
-      if (xi) fields_[j] += change;
-      if (xi && xj) energy_ += change;
+      fields_[i] = recompute_field(i);
+      fields_[j] = recompute_field(j);
+      energy_ = energy_from_fields();
     }
   }
-  void on_offset_change(energy_type change) noexcept { energy_ += change; }
+  void on_offset_change(energy_type change) noexcept {
+    if constexpr (std::is_integral_v<energy_type>) {
+      energy_ += change;
+    } else {
+      energy_ = energy_from_fields();
+    }
+  }
 
  private:
   energy_type recompute_field(index_type i) const noexcept {
@@ -225,6 +247,24 @@ class SpinState {
       });
     }
     return f;
+  }
+
+  // Ising: sum_i s_i f_i = sum_i s_i h_i + 2 sum_{i<j} J_ij s_i s_j, so
+  //   E = c + (sum_i s_i h_i + sum_i s_i f_i) / 2.
+  // QUBO: sum_i x_i g_i = sum_i Q_ii x_i + 2 sum_{i<j} Q_ij x_i x_j, so
+  //   E = c + (sum_i x_i Q_ii + sum_i x_i g_i) / 2.
+  energy_type energy_from_fields() const noexcept {
+    energy_type twice = 0;
+    for (std::size_t i = 0; i < spins_.size(); ++i) {
+      const auto ii = static_cast<index_type>(i);
+      const auto h = static_cast<energy_type>(model_->linear(ii));
+      if constexpr (form == Form::ising) {
+        twice += spins_[i] * (h + fields_[i]);
+      } else {
+        if (spins_[i] < 0) twice += h + fields_[i];
+      }
+    }
+    return static_cast<energy_type>(model_->offset()) + twice / 2;
   }
 
   static double abs_difference(energy_type a, energy_type b) noexcept {
