@@ -158,24 +158,15 @@ class TermBuilder {
     }
 
     // Energy range: |c| + sum |linear| + sum |pair|.
-    std::uint64_t abs_sum = 0;
-    double bound = 0;
-    MagnitudeSum magnitudes;
-    if constexpr (std::is_integral_v<Value>) {
-      bool fits = add_bounded(abs_sum, magnitude_u64(offset_), integer_energy_limit);
-      for (const Value v : linear) fits = fits && add_bounded(abs_sum, magnitude_u64(v), integer_energy_limit);
-      for (const auto& p : merged) fits = fits && add_bounded(abs_sum, magnitude_u64(p.v), integer_energy_limit);
-      if (!fits) {
+    EnergyRange<Value> range;
+    bool fits = range.add(offset_);
+    for (const Value v : linear) fits = range.add(v) && fits;
+    for (const auto& p : merged) fits = range.add(p.v) && fits;
+    if (!fits) {
+      if constexpr (std::is_integral_v<Value>) {
         return Status::error(StatusCode::energy_overflow,
                              "the energy range (|offset| + sum of |coefficients|) exceeds 2^61 - 1 and could overflow the 64-bit accumulator; scale the coefficients down or use a floating Value");
-      }
-      bound = static_cast<double>(abs_sum);
-    } else {
-      magnitudes.add(abs_double(offset_));
-      for (const Value v : linear) magnitudes.add(abs_double(v));
-      for (const auto& p : merged) magnitudes.add(abs_double(p.v));
-      bound = magnitudes.value();
-      if (!is_finite(bound) || bound > float_energy_limit) {
+      } else {
         return Status::error(StatusCode::energy_overflow,
                              "the energy range (|offset| + sum of |coefficients|) exceeds DBL_MAX/4, so flip deltas could overflow to infinity; scale the coefficients down");
       }
@@ -203,7 +194,7 @@ class TermBuilder {
       val[fill[p.i]++] = p.v;
     }
     return ModelAccess::make<F, Value, Index>(std::move(linear), std::move(row), std::move(nbr), std::move(val),
-                                              offset_, abs_sum, bound, magnitudes);
+                                              offset_, range);
   }
 
  private:

@@ -55,24 +55,11 @@ class DenseModel {
       sparse.for_each_neighbour(static_cast<Index>(i), [&](Index j, Value v) { m.matrix_[i * m.n_ + j] = v; });
     }
     m.offset_ = sparse.offset();
-    m.bound_ = sparse.energy_bound();
-    if constexpr (std::is_integral_v<Value>) {
-      // Exact sum of magnitudes (the double bound rounds above 2^53); cannot wrap, since the
-      // sparse model already keeps it within integer_energy_limit.
-      std::uint64_t sum = detail::magnitude_u64(m.offset_);
-      for (std::size_t i = 0; i < m.n_; ++i) {
-        sum += detail::magnitude_u64(m.linear_[i]);
-        for (std::size_t j = i + 1; j < m.n_; ++j) sum += detail::magnitude_u64(m.matrix_[i * m.n_ + j]);
-      }
-      m.abs_sum_ = sum;
-      m.bound_ = static_cast<double>(sum);
-    } else {
-      m.magnitudes_.add(detail::abs_double(m.offset_));
-      for (std::size_t i = 0; i < m.n_; ++i) {
-        m.magnitudes_.add(detail::abs_double(m.linear_[i]));
-        for (std::size_t j = i + 1; j < m.n_; ++j) m.magnitudes_.add(detail::abs_double(m.matrix_[i * m.n_ + j]));
-      }
-      m.bound_ = m.magnitudes_.value();
+    // The same range, summed anew (a sparse model's range is within its limit, so this fits).
+    m.range_.add(m.offset_);
+    for (std::size_t i = 0; i < m.n_; ++i) {
+      m.range_.add(m.linear_[i]);
+      for (std::size_t j = i + 1; j < m.n_; ++j) m.range_.add(m.matrix_[i * m.n_ + j]);
     }
     return made;
   }
@@ -156,7 +143,7 @@ class DenseModel {
     return s;
   }
 
-  double energy_bound() const noexcept { return bound_; }
+  double energy_bound() const noexcept { return range_.bound(); }
 
   Status set_linear(index_type i, Value v) noexcept {
     if (i >= n_) return Status::error(StatusCode::index_out_of_range, "edit of a linear term at an index >= num_spins() (valid: 0 .. num_spins() - 1)").at_term(no_term, i, i);
@@ -180,47 +167,15 @@ class DenseModel {
 
   Status set_offset(energy_type c) noexcept {
     if (!detail::is_finite(c)) return Status::error(StatusCode::non_finite_value, "offset is NaN or infinite; only finite values are allowed");
-    if constexpr (std::is_integral_v<Value>) {
-      std::uint64_t sum = abs_sum_ - detail::magnitude_u64(offset_);
-      if (!detail::add_bounded(sum, detail::magnitude_u64(c), integer_energy_limit)) {
-        return Status::error(StatusCode::energy_overflow, "offset would let the energy range (|offset| + sum of |coefficients|) pass 2^61 - 1 and overflow the 64-bit accumulator");
-      }
-      abs_sum_ = sum;
-      bound_ = static_cast<double>(sum);
-    } else {
-      detail::MagnitudeSum sum = magnitudes_;
-      sum.add(-detail::abs_double(offset_));
-      sum.add(detail::abs_double(c));
-      const double b = sum.value();
-      if (!detail::is_finite(b) || b > float_energy_limit) {
-        return Status::error(StatusCode::energy_overflow, "offset would let the energy range exceed DBL_MAX/4 (flip deltas could overflow)");
-      }
-      magnitudes_ = sum;
-      bound_ = b;
-    }
+    if (!range_.replace(offset_, c)) return Status::error(StatusCode::energy_overflow, detail::range_message<Value>(true));
     offset_ = c;
     return Status::success();
   }
 
  private:
   Status rebound(Value old_value, Value new_value) noexcept {
-    if constexpr (std::is_integral_v<Value>) {
-      std::uint64_t sum = abs_sum_ - detail::magnitude_u64(old_value);
-      if (!detail::add_bounded(sum, detail::magnitude_u64(new_value), integer_energy_limit)) {
-        return Status::error(StatusCode::energy_overflow, "edit would let the energy range (|offset| + sum of |coefficients|) pass 2^61 - 1 and overflow the 64-bit accumulator");
-      }
-      abs_sum_ = sum;
-      bound_ = static_cast<double>(sum);
-    } else {
-      detail::MagnitudeSum sum = magnitudes_;
-      sum.add(-detail::abs_double(old_value));
-      sum.add(detail::abs_double(new_value));
-      const double b = sum.value();
-      if (!detail::is_finite(b) || b > float_energy_limit) {
-        return Status::error(StatusCode::energy_overflow, "edit would let the energy range exceed DBL_MAX/4 (flip deltas could overflow)");
-      }
-      magnitudes_ = sum;
-      bound_ = b;
+    if (!range_.replace(static_cast<energy_type>(old_value), static_cast<energy_type>(new_value))) {
+      return Status::error(StatusCode::energy_overflow, detail::range_message<Value>(false));
     }
     return Status::success();
   }
@@ -229,9 +184,7 @@ class DenseModel {
   std::vector<Value> linear_;
   std::vector<Value> matrix_;
   energy_type offset_{0};
-  std::uint64_t abs_sum_ = 0;
-  double bound_ = 0;
-  detail::MagnitudeSum magnitudes_{};  // floating models: the compensated sum behind bound_
+  detail::EnergyRange<Value> range_{};  // |c| + sum |linear| + sum |pair|
 };
 
 template <class Value>

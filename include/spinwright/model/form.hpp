@@ -106,6 +106,66 @@ class MagnitudeSum {
 };
 
 template <class Value>
+constexpr bool is_finite(Value v) noexcept;
+
+// The energy range of a model, |c| + sum |linear| + sum |pair|, kept through builds and edits:
+// exactly in 64 bits for integer models (limit integer_energy_limit), as a compensated sum for
+// floating ones (limit float_energy_limit). Every model type holds one.
+template <class Value>
+class EnergyRange {
+ public:
+  using energy_type = energy_t<Value>;
+
+  // Adds a term's magnitude; false once the range is beyond its limit.
+  constexpr bool add(energy_type v) noexcept {
+    if constexpr (std::is_integral_v<Value>) {
+      const bool fits = add_bounded(abs_sum_, magnitude_u64(v), integer_energy_limit) && !saturated_;
+      saturated_ = !fits;
+      bound_ = static_cast<double>(abs_sum_);
+      return fits;
+    } else {
+      magnitudes_.add(abs_double(v));
+      bound_ = magnitudes_.value();
+      return is_finite(bound_) && bound_ <= float_energy_limit;
+    }
+  }
+
+  // Replaces a term of value old_value by new_value; when the range would pass its limit,
+  // returns false and changes nothing.
+  constexpr bool replace(energy_type old_value, energy_type new_value) noexcept {
+    EnergyRange next = *this;
+    if constexpr (std::is_integral_v<Value>) {
+      next.abs_sum_ -= magnitude_u64(old_value);
+    } else {
+      next.magnitudes_.add(-abs_double(old_value));
+    }
+    if (!next.add(new_value)) return false;
+    *this = next;
+    return true;
+  }
+
+  constexpr double bound() const noexcept { return bound_; }
+
+ private:
+  std::uint64_t abs_sum_ = 0;
+  bool saturated_ = false;
+  MagnitudeSum magnitudes_{};
+  double bound_ = 0;
+};
+
+// The refusal of an edit (or an offset change) that would pass the range limit.
+template <class Value>
+constexpr const char* range_message(bool offset) noexcept {
+  if constexpr (std::is_integral_v<Value>) {
+    return offset ? "offset would let the energy range (|offset| + sum of |coefficients|) pass 2^61 - 1 and overflow the 64-bit accumulator"
+                  : "edit would let the energy range (|offset| + sum of |coefficients|) pass 2^61 - 1 and overflow the 64-bit accumulator";
+  } else {
+    return offset ? "offset would let the energy range exceed DBL_MAX/4 (flip deltas could overflow)"
+                  : "edit would let the energy range exceed DBL_MAX/4 (flip deltas could overflow)";
+  }
+}
+
+template <class Value>
 constexpr bool is_finite(Value v) noexcept {
   if constexpr (std::is_floating_point_v<Value>) {
     // v - v is NaN for both NaN and infinity; no <cmath> needed.

@@ -159,7 +159,7 @@ class SparseModel {
 
   // Bound on |E| and on every local field: |c| + sum |linear| + sum_{i<j} |pair|.
   // For integer models this never exceeds integer_energy_limit (enforced by build and edits).
-  double energy_bound() const noexcept { return bound_; }
+  double energy_bound() const noexcept { return range_.bound(); }
 
   // In-place edits of existing terms; the pattern never changes (a pair set to 0 stays stored,
   // and can be given a value again). Use the free functions in
@@ -197,25 +197,7 @@ class SparseModel {
 
   Status set_offset(energy_type c) noexcept {
     if (!detail::is_finite(c)) return Status::error(StatusCode::non_finite_value, "offset is NaN or infinite; only finite values are allowed");
-    if constexpr (std::is_integral_v<Value>) {
-      const std::uint64_t rest = abs_sum_ - detail::magnitude_u64(offset_);
-      std::uint64_t sum = rest;
-      if (!detail::add_bounded(sum, detail::magnitude_u64(c), integer_energy_limit)) {
-        return Status::error(StatusCode::energy_overflow, "offset would let the energy range (|offset| + sum of |coefficients|) pass 2^61 - 1 and overflow the 64-bit accumulator");
-      }
-      abs_sum_ = sum;
-      bound_ = static_cast<double>(abs_sum_);
-    } else {
-      detail::MagnitudeSum sum = magnitudes_;
-      sum.add(-detail::abs_double(offset_));
-      sum.add(detail::abs_double(c));
-      const double b = sum.value();
-      if (!detail::is_finite(b) || b > float_energy_limit) {
-        return Status::error(StatusCode::energy_overflow, "offset would let the energy range exceed DBL_MAX/4 (flip deltas could overflow)");
-      }
-      magnitudes_ = sum;
-      bound_ = b;
-    }
+    if (!range_.replace(offset_, c)) return Status::error(StatusCode::energy_overflow, detail::range_message<Value>(true));
     offset_ = c;
     return Status::success();
   }
@@ -230,23 +212,8 @@ class SparseModel {
   friend struct detail::ModelAccess;
 
   Status rebound(Value old_value, Value new_value) noexcept {
-    if constexpr (std::is_integral_v<Value>) {
-      std::uint64_t sum = abs_sum_ - detail::magnitude_u64(old_value);
-      if (!detail::add_bounded(sum, detail::magnitude_u64(new_value), integer_energy_limit)) {
-        return Status::error(StatusCode::energy_overflow, "edit would let the energy range (|offset| + sum of |coefficients|) pass 2^61 - 1 and overflow the 64-bit accumulator");
-      }
-      abs_sum_ = sum;
-      bound_ = static_cast<double>(abs_sum_);
-    } else {
-      detail::MagnitudeSum sum = magnitudes_;
-      sum.add(-detail::abs_double(old_value));
-      sum.add(detail::abs_double(new_value));
-      const double b = sum.value();
-      if (!detail::is_finite(b) || b > float_energy_limit) {
-        return Status::error(StatusCode::energy_overflow, "edit would let the energy range exceed DBL_MAX/4 (flip deltas could overflow)");
-      }
-      magnitudes_ = sum;
-      bound_ = b;
+    if (!range_.replace(static_cast<energy_type>(old_value), static_cast<energy_type>(new_value))) {
+      return Status::error(StatusCode::energy_overflow, detail::range_message<Value>(false));
     }
     return Status::success();
   }
@@ -256,9 +223,7 @@ class SparseModel {
   std::vector<Index> neighbours_;
   std::vector<Value> values_;
   energy_type offset_{0};
-  std::uint64_t abs_sum_ = 0;  // integer models: exact |c| + sum |linear| + sum |pair|
-  double bound_ = 0;
-  detail::MagnitudeSum magnitudes_{};  // floating models: the compensated sum behind bound_
+  detail::EnergyRange<Value> range_{};  // |c| + sum |linear| + sum |pair|
 };
 
 template <class Value, class Index = std::uint32_t>
@@ -271,17 +236,14 @@ struct ModelAccess {
   template <Form F, class Value, class Index>
   static SparseModel<F, Value, Index> make(std::vector<Value> linear, std::vector<std::size_t> row,
                                            std::vector<Index> neighbours, std::vector<Value> values,
-                                           energy_t<Value> offset, std::uint64_t abs_sum, double bound,
-                                           MagnitudeSum magnitudes = {}) {
+                                           energy_t<Value> offset, EnergyRange<Value> range) {
     SparseModel<F, Value, Index> m;
     m.linear_ = std::move(linear);
     m.row_ = std::move(row);
     m.neighbours_ = std::move(neighbours);
     m.values_ = std::move(values);
     m.offset_ = offset;
-    m.abs_sum_ = abs_sum;
-    m.bound_ = bound;
-    m.magnitudes_ = magnitudes;
+    m.range_ = range;
     return m;
   }
 };

@@ -52,10 +52,8 @@ class SparseModelView {
     v.neighbours_ = neighbours;
     v.values_ = values;
     v.offset_ = offset;
-    std::uint64_t abs_sum = 0;
-    double bound = detail::abs_double(offset);
-    bool fits = true;
-    if constexpr (std::is_integral_v<Value>) fits = detail::add_bounded(abs_sum, detail::magnitude_u64(offset), integer_energy_limit);
+    detail::EnergyRange<Value> range;
+    bool fits = range.add(offset);
     for (std::size_t i = 0; i < n; ++i) {
       if (row_starts[i + 1] < row_starts[i]) {
         return Status::error(StatusCode::invalid_argument, "row_starts must not decrease").at_term(no_term, i, i);
@@ -63,11 +61,7 @@ class SparseModelView {
       if (!detail::is_finite(linear[i])) {
         return Status::error(StatusCode::non_finite_value, "linear term is NaN or infinite").at_term(no_term, i, i);
       }
-      if constexpr (std::is_integral_v<Value>) {
-        fits = fits && detail::add_bounded(abs_sum, detail::magnitude_u64(linear[i]), integer_energy_limit);
-      } else {
-        bound += detail::abs_double(linear[i]);
-      }
+      fits = range.add(linear[i]) && fits;
       for (std::size_t k = row_starts[i]; k < row_starts[i + 1]; ++k) {
         const Index j = neighbours[k];
         if (j >= n) return Status::error(StatusCode::index_out_of_range, "neighbour beyond the model").at_term(no_term, i, j);
@@ -83,24 +77,19 @@ class SparseModelView {
         if (back == npos || values[back] != values[k]) {
           return Status::error(StatusCode::invalid_argument, "pair not stored symmetrically (j, i) with the same value").at_term(no_term, i, j);
         }
-        if (j > i) {
-          if constexpr (std::is_integral_v<Value>) {
-            fits = fits && detail::add_bounded(abs_sum, detail::magnitude_u64(values[k]), integer_energy_limit);
-          } else {
-            bound += detail::abs_double(values[k]);
-          }
-        }
+        if (j > i) fits = range.add(values[k]) && fits;
       }
     }
-    if constexpr (std::is_integral_v<Value>) {
-      if (!fits) return Status::error(StatusCode::energy_overflow, "the energy range exceeds 2^61 and could overflow the 64-bit accumulator");
-      bound = static_cast<double>(abs_sum);
-    } else {
-      if (!detail::is_finite(bound) || bound > float_energy_limit) {
-        return Status::error(StatusCode::energy_overflow, "the energy range exceeds DBL_MAX/4");
+    if (!fits) {
+      if constexpr (std::is_integral_v<Value>) {
+        return Status::error(StatusCode::energy_overflow,
+                             "the energy range (|offset| + sum of |coefficients|) exceeds 2^61 - 1 and could overflow the 64-bit accumulator; scale the coefficients down or use a floating Value");
+      } else {
+        return Status::error(StatusCode::energy_overflow,
+                             "the energy range (|offset| + sum of |coefficients|) exceeds DBL_MAX/4, so flip deltas could overflow; scale the coefficients down");
       }
     }
-    v.bound_ = bound;
+    v.bound_ = range.bound();
     return v;
   }
 
