@@ -383,8 +383,9 @@ TEST_CASE("penalty weight below the bound lets an infeasible state win") {
     CHECK(set[0].slack_weights.empty());
     auto m = b.build();
     REQUIRE(m.ok());
-    const std::uint8_t one = 1, zero = 0;
-    const bool infeasible_wins = m->energy_of_bits(&one) < m->energy_of_bits(&zero);
+    REQUIRE(m->num_spins() == 1);
+    const std::vector<std::uint8_t> one{1}, zero{0};
+    const bool infeasible_wins = m->energy_of_bits(one.data()) < m->energy_of_bits(zero.data());
     CHECK(infeasible_wins == (a < 10));
   }
   QuboBuilder<std::int32_t> obj(1);
