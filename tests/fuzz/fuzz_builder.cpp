@@ -4,13 +4,8 @@
 
 #include <cstddef>  // std::size_t
 #include <cstdint>  // std::uint8_t
-#include <cstdio>   // std::fprintf
-#include <cstdlib>  // std::abort
 
 extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size) {
-  if (const char* failure = fuzz_entries::builder_entry(data, size)) {
-    std::fprintf(stderr, "invariant broken: %s\n", failure);
-    std::abort();
-  }
+  SPINWRIGHT_FUZZ_REQUIRE(fuzz_entries::builder_entry(data, size));
   return 0;
 }

@@ -22,6 +22,8 @@
 
 #include <cstddef>      // std::size_t
 #include <cstdint>      // std::uint8_t, std::int64_t
+#include <cstdio>       // std::fprintf
+#include <cstdlib>      // std::abort
 #include <cstring>      // std::memcpy
 #include <limits>       // std::numeric_limits
 #include <map>          // std::map (reference pair sums)
@@ -1074,6 +1076,17 @@ inline Failure view_entry(const std::uint8_t* data, std::size_t size) {
 #undef SPINWRIGHT_FUZZ_VIEW
 }
 
+// Ends a fuzz run when an entry reports a broken invariant; libFuzzer then keeps the input.
+inline void require_invariants(const char* failure) {
+  if (failure != nullptr) {
+    std::fprintf(stderr, "invariant broken: %s\n", failure);
+    std::abort();
+  }
+}
+
 }  // namespace fuzz_entries
+
+// The assertion of every libFuzzer target: SPINWRIGHT_FUZZ_REQUIRE(fuzz_entries::X_entry(data, size)).
+#define SPINWRIGHT_FUZZ_REQUIRE(entry_call) fuzz_entries::require_invariants(entry_call)
 
 #endif  // SPINWRIGHT_TESTS_FUZZ_FUZZ_ENTRIES_HPP

@@ -10,7 +10,7 @@ using namespace spinwright;
 TEST_CASE("splitmix64 and xoshiro256++ match their reference code") {
   // splitmix64 from state 0: first output 0xE220A8397B1DCDAF (Steele, Lea, Flood, OOPSLA 2014;
   // Vigna's reference splitmix64.c — value from memory, recomputed with an independent Python
-  // transcription of the reference C code, as were the values below).
+  // re-implementation of the reference C code, as were the values below).
   std::uint64_t s = 0;
   CHECK(splitmix64(s) == 0xE220A8397B1DCDAFULL);
   CHECK(splitmix64(s) == 0x6E789E6AA1B965F4ULL);
