@@ -82,3 +82,197 @@ TEST_CASE("solve_auto reaches the proven optimum of bqp250-1 and bqp250-3 withou
     CHECK(cut_value(*m, tally.best().spins.data()) == c.cut);
   }
 }
+
+// ---- The time-filling mode (a Budget with a clock, finite seconds and sweeps == 0) ----------
+
+namespace {
+
+// A fake clock: every read advances it by `step` "seconds", so a budget of S seconds is close
+// to S clock reads (about one per sweep: the kernels read the clock once per sweep). Runs are
+// deterministic and no test depends on the machine's speed. It can also request a stop at a
+// given read.
+struct Ticker {
+  double now = 0;
+  double step = 1;
+  std::uint64_t reads = 0;
+  std::uint64_t stop_at = 0;  // 0: never
+  StopToken* token = nullptr;
+};
+
+double tick(void* context) noexcept {
+  auto* t = static_cast<Ticker*>(context);
+  t->now += t->step;
+  ++t->reads;
+  if (t->token != nullptr && t->stop_at != 0 && t->reads >= t->stop_at) t->token->request_stop();
+  return t->now;
+}
+
+Budget ticking(Ticker& t, double seconds) { return Budget{}.with_time_limit(seconds, Clock{&tick, &t}); }
+
+// Random 3-regular-like sparse graph with +-1 couplings (invented data: a spin glass on 300
+// spins with 3 random partners per spin), density far below 0.10, so auto anneals it.
+IsingModel<std::int32_t> sparse_glass(std::uint32_t n, std::uint64_t seed) {
+  Xoshiro256 rng(seed);
+  IsingBuilder<std::int32_t> b(n);
+  for (std::uint32_t i = 0; i < n; ++i) {
+    for (int k = 0; k < 3; ++k) {
+      const std::uint32_t j = rng.below(n);
+      if (j != i) b.add_coupling(i, j, rng.coin() ? 1 : -1);
+    }
+  }
+  return std::move(b.build().value());
+}
+
+}  // namespace
+
+TEST_CASE("time-filling annealing: uses the time, stops by the deadline, keeps the best of several runs") {
+  const auto m = sparse_glass(300, 5);
+  REQUIRE(choose_kernel(m).kernel == KernelKind::anneal);
+  CHECK(auto_fills_time(Budget{}.with_time_limit(1.0, Clock{&tick, nullptr})));
+  CHECK_FALSE(auto_fills_time(Budget{}));
+  CHECK_FALSE(auto_fills_time(Budget{}.with_time_limit(1.0, Clock{&tick, nullptr}).with_sweeps(10)));
+
+  const double seconds = 6000;
+  Ticker t;
+  const auto s = solve_auto(m, 3, 0, ticking(t, seconds));
+  CHECK(s.reason == StopReason::deadline);
+  // Stopped by the deadline: the clock time used is within a few reads past the budget.
+  CHECK(s.seconds <= seconds + 8);
+  // The whole time is used: about one clock read per sweep, so nearly `seconds` sweeps were
+  // run, far more than the single first run of auto_fill_first_sweeps (several runs).
+  CHECK(s.sweeps >= static_cast<std::uint64_t>(0.8 * seconds));
+  CHECK(s.sweeps > 4 * auto_fill_first_sweeps);
+  // The kept state is consistent, and at least as good as the first run alone (256 sweeps,
+  // same seed and restart, same schedule, order and acceptance, steepest descent).
+  CHECK(s.energy == m.energy(s.spins.data()));
+  AnnealParams first;
+  first.sweeps = auto_fill_first_sweeps;
+  first.order = SiteOrder::sequential;
+  first.acceptance = Acceptance::heat_bath;
+  const auto run0 = polish(m, anneal(m, first, 3, 0), DescentRule::steepest);
+  CHECK(s.energy <= run0.energy);
+  CHECK(s.restart == 0);
+}
+
+TEST_CASE("time-filling annealing: the same seed and clock sequence give the same answer") {
+  const auto m = sparse_glass(300, 6);
+  Ticker a;
+  Ticker b;
+  const auto s1 = solve_auto(m, 9, 2, ticking(a, 3000));
+  const auto s2 = solve_auto(m, 9, 2, ticking(b, 3000));
+  CHECK(s1.spins == s2.spins);
+  CHECK(s1.energy == s2.energy);
+  CHECK(s1.sweeps == s2.sweeps);
+  CHECK(s1.seconds == s2.seconds);
+  CHECK(a.reads == b.reads);
+  // Another restart index is another stream.
+  Ticker c;
+  const auto s3 = solve_auto(m, 9, 3, ticking(c, 3000));
+  CHECK(s3.restart == 3);
+  CHECK(s3.energy == m.energy(s3.spins.data()));
+}
+
+TEST_CASE("time-filling annealing honours a target and a stop token") {
+  // Odd antiferromagnetic ring C_101: ground energy -(n - 2) = -99 (max cut n - 1; common
+  // practice). Sequential heat-bath sweeps must still let the domain walls meet.
+  const auto ring101 = ring(101, 1);
+  {
+    Ticker t;
+    const auto s = solve_auto(ring101, 4, 0, ticking(t, 1e6).with_target(-99));
+    CHECK(s.reason == StopReason::target_reached);
+    CHECK(s.energy == -99);
+    CHECK(s.seconds < 1e6);
+  }
+  {
+    // Without a target the ring still ends at its ground energy within the time.
+    Ticker t;
+    const auto s = solve_auto(ring101, 5, 0, ticking(t, 20000));
+    CHECK(s.energy == -99);
+  }
+  {
+    // A stop requested at the 700th clock read (inside the second or third run) ends the
+    // sequence there; the best so far is returned and consistent.
+    const auto m = sparse_glass(300, 7);
+    StopToken token;
+    Ticker t;
+    t.token = &token;
+    t.stop_at = 700;
+    const auto s = solve_auto(m, 1, 0, ticking(t, 1e6).with_stop(token));
+    CHECK(s.reason == StopReason::stopped);
+    CHECK(s.sweeps < 800);
+    CHECK(s.energy == m.energy(s.spins.data()));
+  }
+  {
+    // A stop requested before the start: no sweep at all.
+    const auto m = sparse_glass(300, 7);
+    StopToken token;
+    token.request_stop();
+    Ticker t;
+    const auto s = solve_auto(m, 1, 0, ticking(t, 1e6).with_stop(token));
+    CHECK(s.reason == StopReason::stopped);
+    CHECK(s.sweeps == 0);
+    CHECK(s.energy == m.energy(s.spins.data()));
+  }
+}
+
+TEST_CASE("time-filling annealing: a 16 x 16 antiferromagnetic torus reaches its ground energy") {
+  // An even periodic square lattice is bipartite: every bond can be satisfied, E_min = -2 N
+  // (common practice).
+  IsingBuilder<std::int32_t> b(256);
+  for (std::uint32_t r = 0; r < 16; ++r)
+    for (std::uint32_t c = 0; c < 16; ++c) {
+      b.add_coupling(r * 16 + c, r * 16 + (c + 1) % 16, 1);
+      b.add_coupling(r * 16 + c, ((r + 1) % 16) * 16 + c, 1);
+    }
+  const auto m = b.build().value();
+  Ticker t;
+  const auto s = solve_auto(m, 2, 0, ticking(t, 20000));
+  CHECK(s.energy == -512);
+}
+
+TEST_CASE("a sweep budget keeps the fixed mode, even with a clock") {
+  const auto m = sparse_glass(300, 8);
+  Ticker t;
+  const auto s = solve_auto(m, 4, 0, ticking(t, 1e9).with_sweeps(300));
+  AnnealParams params;
+  params.sweeps = choose_kernel(m).sweeps;
+  const auto expected = polish(m, anneal(m, params, 4, 0, Budget{}.with_sweeps(300)), DescentRule::steepest);
+  CHECK(s.spins == expected.spins);
+  CHECK(s.energy == expected.energy);
+  CHECK(s.sweeps == expected.sweeps);
+}
+
+TEST_CASE("time-filling tabu search: one run stopped by the deadline") {
+  // K_40 (density 1, so auto picks tabu); max cut floor(n^2 / 4) = 400 (Mantel/Turan; common practice).
+  IsingBuilder<std::int32_t> b(40);
+  for (std::uint32_t i = 0; i < 40; ++i)
+    for (std::uint32_t j = i + 1; j < 40; ++j) b.add_coupling(i, j, 1);
+  const auto m = b.build().value();
+  REQUIRE(choose_kernel(m).kernel == KernelKind::tabu);
+  Ticker t;
+  const auto s = solve_auto(m, 3, 0, ticking(t, 3000));
+  CHECK(s.reason == StopReason::deadline);
+  // More sweeps than the fixed mode's 2000: the run filled the time (one read per sweep).
+  CHECK(s.sweeps > choose_kernel(m).sweeps);
+  CHECK(s.sweeps <= 3000);
+  CHECK(cut_value(m, s.spins.data()) == 400);
+  Ticker u;
+  const auto again = solve_auto(m, 3, 0, ticking(u, 3000));
+  CHECK(again.spins == s.spins);
+}
+
+TEST_CASE("time-filling solve_auto reaches the proven optimum of bqp250-1 within a sweep-like budget") {
+  // Beasley's OR-Library bqp250-1 (J. E. Beasley, J. Oper. Res. Soc. 41, 1990; optimum 45607 in
+  // Beasley 1998, shared/data/maxcut/reference.csv), in max-cut form with one extra node. The
+  // fake clock turns the budget into about 2000 sweeps.
+  auto m = io::read_edge_list<std::int32_t>(std::string(SPINWRIGHT_DATA_DIR) + "/maxcut/bqp250-1.txt");
+  REQUIRE(m.ok());
+  const auto w = total_weight(*m);
+  const double target = static_cast<double>(energy_from_cut<std::int64_t>(w, 45607));
+  for (std::uint64_t seed = 1; seed <= 3; ++seed) {
+    Ticker t;
+    const auto s = solve_auto(*m, seed, 0, ticking(t, 2000).with_target(target));
+    CHECK(s.reason == StopReason::target_reached);
+    CHECK(cut_value(*m, s.spins.data()) == 45607);
+  }
+}

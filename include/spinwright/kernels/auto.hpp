@@ -9,8 +9,36 @@
 //   * otherwise (sparse graphs, lattices)      -> annealing, sweeps = 4000 for N <= 10^4,
 //     2000 up to 10^5, 1000 beyond, geometric schedule over the automatic beta range, random
 //     site order, then steepest descent to polish the result.
-// A Budget's sweeps, deadline, stop token and target are honoured by whichever kernel runs
-// (exact enumeration has no stop: its size limit bounds its time).
+//
+// Two modes of solve_auto():
+//   * Fixed (no time limit, or a Budget with sweeps != 0): one run of the chosen kernel with the
+//     sweeps above (or the Budget's); a deadline only cuts that run short.
+//   * Time-filling (the Budget has a valid clock, a finite `seconds` and sweeps == 0): the whole
+//     time is used, by this rule:
+//       - annealing: successive anneals, each a full schedule (geometric over the automatic beta
+//         range, sequential site order, heat-bath acceptance) followed by steepest descent. The
+//         first is auto_fill_first_sweeps (256) sweeps long and calibrates the time per sweep
+//         (clock time so far / anneal sweeps so far, descents included). Each next length is
+//         auto_fill_growth (2) times the last, capped by what fits in auto_fill_margin (90 %) of
+//         the remaining time at that rate; when the run after it could not grow again, it takes
+//         all that fits. The sequence ends when fewer than auto_fill_first_sweeps sweeps fit, or
+//         at the deadline (a run the deadline cuts short is polished by first-improvement descent).
+//         Run k >= 1 draws its spins and moves from (auto_fill_seed(seed, k), restart); run 0 from
+//         (seed, restart). The best state over all runs is returned; `sweeps`, `attempted` and
+//         `accepted` add up every run and descent. Sequential order runs about twice as many
+//         sweeps per second as random order; heat-bath acceptance keeps it ergodic where
+//         zero-delta flips abound (rings, lattices with +-1 couplings; see docs/moves.md).
+//         Measured on the G-set: docs/quality.md.
+//       - tabu search: one run with no sweep limit, stopped by the deadline (tabu keeps its best
+//         and restarts itself from it by perturbation).
+//       - exact enumeration: unchanged (its size limit bounds its time).
+// Both modes honour the Budget's stop token (checked once per sweep) and target (checked at
+// every sweep end and after every descent). A run is deterministic given (seed, restart) and,
+// in the time-filling mode, the sequence of clock readings.
+//
+// Allocation: the time-filling mode constructs one Annealer and one Descender (or one
+// TabuSearch) and reuses them for every run (plus one more Descender for a run the deadline
+// cuts short); nothing is allocated per sweep or per run.
 #ifndef SPINWRIGHT_KERNELS_AUTO_HPP
 #define SPINWRIGHT_KERNELS_AUTO_HPP
 
@@ -23,8 +51,11 @@
 #include "tabu.hpp"
 
 #include <cstddef>  // std::size_t
-#include <cstdint>  // std::uint64_t, std::uint8_t
+#include <cstdint>  // std::int8_t, std::uint64_t, std::uint8_t
+#include <cstring>  // std::memcpy
+#include <limits>   // std::numeric_limits
 #include <utility>  // std::move
+#include <vector>   // std::vector (the returned Solution's spins)
 
 namespace spinwright {
 
@@ -49,6 +80,21 @@ struct AutoChoice {
 
 inline constexpr std::size_t auto_exact_max_spins = 20;
 inline constexpr double auto_dense_threshold = 0.10;
+inline constexpr std::uint64_t auto_fill_first_sweeps = 256;
+inline constexpr double auto_fill_margin = 0.9;
+inline constexpr std::uint64_t auto_fill_growth = 2;
+
+// The seed of annealing run k of the time-filling mode (run 0 uses `seed` itself).
+inline constexpr std::uint64_t auto_fill_seed(std::uint64_t seed, std::uint64_t k) noexcept {
+  if (k == 0) return seed;
+  std::uint64_t state = seed ^ (k * 0xC2B2AE3D27D4EB4FULL);
+  return splitmix64(state);
+}
+
+// True when solve_auto(model, seed, restart, budget) uses the time-filling mode.
+inline bool auto_fills_time(const Budget& budget) noexcept {
+  return budget.sweeps == 0 && budget.clock.valid() && budget.seconds < std::numeric_limits<double>::infinity();
+}
 
 template <class Model>
 AutoChoice choose_kernel(const Model& model) noexcept {
@@ -63,12 +109,119 @@ AutoChoice choose_kernel(const Model& model) noexcept {
   return {KernelKind::anneal, sweeps, "sparse model: annealing, then descent"};
 }
 
-// One restart of the automatically chosen kernel. Restart r depends on (seed, r) only.
+namespace detail {
+
+// Time-filling annealing (see the rule at the top of this header).
+template <class Model>
+Solution<typename Model::energy_type> auto_fill_anneal(const Model& model, std::uint64_t seed, std::uint64_t restart,
+                                                       const Budget& budget, std::uint64_t growth = auto_fill_growth,
+                                                       SiteOrder order = SiteOrder::sequential,
+                                                       Acceptance acceptance = Acceptance::heat_bath) {
+  using energy_type = typename Model::energy_type;
+  const Clock clock = budget.clock;
+  const double t0 = clock.read();
+  const std::uint64_t first = auto_fill_first_sweeps;
+  AnnealParams params;
+  params.sweeps = first;
+  params.order = order;
+  params.acceptance = acceptance;
+  Annealer<Model> annealer(model, params, seed, restart);
+  DescentParams descent_params;
+  descent_params.rule = DescentRule::steepest;
+  descent_params.initial = annealer.best().spins;
+  Descender<Model> descender(model, descent_params, seed, restart);
+  Budget descent_budget;
+  descent_budget.stop = budget.stop;
+
+  const std::size_t n = model.num_spins();
+  Solution<energy_type> out;
+  out.spins.assign(n, 1);
+  out.restart = restart;
+  bool have = false;
+  std::uint64_t anneal_sweeps = 0;
+  std::uint64_t length = first;
+  StopReason why = StopReason::deadline;
+  NoObserver none;
+  // Adds a descent's counters and keeps its state when it is the best so far.
+  auto keep = [&](const Descender<Model>& d) {
+    out.sweeps += d.passes();
+    out.attempted += d.attempted();
+    out.accepted += d.accepted();
+    if (!have || d.energy() < out.energy) {
+      std::memcpy(out.spins.data(), d.state().spins(), n);
+      out.energy = d.energy();
+      have = true;
+    }
+  };
+  for (std::uint64_t k = 0;; ++k) {
+    if (k > 0) annealer.reset(auto_fill_seed(seed, k), restart);
+    Budget run = budget;
+    run.sweeps = length;
+    run.seconds = budget.seconds - (clock.read() - t0);
+    const StopReason r = annealer.advance(run, none);
+    anneal_sweeps += annealer.sweeps_done();
+    out.sweeps += annealer.sweeps_done();
+    out.attempted += annealer.attempted();
+    out.accepted += annealer.accepted();
+    const std::int8_t* spins = annealer.best().spins;
+    energy_type energy = annealer.best_energy_exact();
+    if (r == StopReason::deadline) {
+      // A schedule cut short may end far from a local minimum: the cheaper first-improvement
+      // descent (this happens once at most: the deadline ends the sequence).
+      descent_params.rule = DescentRule::first_improvement;
+      descent_params.initial = spins;
+      Descender<Model> quick(model, descent_params, seed, restart);
+      quick.advance(descent_budget, none);
+      keep(quick);
+    } else if (r != StopReason::stopped) {
+      // A finished schedule ends cold: steepest descent takes a few moves.
+      descender.warm_start(spins, restart);
+      descender.advance(descent_budget, none);
+      keep(descender);
+    } else if (!have || energy < out.energy) {
+      std::memcpy(out.spins.data(), spins, n);
+      out.energy = energy;
+      have = true;
+    }
+    if (budget.has_target && static_cast<double>(out.energy) <= budget.target) {
+      why = StopReason::target_reached;
+      break;
+    }
+    if (r == StopReason::stopped || (budget.stop != nullptr && budget.stop->stop_requested())) {
+      why = StopReason::stopped;
+      break;
+    }
+    if (r == StopReason::deadline) break;
+    // The next length: double the last, capped by what fits in the margin of the time left.
+    const double elapsed = clock.read() - t0;
+    const double left = budget.seconds - elapsed;
+    if (!(left > 0)) break;
+    const double per_sweep = anneal_sweeps > 0 ? elapsed / static_cast<double>(anneal_sweeps) : 0.0;
+    const double cap = static_cast<double>(std::uint64_t{1} << 62);
+    const double fits_d = per_sweep > 0 ? auto_fill_margin * left / per_sweep : cap;
+    const std::uint64_t fits = fits_d < cap ? static_cast<std::uint64_t>(fits_d) : std::uint64_t{1} << 62;
+    if (fits < first) break;
+    std::uint64_t next = growth * length;
+    if (next > fits) next = fits;
+    if (fits - next < growth * next) next = fits;
+    length = next;
+  }
+  out.energy = model.energy(out.spins.data());
+  out.seconds = clock.read() - t0;
+  out.reason = why;
+  return out;
+}
+
+}  // namespace detail
+
+// One restart of the automatically chosen kernel. Restart r depends on (seed, r) only (and, in
+// the time-filling mode, on the clock readings). See the two modes at the top of this header.
 template <class Model>
 Solution<typename Model::energy_type> solve_auto(const Model& model, std::uint64_t seed, std::uint64_t restart = 0,
                                                  const Budget& budget = Budget{}) {
   using energy_type = typename Model::energy_type;
   const AutoChoice choice = choose_kernel(model);
+  const bool fill = auto_fills_time(budget);
   switch (choice.kernel) {
     case KernelKind::exact: {
       ExactParams params;
@@ -86,9 +239,13 @@ Solution<typename Model::energy_type> solve_auto(const Model& model, std::uint64
     case KernelKind::tabu: {
       TabuParams params;
       params.sweeps = choice.sweeps;
-      return tabu_search(model, params, seed, restart, budget);
+      if (!fill) return tabu_search(model, params, seed, restart, budget);
+      Budget run = budget;
+      run.sweeps = std::numeric_limits<std::uint64_t>::max();
+      return tabu_search(model, params, seed, restart, run);
     }
     default: {
+      if (fill) return detail::auto_fill_anneal(model, seed, restart, budget);
       AnnealParams params;
       params.sweeps = choice.sweeps;
       Solution<energy_type> annealed = anneal(model, params, seed, restart, budget);
