@@ -69,6 +69,52 @@ TEST_CASE("the threshold table ends where the acceptance drops below 2^-53") {
   CHECK(static_cast<double>(acc.table_used()) == doctest::Approx(k_cut).epsilon(0.02));
 }
 
+TEST_CASE("the hazard path: entries are -ln(1 - p), and first-passage acceptance has rate p") {
+  // Memorylessness of the exponential distribution (any probability text, e.g. Feller, An
+  // Introduction to Probability Theory and Its Applications, vol. 1, 3rd ed., 1968): with
+  // E ~ Exp(1) and hazards h_t = -ln(1 - p_t), "accept at the first t where h_1 + ... + h_t
+  // reaches E, then draw E afresh" accepts each attempt with probability p_t given the past.
+  for (const std::size_t limit : {std::size_t{4096}, std::size_t{4}}) {  // 4: beyond-table deltas too
+    CAPTURE(limit);
+    Acceptor<std::int64_t> acc(Acceptance::metropolis, 1, 40, limit, /*hazard*/ true);
+    for (const double beta : {0.05, 0.3, 1.0}) {
+      CAPTURE(beta);
+      acc.set_beta(beta);
+      acc.prepare_hazard();
+      const auto hz = acc.hazard();
+      for (const std::int64_t d : {2, 4, 6, 10, 20, 40}) {
+        CAPTURE(d);
+        const double p = metropolis(beta, static_cast<double>(d));
+        const double h = -std::log1p(-p);
+        // Fixed point 2^52, truncated: relative error below 1e-12 where h is not tiny.
+        const double scaled = static_cast<double>(hz.of(d)) / hazard_scale;
+        CHECK(scaled == doctest::Approx(h).epsilon(1e-12));
+        // First-passage protocol with this one delta repeated: the accepted fraction is p.
+        Xoshiro256 rng(900 + static_cast<std::uint64_t>(d));
+        std::uint64_t left = decltype(hz)::draw(rng);
+        const int trials = 200000;
+        int accepted = 0;
+        for (int t = 0; t < trials; ++t) {
+          const std::uint64_t step = hz.of(d);
+          if (step >= left) {
+            ++accepted;
+            left = decltype(hz)::draw(rng);
+          } else {
+            left -= step;
+          }
+        }
+        const double rate = static_cast<double>(accepted) / trials;
+        CAPTURE(rate);
+        CHECK(std::fabs(rate - p) <= 4 * std::sqrt(p * (1 - p) / trials) + 1e-12);
+      }
+    }
+    // Beyond 53 ln 2 the hazard is 0 (no acceptance), as the threshold table's zero entries.
+    acc.set_beta(5.0);
+    acc.prepare_hazard();
+    CHECK(acc.hazard().of(40) == 0);
+  }
+}
+
 TEST_CASE("floating acceptance: the squeeze before the logarithm never changes a decision") {
   // The same RNG stream through the Acceptor and through the plain definition
   // (accept iff beta d < -log(u); heat-bath iff beta d < log(1/u - 1); no draw when the

@@ -65,10 +65,13 @@ Estimate binned(const std::vector<double>& x, std::size_t bins) {
 }
 
 // Samples E/N and |m| once per sweep after `burn` sweeps.
+// `hazard_below`: AnnealParams::hazard_below (integer Metropolis: 0 never takes the hazard
+// path, 2 takes it from the second sweep on).
 template <class Model>
 Samples sample(const Model& model, double T, Acceptance rule, SiteOrder order, std::uint64_t burn,
-               std::uint64_t measure, std::uint64_t seed) {
+               std::uint64_t measure, std::uint64_t seed, double hazard_below = AnnealParams{}.hazard_below) {
   AnnealParams p;
+  p.hazard_below = hazard_below;
   p.schedule = Schedule::constant(1.0 / T);
   p.acceptance = rule;
   p.order = order;
@@ -129,6 +132,31 @@ TEST_CASE("Metropolis on the 32x32 periodic ferromagnet reproduces Onsager's ene
   }
 }
 
+TEST_CASE("integer Metropolis: the uniform path and the hazard path each reproduce Onsager and Yang") {
+  // The same published values as above (Onsager 1944, Yang 1952), with the acceptance path
+  // forced: hazard_below = 0 draws one uniform per uphill attempt, 2 one exponential per
+  // accepted uphill flip (kernels/schedule.hpp). Either path alone must give the equilibrium.
+  const auto int_model = anneal_support::square_lattice<std::int32_t>(32, -1);
+  for (const double hazard_below : {0.0, 2.0}) {
+    for (const double T : {1.5, 2.0, 3.0}) {
+      for (const SiteOrder order : {SiteOrder::sequential, SiteOrder::random}) {
+        CAPTURE(hazard_below);
+        CAPTURE(T);
+        CAPTURE(static_cast<int>(order));
+        const Samples s = sample(int_model, T, Acceptance::metropolis, order, 1000, 12000, 61, hazard_below);
+        CAPTURE(s.u.mean);
+        CAPTURE(s.u.error);
+        CHECK(std::abs(s.u.mean - onsager_u(T)) <= 4 * s.u.error);
+        if (T <= 2.0) {
+          CAPTURE(s.abs_m.mean);
+          CAPTURE(s.abs_m.error);
+          CHECK(std::abs(s.abs_m.mean - yang_m(T)) <= 4 * s.abs_m.error);
+        }
+      }
+    }
+  }
+}
+
 TEST_CASE("heat-bath on the 32x32 periodic ferromagnet reproduces Onsager's energy") {
   const auto int_model = anneal_support::square_lattice<std::int32_t>(32, -1);
   const auto dbl_model = anneal_support::square_lattice<double>(32, -1.0);
@@ -174,8 +202,13 @@ TEST_CASE("the 1D ring reproduces its transfer-matrix energy") {
   }
   // Integer couplings (h = 0 only: the field 0.5 is not an integer).
   const auto ri = anneal_support::ring<std::int32_t>(10, -1);
-  const Samples s = sample(ri, 1.0, Acceptance::metropolis, SiteOrder::random, 1000, 200000, 32);
-  CHECK(std::abs(s.u.mean - (-0.795566108943)) <= 4 * s.u.error);
+  for (const double hazard_below : {0.0, 2.0}) {
+    CAPTURE(hazard_below);
+    const Samples s = sample(ri, 1.0, Acceptance::metropolis, SiteOrder::random, 1000, 200000, 32, hazard_below);
+    CAPTURE(s.u.mean);
+    CAPTURE(s.u.error);
+    CHECK(std::abs(s.u.mean - (-0.795566108943)) <= 4 * s.u.error);
+  }
 }
 
 TEST_CASE("the 4x4 periodic lattice matches full enumeration of its partition function") {
@@ -197,13 +230,16 @@ TEST_CASE("the 4x4 periodic lattice matches full enumeration of its partition fu
   };
   CHECK(exact_u(2.269) == doctest::Approx(-1.56576893133).epsilon(1e-10));
   CHECK(exact_u(2.5) == doctest::Approx(-1.37911648226).epsilon(1e-10));
-  for (const double T : {2.269, 2.5, 5.0}) {
+  for (const double T : {1.5, 2.269, 2.5, 5.0}) {
     CAPTURE(T);
     const double u = exact_u(T);
-    const Samples a = sample(model, T, Acceptance::metropolis, SiteOrder::sequential, 1000, 300000, 41);
-    CAPTURE(a.u.mean);
-    CAPTURE(a.u.error);
-    CHECK(std::abs(a.u.mean - u) <= 4 * a.u.error);
+    for (const double hazard_below : {0.0, 2.0}) {
+      CAPTURE(hazard_below);
+      const Samples a = sample(model, T, Acceptance::metropolis, SiteOrder::sequential, 1000, 300000, 41, hazard_below);
+      CAPTURE(a.u.mean);
+      CAPTURE(a.u.error);
+      CHECK(std::abs(a.u.mean - u) <= 4 * a.u.error);
+    }
     const Samples b = sample(model, T, Acceptance::heat_bath, SiteOrder::random, 1000, 300000, 42);
     CAPTURE(b.u.mean);
     CAPTURE(b.u.error);

@@ -6,6 +6,11 @@
 // One sweep makes move.moves_per_sweep(state) attempts at one beta; sweep k of a schedule of
 // S sweeps uses beta(k / (S - 1)); sweeps past the end stay at the final beta.
 //
+// Acceptance (kernels/schedule.hpp): integer models use threshold tables; with Metropolis and
+// the built-in SingleFlip, cold sweeps take the hazard path (AnnealParams::hazard_below), which
+// replaces the uniform draw of each rejected uphill attempt by one addition. Same chain, other
+// random stream: a run is still fully determined by its seed.
+//
 // Best state: checked at the end of every sweep; the spins are copied only when the energy
 // at a sweep end is lower than the best so far (O(n) per improvement, nothing otherwise).
 // A lower energy seen only in the middle of a sweep is not kept; polish the result with
@@ -48,6 +53,13 @@ struct AnnealParams {
   const std::int8_t* initial = nullptr;  // warm start (n spins, +1/-1); random spins otherwise
   std::uint64_t progress_every = 0;      // observers' on_progress period in sweeps (0: never)
   std::size_t table_limit = 4096;        // entries of the integer acceptance table
+  // Integer models, Metropolis, the built-in SingleFlip: a sweep takes the hazard path
+  // (kernels/schedule.hpp: one exponential draw per accepted uphill flip instead of one
+  // uniform per uphill attempt) when the previous sweep accepted less than this fraction of
+  // its attempts; the first sweep after a (re)start takes the uniform path. Both paths are
+  // exact Metropolis; the choice changes speed and the random stream, never the
+  // distribution. 0 disables the hazard path; any value above 1 uses it from the second sweep.
+  double hazard_below = 0.125;
 };
 
 template <class Model, class Move = SingleFlip<Model>>
@@ -74,7 +86,7 @@ class Annealer {
         params_(params),
         state_(model),
         move_(std::move(move)),
-        acceptor_(make_acceptor(model, params.acceptance, params.table_limit)),
+        acceptor_(make_acceptor(model, params.acceptance, params.table_limit, uses_hazard(params))),
         best_spins_(model.num_spins(), 1) {
     init(seed, restart);
   }
@@ -91,7 +103,7 @@ class Annealer {
         params_(params),
         state_(model, arena),
         move_(std::move(move)),
-        acceptor_(make_acceptor(model, params.acceptance, params.table_limit, arena)),
+        acceptor_(make_acceptor(model, params.acceptance, params.table_limit, arena, uses_hazard(params))),
         best_spins_(model.num_spins(), arena, 1) {
     if (valid()) init(seed, restart);
   }
@@ -99,7 +111,7 @@ class Annealer {
   /// Arena bytes the arena constructors need (the move's own storage not included).
   static std::size_t bytes_needed(const Model& model, const AnnealParams& params) {
     return state_type::bytes_needed(model.num_spins()) + arena_bytes<std::int8_t>(model.num_spins()) +
-           acceptor_bytes(model, params.table_limit);
+           acceptor_bytes(model, params.acceptance, params.table_limit, uses_hazard(params));
   }
 
   bool valid() const noexcept { return state_.valid() && acceptor_.valid() && best_spins_.valid(); }
@@ -221,6 +233,12 @@ class Annealer {
     }
   }
 
+  // The hazard path applies to the built-in move on integer models with Metropolis acceptance.
+  static constexpr bool hazard_capable = std::is_same_v<Move, SingleFlip<Model>> && Acceptor<energy_type>::has_hazard_path;
+  static bool uses_hazard(const AnnealParams& params) noexcept {
+    return hazard_capable && params.acceptance == Acceptance::metropolis && params.hazard_below > 0;
+  }
+
   static Move default_move(const AnnealParams& params) {
     if constexpr (std::is_constructible_v<Move, SiteOrder>) {
       return Move(params.order);
@@ -238,6 +256,7 @@ class Annealer {
     best_energy_ = state_.energy();
     best_sweep_ = 0;
     sweeps_ = attempted_ = accepted_ = 0;
+    last_rate_ = 1;
     prime_beta();
   }
 
@@ -261,6 +280,7 @@ class Annealer {
     rng_ = rng;
     attempted_ += m;
     accepted_ += accepted;
+    last_rate_ = m != 0 ? static_cast<double>(accepted) / static_cast<double>(m) : 1.0;
     ++sweeps_;
     if (state_.energy() < best_energy_) {
       std::memcpy(best_spins_.data(), state_.spins(), best_spins_.size());
@@ -271,13 +291,25 @@ class Annealer {
     return false;
   }
 
+  // `stream` is copied into a local for the sweep: a generator reached through a reference
+  // lives in memory, and every draw would then store and reload its state (a chain through
+  // store forwarding that doubled the cost of a rejected attempt).
   template <Acceptance Rule>
-  std::uint64_t sweep_moves(Xoshiro256& rng, std::size_t m) {
-    const auto acceptor = acceptor_.template fixed<Rule>();
+  std::uint64_t sweep_moves(Xoshiro256& stream, std::size_t m) {
+    Xoshiro256 rng = stream;
     std::uint64_t accepted = 0;
+    if constexpr (hazard_capable && Rule == Acceptance::metropolis) {
+      if (last_rate_ < params_.hazard_below && acceptor_.has_hazard()) {
+        accepted = hazard_sweep(rng, m);
+        stream = rng;
+        return accepted;
+      }
+    }
+    const auto acceptor = acceptor_.template fixed<Rule>();
     if constexpr (std::is_same_v<Move, SingleFlip<Model>>) {
       // The built-in move, inlined by hand: spins and fields through local pointers, the site
-      // order fixed outside the loop. Same proposals and RNG use as the generic path below.
+      // order fixed outside the loop. Same proposals and RNG use as the generic path below
+      // (the hazard path above is the built-in move's own).
       const std::int8_t* spins = state_.spins();
       const energy_type* fields = state_.local_fields();
       const auto n = static_cast<std::uint32_t>(m);
@@ -326,6 +358,67 @@ class Annealer {
         }
       }
     }
+    stream = rng;
+    return accepted;
+  }
+
+  // The hazard path (kernels/schedule.hpp) of the built-in move on integer Metropolis: a
+  // rejection costs one table load, one subtraction and one comparison; an accepted uphill
+  // flip draws the next exponential. The generator is copied into a local, as in sweep_moves.
+  std::uint64_t hazard_sweep(Xoshiro256& stream, std::size_t m) {
+    Xoshiro256 rng = stream;
+    acceptor_.prepare_hazard();
+    const auto hazard = acceptor_.hazard();
+    const std::int8_t* spins = state_.spins();
+    const energy_type* fields = state_.local_fields();
+    const auto n = static_cast<std::uint32_t>(m);
+    std::uint64_t accepted = 0;
+    std::uint64_t left = hazard.draw(rng);  // hazard left before the next uphill acceptance
+    auto delta_at = [spins, fields](std::uint32_t i) -> energy_type {
+      if constexpr (Model::form == Form::ising) {
+        return -2 * spins[i] * fields[i];
+      } else {
+        return spins[i] * fields[i];
+      }
+    };
+    if (move_.order() == SiteOrder::sequential) {
+      std::uint32_t i = 0;
+      for (;;) {
+        energy_type d{};
+        bool spent = false;
+        for (; i < n; ++i) {
+          d = delta_at(i);
+          if (d <= 0) break;
+          const std::uint64_t h = hazard.of(d);
+          if (h >= left) {
+            spent = true;
+            break;
+          }
+          left -= h;
+        }
+        if (i >= n) break;
+        state_.flip_with_delta(static_cast<typename Model::index_type>(i), d);
+        ++accepted;
+        ++i;
+        if (spent) left = hazard.draw(rng);
+      }
+    } else {
+      for (std::uint32_t k = 0; k < n; ++k) {
+        const std::uint32_t i = rng.below(n);
+        const energy_type d = delta_at(i);
+        if (d > 0) {
+          const std::uint64_t h = hazard.of(d);
+          if (h < left) {
+            left -= h;
+            continue;
+          }
+          left = hazard.draw(rng);
+        }
+        state_.flip_with_delta(static_cast<typename Model::index_type>(i), d);
+        ++accepted;
+      }
+    }
+    stream = rng;
     return accepted;
   }
 
@@ -345,6 +438,7 @@ class Annealer {
   std::uint64_t accepted_ = 0;
   std::uint64_t schedule_sweeps_ = 0;
   std::uint64_t restart_ = 0;
+  double last_rate_ = 1;  // accepted / attempted in the previous sweep (hazard path choice)
 };
 
 #if !SPINWRIGHT_NO_HEAP

@@ -15,6 +15,16 @@
 //    a margin that keeps each decision identical to the exact comparison. When |beta * delta| exceeds 53 ln 2 the outcome is decided
 //    without a draw: no u of 53 bits could change it (u >= 2^-53). The decision to draw
 //    depends only on (beta, delta), so a seed fully determines a run.
+//  * integer Metropolis, cold sweeps (the hazard path, used by Annealer): one exponential
+//    draw E = -ln(u) serves a whole run of rejections. Attempt t with uphill delta d_t has
+//    hazard h_t = -ln(1 - p_t), p_t = exp(-beta d_t); the first attempt at which the summed
+//    hazards since the last draw reach E is accepted, and E is drawn afresh. Because the
+//    exponential distribution is memoryless, each attempt is accepted with probability
+//    exactly 1 - exp(-h_t) = p_t given everything before it: the same Markov chain as one
+//    uniform per attempt, at one integer addition and comparison per rejection instead of a
+//    64-bit draw. Hazards are 2^52-scaled integers (hazard_scale), filled per beta only
+//    when a cold sweep asks for them (prepare_hazard); downhill and zero deltas are
+//    accepted without touching E.
 #ifndef SPINWRIGHT_KERNELS_SCHEDULE_HPP
 #define SPINWRIGHT_KERNELS_SCHEDULE_HPP
 
@@ -194,6 +204,10 @@ std::uint64_t max_flip_delta(const Model& model) {
 // 53 ln 2: beyond this |beta * delta| no 53-bit uniform can change an acceptance decision.
 inline constexpr double acceptance_cutoff = 36.736800569677101;
 
+// Fixed-point scale of the hazard path's integers (see the header comment): 2^52, so the
+// largest exponential draw (-ln 2^-53 = 36.7) stays below 2^58.
+inline constexpr double hazard_scale = 4503599627370496.0;
+
 // Decides acceptance of a move with energy change `delta` at the current beta.
 // Construct once per kernel (the table is allocated then); set_beta() allocates nothing.
 template <class Energy>
@@ -207,13 +221,29 @@ class Acceptor {
 
 #if !SPINWRIGHT_NO_HEAP
   // `shift` and `max_delta` from the model (see make_acceptor); table_limit bounds the table.
-  Acceptor(Acceptance rule, unsigned shift, std::uint64_t max_delta, std::size_t table_limit = default_table_limit)
-      : rule_(rule), shift_(shift), table_(table_entries(shift, max_delta, table_limit), 0) {}
+  // `hazard`: also allocate the hazard table (integer Metropolis only; see prepare_hazard).
+  Acceptor(Acceptance rule, unsigned shift, std::uint64_t max_delta, std::size_t table_limit = default_table_limit,
+           bool hazard = false)
+      : rule_(rule),
+        shift_(shift),
+        table_(table_entries(shift, max_delta, table_limit), 0),
+        hazard_(hazard_entries(rule, hazard, table_.size()), 0) {}
 #endif
 
   // The same with the table carved from an arena; check valid().
-  Acceptor(Acceptance rule, unsigned shift, std::uint64_t max_delta, std::size_t table_limit, Arena& arena)
-      : rule_(rule), shift_(shift), table_(table_entries(shift, max_delta, table_limit), arena, 0) {}
+  Acceptor(Acceptance rule, unsigned shift, std::uint64_t max_delta, std::size_t table_limit, Arena& arena,
+           bool hazard = false)
+      : rule_(rule),
+        shift_(shift),
+        table_(table_entries(shift, max_delta, table_limit), arena, 0),
+        hazard_(hazard_entries(rule, hazard, table_.size()), arena, 0) {}
+
+  // Arena bytes of the tables.
+  static std::size_t bytes_needed(Acceptance rule, unsigned shift, std::uint64_t max_delta, std::size_t table_limit,
+                                  bool hazard = false) noexcept {
+    const std::size_t entries = table_entries(shift, max_delta, table_limit);
+    return arena_bytes<std::uint64_t>(entries) + arena_bytes<std::uint64_t>(hazard_entries(rule, hazard, entries));
+  }
 
   // Entries of the threshold table (0 for floating models).
   static std::size_t table_entries(unsigned shift, std::uint64_t max_delta, std::size_t table_limit) noexcept {
@@ -227,7 +257,10 @@ class Acceptor {
     }
   }
 
-  bool valid() const noexcept { return table_.valid(); }
+  bool valid() const noexcept { return table_.valid() && hazard_.valid(); }
+
+  // True when the hazard table was requested and applies (integer Metropolis).
+  bool has_hazard() const noexcept { return hazard_.size() != 0; }
 
   // Follow a model whose coefficients were edited in place: the table is indexed by
   // |delta| >> shift, so a shift larger than the new common power of two would merge unequal
@@ -253,6 +286,7 @@ class Acceptor {
   void set_beta(double beta) noexcept {
     SPINWRIGHT_ASSERT(beta >= 0 && beta - beta == 0, "beta must be finite and >= 0");
     beta_ = beta;
+    hazard_ready_ = false;
     if constexpr (integer) {
       const double step = static_cast<double>(std::uint64_t{1} << shift_);
       const double p = std::exp(-beta * step);  // acceptance ratio of one table step
@@ -289,7 +323,7 @@ class Acceptor {
           const auto k = static_cast<std::uint64_t>(delta) >> shift;
           if (k < used) return (rng.next() >> 11) < table[k];
           if (!overflow) return false;
-          return accept_by_log<Rule>(beta, static_cast<double>(delta), rng);
+          return accept_rare<Rule>(beta, static_cast<double>(delta), rng);
         } else {
           if (delta == 0) return rng.coin();
           const std::uint64_t k = (delta < 0 ? std::uint64_t{0} - static_cast<std::uint64_t>(delta)
@@ -299,17 +333,80 @@ class Acceptor {
             return delta > 0 ? u < table[k] : u >= table[k];
           }
           if (!overflow) return delta < 0;
-          return accept_by_log<Rule>(beta, static_cast<double>(delta), rng);
+          return accept_rare<Rule>(beta, static_cast<double>(delta), rng);
         }
       } else {
         return accept_by_log<Rule>(beta, static_cast<double>(delta), rng);
       }
+    }
+
+   private:
+    // The integer table's rare fall-back works on a copy of the generator, so a kernel's own
+    // generator never has its address taken by an out-of-line call and stays in registers
+    // (taking it would put the whole stream through memory at every draw of the hot loop).
+    template <Acceptance R>
+    static bool accept_rare(double beta, double delta, Xoshiro256& rng) noexcept {
+      Xoshiro256 copy = rng;
+      const bool accepted = accept_by_log<R>(beta, delta, copy);
+      rng = copy;
+      return accepted;
     }
   };
 
   template <Acceptance Rule>
   Fixed<Rule> fixed() const noexcept {
     return {table_.data(), used_, shift_, overflow_, beta_};
+  }
+
+  // The hazard path (integer Metropolis; see the header comment). A copy for one sweep,
+  // valid until the next set_beta(); call prepare_hazard() first.
+  struct Hazard {
+    const std::uint64_t* table;  // 2^52 * -ln(1 - p), indexed by delta >> shift
+    std::uint64_t size;
+    unsigned shift;
+    bool overflow;
+    double beta;
+
+    // Scaled hazard of an uphill delta (> 0).
+    std::uint64_t of(Energy delta) const noexcept {
+      const std::uint64_t k = static_cast<std::uint64_t>(delta) >> shift;
+      if (k < size) return table[k];
+      return overflow ? hazard_beyond(beta, static_cast<double>(delta)) : 0;
+    }
+
+    // A fresh exponential draw, scaled; at least 1, so 0 can mark "spent".
+    static std::uint64_t draw(Xoshiro256& rng) noexcept {
+      const double e = -std::log(rng.uniform_open_zero()) * hazard_scale;
+      const auto scaled = static_cast<std::uint64_t>(e);
+      return scaled == 0 ? 1 : scaled;
+    }
+  };
+
+  static constexpr bool has_hazard_path = integer;
+
+  // Fills the hazard table for the current beta when it is stale: O(entries with a non-zero
+  // threshold), one log1p each where p > 1e-4 and a series below. No allocation.
+  void prepare_hazard() noexcept {
+    if constexpr (integer) {
+      SPINWRIGHT_ASSERT(has_hazard(), "the hazard path needs an Acceptor built with hazard = true, Metropolis");
+      if (hazard_ready_) return;
+      const std::size_t size = hazard_.size();
+      const double p = std::exp(-beta_ * static_cast<double>(std::uint64_t{1} << shift_));
+      double pk = 1;
+      hazard_[0] = ~std::uint64_t{0};  // delta 0 is accepted before any lookup
+      std::size_t k = 1;
+      for (; k < used_ && k < size; ++k) {
+        pk *= p;
+        hazard_[k] = static_cast<std::uint64_t>(hazard_of_probability(pk) * hazard_scale);
+      }
+      for (; k < size && hazard_[k] != 0; ++k) hazard_[k] = 0;
+      hazard_ready_ = true;
+    }
+  }
+
+  Hazard hazard() const noexcept {
+    SPINWRIGHT_ASSERT(hazard_ready_, "prepare_hazard() before hazard()");
+    return {hazard_.data(), hazard_.size(), shift_, overflow_, beta_};
   }
 
   bool accept(Energy delta, Xoshiro256& rng) const noexcept {
@@ -319,6 +416,24 @@ class Acceptor {
 
  private:
   static constexpr double two53 = 9007199254740992.0;
+
+  static std::size_t hazard_entries(Acceptance rule, bool hazard, std::size_t entries) noexcept {
+    return integer && hazard && rule == Acceptance::metropolis ? entries : 0;
+  }
+
+  // -ln(1 - p) for p in (0, 1): the series p + p^2/2 + p^3/3 + p^4/4 where its remainder is
+  // below 2^-53 relative (p < 1e-4), log1p otherwise.
+  static double hazard_of_probability(double p) noexcept {
+    if (p < 1e-4) return p * (1 + p * (0.5 + p * (1.0 / 3 + p * 0.25)));
+    return -std::log1p(-p);
+  }
+
+  // Deltas beyond a table that was too short for this beta.
+  static std::uint64_t hazard_beyond(double beta, double delta) noexcept {
+    const double x = beta * delta;
+    if (x > acceptance_cutoff) return 0;
+    return static_cast<std::uint64_t>(hazard_of_probability(std::exp(-x)) * hazard_scale);
+  }
 
   // exp(x) >= 1 + x + x^2/2 + x^3/6 for x >= 0, so u * that > 1 proves u > exp(-x). The
   // margin keeps every shortcut decision identical to the exact comparison despite rounding.
@@ -351,42 +466,46 @@ class Acceptor {
   unsigned shift_ = 0;
   double beta_ = 0;
   detail::Buffer<std::uint64_t> table_;  // integer models: 2^53 * acceptance of delta = k << shift
+  detail::Buffer<std::uint64_t> hazard_;  // integer Metropolis: 2^52 * -ln(1 - acceptance), on demand
   std::size_t used_ = 0;              // entries [0, used_) are non-zero
   bool overflow_ = false;             // the table was too short for this beta
+  bool hazard_ready_ = false;         // hazard_ matches beta_
 };
 
 #if !SPINWRIGHT_NO_HEAP
-// The acceptor suited to a model (integer models get the threshold table).
+// The acceptor suited to a model (integer models get the threshold table; `hazard` adds the
+// hazard table for integer Metropolis).
 template <class Model>
 Acceptor<typename Model::energy_type> make_acceptor(const Model& model, Acceptance rule,
-                                                    std::size_t table_limit = Acceptor<typename Model::energy_type>::default_table_limit) {
+                                                    std::size_t table_limit = Acceptor<typename Model::energy_type>::default_table_limit,
+                                                    bool hazard = false) {
   using energy_type = typename Model::energy_type;
   if constexpr (std::is_integral_v<energy_type>) {
-    return Acceptor<energy_type>(rule, detail::delta_shift(model), detail::max_flip_delta(model), table_limit);
+    return Acceptor<energy_type>(rule, detail::delta_shift(model), detail::max_flip_delta(model), table_limit, hazard);
   } else {
     return Acceptor<energy_type>(rule, 0, 0, table_limit);
   }
 }
 #endif
 
-// The same with the table carved from an arena; check valid().
+// The same with the tables carved from an arena; check valid().
 template <class Model>
-Acceptor<typename Model::energy_type> make_acceptor(const Model& model, Acceptance rule, std::size_t table_limit, Arena& arena) {
+Acceptor<typename Model::energy_type> make_acceptor(const Model& model, Acceptance rule, std::size_t table_limit, Arena& arena,
+                                                    bool hazard = false) {
   using energy_type = typename Model::energy_type;
   if constexpr (std::is_integral_v<energy_type>) {
-    return Acceptor<energy_type>(rule, detail::delta_shift(model), detail::max_flip_delta(model), table_limit, arena);
+    return Acceptor<energy_type>(rule, detail::delta_shift(model), detail::max_flip_delta(model), table_limit, arena, hazard);
   } else {
     return Acceptor<energy_type>(rule, 0, 0, table_limit, arena);
   }
 }
 
-// Arena bytes the acceptance table of a model needs.
+// Arena bytes the acceptance tables of a model need.
 template <class Model>
-std::size_t acceptor_bytes(const Model& model, std::size_t table_limit) {
+std::size_t acceptor_bytes(const Model& model, Acceptance rule, std::size_t table_limit, bool hazard = false) {
   using energy_type = typename Model::energy_type;
   if constexpr (std::is_integral_v<energy_type>) {
-    return arena_bytes<std::uint64_t>(
-        Acceptor<energy_type>::table_entries(detail::delta_shift(model), detail::max_flip_delta(model), table_limit));
+    return Acceptor<energy_type>::bytes_needed(rule, detail::delta_shift(model), detail::max_flip_delta(model), table_limit, hazard);
   } else {
     return 0;
   }
