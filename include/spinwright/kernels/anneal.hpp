@@ -30,6 +30,7 @@
 #include "../moves/single_flip.hpp"
 #include "../rng/xoshiro.hpp"
 #include "../state/spin_state.hpp"
+#include "hazard_sweep.hpp"
 #include "schedule.hpp"
 #include "solution.hpp"
 
@@ -300,7 +301,7 @@ class Annealer {
     std::uint64_t accepted = 0;
     if constexpr (hazard_capable && Rule == Acceptance::metropolis) {
       if (last_rate_ < params_.hazard_below && acceptor_.has_hazard()) {
-        accepted = hazard_sweep(rng, m);
+        accepted = detail::hazard_sweep(state_, acceptor_, move_.order(), rng);
         stream = rng;
         return accepted;
       }
@@ -356,66 +357,6 @@ class Annealer {
           move_.apply(state_, p, d);
           ++accepted;
         }
-      }
-    }
-    stream = rng;
-    return accepted;
-  }
-
-  // The hazard path (kernels/schedule.hpp) of the built-in move on integer Metropolis: a
-  // rejection costs one table load, one subtraction and one comparison; an accepted uphill
-  // flip draws the next exponential. The generator is copied into a local, as in sweep_moves.
-  std::uint64_t hazard_sweep(Xoshiro256& stream, std::size_t m) {
-    Xoshiro256 rng = stream;
-    acceptor_.prepare_hazard();
-    const auto hazard = acceptor_.hazard();
-    const std::int8_t* spins = state_.spins();
-    const energy_type* fields = state_.local_fields();
-    const auto n = static_cast<std::uint32_t>(m);
-    std::uint64_t accepted = 0;
-    std::uint64_t left = hazard.draw(rng);  // hazard left before the next uphill acceptance
-    auto delta_at = [spins, fields](std::uint32_t i) -> energy_type {
-      if constexpr (Model::form == Form::ising) {
-        return -2 * spins[i] * fields[i];
-      } else {
-        return spins[i] * fields[i];
-      }
-    };
-    if (move_.order() == SiteOrder::sequential) {
-      std::uint32_t i = 0;
-      for (;;) {
-        energy_type d{};
-        bool spent = false;
-        for (; i < n; ++i) {
-          d = delta_at(i);
-          if (d <= 0) break;
-          const std::uint64_t h = hazard.of(d);
-          if (h >= left) {
-            spent = true;
-            break;
-          }
-          left -= h;
-        }
-        if (i >= n) break;
-        state_.flip_with_delta(static_cast<typename Model::index_type>(i), d);
-        ++accepted;
-        ++i;
-        if (spent) left = hazard.draw(rng);
-      }
-    } else {
-      for (std::uint32_t k = 0; k < n; ++k) {
-        const std::uint32_t i = rng.below(n);
-        const energy_type d = delta_at(i);
-        if (d > 0) {
-          const std::uint64_t h = hazard.of(d);
-          if (h < left) {
-            left -= h;
-            continue;
-          }
-          left = hazard.draw(rng);
-        }
-        state_.flip_with_delta(static_cast<typename Model::index_type>(i), d);
-        ++accepted;
       }
     }
     stream = rng;

@@ -41,6 +41,7 @@
 #include "../rng/xoshiro.hpp"
 #include "../state/spin_state.hpp"
 #include "../moves/single_flip.hpp"  // SiteOrder
+#include "hazard_sweep.hpp"
 #include "schedule.hpp"
 #include "solution.hpp"
 
@@ -79,6 +80,10 @@ struct TemperParams {
   const std::int8_t* initial = nullptr;   // warm start for every replica (n spins); random otherwise
   std::uint64_t progress_every = 0;       // observers' on_progress period in sweeps (0: never)
   std::size_t table_limit = 4096;         // entries of each integer acceptance table
+  // Integer models: a replica's sweep takes the hazard path (kernels/hazard_sweep.hpp) when
+  // its previous sweep accepted less than this fraction of its attempts, as in annealing
+  // (AnnealParams::hazard_below); 0 disables it.
+  double hazard_below = 0.125;
 };
 
 /// The result of one tempering run: the best state (as every kernel's Solution) plus the
@@ -133,11 +138,12 @@ class Tempering {
     for (std::size_t r = 0; r < temps_ * sets_; ++r) replicas_.emplace_back(model);
     acceptors_.reserve(temps_);
     for (std::size_t k = 0; k < temps_; ++k) {
-      acceptors_.push_back(make_acceptor(model, Acceptance::metropolis, params.table_limit));
+      acceptors_.push_back(make_acceptor(model, Acceptance::metropolis, params.table_limit, params.hazard_below > 0));
       acceptors_.back().set_beta(betas_[k]);
     }
     swap_tried_.assign(temps_ - 1, 0);
     swap_done_.assign(temps_ - 1, 0);
+    rates_.assign(temps_ * sets_, 1.0);
     moments_.assign(3 * temps_, 0.0);
     sigma_.assign(temps_, 0.0);
     cumulative_.assign(temps_, 0.0);
@@ -260,6 +266,7 @@ class Tempering {
       for (std::size_t k = 0; k < temps_; ++k) slot_[s * temps_ + k] = s * temps_ + k;
     for (std::size_t k = 0; k + 1 < temps_; ++k) swap_tried_[k] = swap_done_[k] = 0;
     sweeps_ = attempted_ = accepted_ = cluster_moves_ = cluster_sites_ = 0;
+    for (double& r : rates_) r = 1;
     round_sweeps_ = 0;
     for (auto& x : moments_) x = 0;
     best_energy_ = replicas_[0].energy();
@@ -273,7 +280,21 @@ class Tempering {
     }
   }
 
-  void metropolis_sweep(state_type& s, const Acceptor<energy_type>& acc, Xoshiro256& rng) {
+  // The generator is copied into a local for the sweep: reached through the reference, its
+  // state would be stored and reloaded at every draw (flips write through int8_t pointers,
+  // which may alias anything).
+  // `rate`: the accepted fraction of this replica's previous sweep, updated here.
+  void metropolis_sweep(state_type& s, Acceptor<energy_type>& acc, double& rate, Xoshiro256& stream) {
+    if constexpr (Acceptor<energy_type>::has_hazard_path) {
+      if (rate < params_.hazard_below && acc.has_hazard()) {
+        const std::uint64_t accepted = detail::hazard_sweep(s, acc, params_.order, stream);
+        attempted_ += n_;
+        accepted_ += accepted;
+        rate = n_ != 0 ? static_cast<double>(accepted) / static_cast<double>(n_) : 1.0;
+        return;
+      }
+    }
+    Xoshiro256 rng = stream;
     std::uint64_t accepted = 0;
     const bool random = params_.order == SiteOrder::random;
     const auto n32 = static_cast<std::uint32_t>(n_);
@@ -285,8 +306,10 @@ class Tempering {
         ++accepted;
       }
     }
+    stream = rng;
     attempted_ += n_;
     accepted_ += accepted;
+    rate = n_ != 0 ? static_cast<double>(accepted) / static_cast<double>(n_) : 1.0;
   }
 
   // One Houdayer move between the two replicas on rung k.
@@ -393,7 +416,10 @@ class Tempering {
   bool sweep_once() {
     Xoshiro256 rng = rng_;
     for (std::size_t s = 0; s < sets_; ++s)
-      for (std::size_t k = 0; k < temps_; ++k) metropolis_sweep(replicas_[slot_[s * temps_ + k]], acceptors_[k], rng);
+      for (std::size_t k = 0; k < temps_; ++k) {
+        const std::size_t r = slot_[s * temps_ + k];
+        metropolis_sweep(replicas_[r], acceptors_[k], rates_[r], rng);
+      }
     if (sets_ == 2) {
       for (std::size_t k = 0; k < temps_; ++k) {
         if (params_.houdayer_beta_max == 0 || betas_[k] <= params_.houdayer_beta_max) cluster_move(k, rng);
@@ -428,6 +454,7 @@ class Tempering {
   std::vector<double> betas_;
   std::vector<state_type> replicas_;
   std::vector<Acceptor<energy_type>> acceptors_;
+  std::vector<double> rates_;      // per replica: accepted fraction of its previous sweep
   std::vector<std::size_t> slot_;  // slot_[set * T + k]: the replica on rung k of that set
   std::vector<std::uint64_t> swap_tried_;
   std::vector<std::uint64_t> swap_done_;
