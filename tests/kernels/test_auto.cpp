@@ -132,6 +132,11 @@ TEST_CASE("time-filling annealing: uses the time, stops by the deadline, keeps t
   CHECK_FALSE(auto_fills_time(Budget{}));
   CHECK_FALSE(auto_fills_time(Budget{}.with_time_limit(1.0, Clock{&tick, nullptr}).with_sweeps(10)));
 
+  // The documented acceptance rule: Metropolis here (every spin has several partners), heat-bath
+  // on a ring (every spin has degree 2).
+  CHECK(auto_fill_acceptance(m) == Acceptance::metropolis);
+  CHECK(auto_fill_acceptance(ring(101, 1)) == Acceptance::heat_bath);
+
   const double seconds = 6000;
   Ticker t;
   const auto s = solve_auto(m, 3, 0, ticking(t, seconds));
@@ -148,7 +153,7 @@ TEST_CASE("time-filling annealing: uses the time, stops by the deadline, keeps t
   AnnealParams first;
   first.sweeps = auto_fill_first_sweeps;
   first.order = SiteOrder::sequential;
-  first.acceptance = Acceptance::heat_bath;
+  first.acceptance = auto_fill_acceptance(m);
   const auto run0 = polish(m, anneal(m, first, 3, 0), DescentRule::steepest);
   CHECK(s.energy <= run0.energy);
   CHECK(s.restart == 0);
@@ -215,9 +220,9 @@ TEST_CASE("time-filling annealing honours a target and a stop token") {
   }
 }
 
-TEST_CASE("time-filling annealing: a 16 x 16 antiferromagnetic torus reaches its ground energy") {
+TEST_CASE("time-filling mode on a lattice: tempering with cluster moves, by the documented rule") {
   // An even periodic square lattice is bipartite: every bond can be satisfied, E_min = -2 N
-  // (common practice).
+  // (common practice). Every spin has degree 4, so the time-filling mode tempers it.
   IsingBuilder<std::int32_t> b(256);
   for (std::uint32_t r = 0; r < 16; ++r)
     for (std::uint32_t c = 0; c < 16; ++c) {
@@ -225,9 +230,39 @@ TEST_CASE("time-filling annealing: a 16 x 16 antiferromagnetic torus reaches its
       b.add_coupling(r * 16 + c, ((r + 1) % 16) * 16 + c, 1);
     }
   const auto m = b.build().value();
-  Ticker t;
-  const auto s = solve_auto(m, 2, 0, ticking(t, 20000));
-  CHECK(s.energy == -512);
+  CHECK(choose_kernel(m).kernel == KernelKind::anneal);
+  CHECK(auto_fill_kernel(m) == KernelKind::temper);
+  CHECK(auto_fill_kernel(ring(101, 1)) == KernelKind::anneal);   // degree 2
+  CHECK(auto_fill_kernel(sparse_glass(300, 5)) == KernelKind::anneal);  // degrees spread beyond 6
+  {
+    Ticker t;
+    const auto s = solve_auto(m, 2, 0, ticking(t, 1500));
+    CHECK(s.reason == StopReason::deadline);
+    CHECK(s.seconds <= 1500 + 8);
+    CHECK(s.sweeps >= 1000);  // about one clock read per sweep of the whole ladder
+    CHECK(s.energy == m.energy(s.spins.data()));
+    CHECK(s.energy == -512);
+    Ticker u;
+    const auto again = solve_auto(m, 2, 0, ticking(u, 1500));
+    CHECK(again.spins == s.spins);
+    CHECK(again.sweeps == s.sweeps);
+  }
+  {
+    Ticker t;
+    const auto s = solve_auto(m, 3, 0, ticking(t, 1e6).with_target(-512));
+    CHECK(s.reason == StopReason::target_reached);
+    CHECK(s.energy == -512);
+  }
+  {
+    StopToken token;
+    Ticker t;
+    t.token = &token;
+    t.stop_at = 100;
+    const auto s = solve_auto(m, 4, 0, ticking(t, 1e6).with_stop(token));
+    CHECK(s.reason == StopReason::stopped);
+    CHECK(s.sweeps < 110);
+    CHECK(s.energy == m.energy(s.spins.data()));
+  }
 }
 
 TEST_CASE("a sweep budget keeps the fixed mode, even with a clock") {

@@ -14,31 +14,40 @@
 //   * Fixed (no time limit, or a Budget with sweeps != 0): one run of the chosen kernel with the
 //     sweeps above (or the Budget's); a deadline only cuts that run short.
 //   * Time-filling (the Budget has a valid clock, a finite `seconds` and sweeps == 0): the whole
-//     time is used, by this rule:
-//       - annealing: successive anneals, each a full schedule (geometric over the automatic beta
-//         range, sequential site order, heat-bath acceptance) followed by steepest descent. The
-//         first is auto_fill_first_sweeps (256) sweeps long and calibrates the time per sweep
-//         (clock time so far / anneal sweeps so far, descents included). Each next length is
-//         auto_fill_growth (2) times the last, capped by what fits in auto_fill_margin (90 %) of
-//         the remaining time at that rate; when the run after it could not grow again, it takes
-//         all that fits. The sequence ends when fewer than auto_fill_first_sweeps sweeps fit, or
-//         at the deadline (a run the deadline cuts short is polished by first-improvement descent).
-//         Run k >= 1 draws its spins and moves from (auto_fill_seed(seed, k), restart); run 0 from
-//         (seed, restart). The best state over all runs is returned; `sweeps`, `attempted` and
-//         `accepted` add up every run and descent. Sequential order runs about twice as many
-//         sweeps per second as random order; heat-bath acceptance keeps it ergodic where
-//         zero-delta flips abound (rings, lattices with +-1 couplings; see docs/moves.md).
-//         Measured on the G-set: docs/quality.md.
-//       - tabu search: one run with no sweep limit, stopped by the deadline (tabu keeps its best
-//         and restarts itself from it by perturbation).
+//     time is used, by this rule (auto_fill_kernel):
+//       - lattice-like sparse models (every spin has degree 3 to 6: square and cubic grids, with
+//         +-1 or uniform couplings): one tempering run with Houdayer cluster moves (two replica
+//         sets), the automatic number of rungs, a geometric ladder from auto_fill_hot_factor (3)
+//         times the automatic hot beta to the automatic cold beta, sequential site order; it is
+//         stopped by the deadline and its best state polished by steepest descent.
+//       - other sparse models: successive anneals, each a full schedule (geometric over the
+//         automatic beta range, sequential site order, acceptance by auto_fill_acceptance:
+//         Metropolis, or heat-bath when at least a quarter of the spins have degree <= 2)
+//         followed by steepest descent. The first is auto_fill_first_sweeps (256) sweeps long
+//         and calibrates the time per sweep (clock time so far / anneal sweeps so far, descents
+//         included). Each next length is auto_fill_growth (4) times the last, capped by what
+//         fits in auto_fill_margin (90 %) of the remaining time at that rate; when the run after
+//         it could not grow again, it takes all that fits. The sequence ends when fewer than
+//         auto_fill_first_sweeps sweeps fit, or at the deadline (a run the deadline cuts short
+//         is polished by first-improvement descent). Run k >= 1 draws its spins and moves from
+//         (auto_fill_seed(seed, k), restart); run 0 from (seed, restart). The best state over all
+//         runs is returned; `sweeps`, `attempted` and `accepted` add up every run and descent.
+//       - dense models (tabu search): one run with no sweep limit, stopped by the deadline (tabu
+//         keeps its best and restarts itself from it by perturbation).
 //       - exact enumeration: unchanged (its size limit bounds its time).
+//     Why (measured on the G-set, docs/quality.md): sequential order runs about twice the sweeps
+//     per second of random order, and longer schedules beat more restarts; on the toroidal +-1
+//     grids tempering with cluster moves beats annealing by about 0.4 % of the cut, while on
+//     random sparse graphs annealing is better. Sequential Metropolis is not ergodic on rings and
+//     chains (zero-delta flips carry domain walls along the sweep; docs/moves.md): heat-bath
+//     acceptance keeps it so there.
 // Both modes honour the Budget's stop token (checked once per sweep) and target (checked at
 // every sweep end and after every descent). A run is deterministic given (seed, restart) and,
 // in the time-filling mode, the sequence of clock readings.
 //
-// Allocation: the time-filling mode constructs one Annealer and one Descender (or one
-// TabuSearch) and reuses them for every run (plus one more Descender for a run the deadline
-// cuts short); nothing is allocated per sweep or per run.
+// Allocation: the time-filling mode constructs one Annealer and one Descender (or one Tempering,
+// or one TabuSearch) and reuses them for every run (plus one more Descender for a run the
+// deadline cuts short); nothing is allocated per sweep or per run.
 #ifndef SPINWRIGHT_KERNELS_AUTO_HPP
 #define SPINWRIGHT_KERNELS_AUTO_HPP
 
@@ -49,6 +58,7 @@
 #include "exact.hpp"
 #include "solution.hpp"
 #include "tabu.hpp"
+#include "temper.hpp"
 
 #include <cstddef>  // std::size_t
 #include <cstdint>  // std::int8_t, std::uint64_t, std::uint8_t
@@ -82,13 +92,57 @@ inline constexpr std::size_t auto_exact_max_spins = 20;
 inline constexpr double auto_dense_threshold = 0.10;
 inline constexpr std::uint64_t auto_fill_first_sweeps = 256;
 inline constexpr double auto_fill_margin = 0.9;
-inline constexpr std::uint64_t auto_fill_growth = 2;
+inline constexpr std::uint64_t auto_fill_growth = 4;
+inline constexpr double auto_fill_hot_factor = 3.0;
 
 // The seed of annealing run k of the time-filling mode (run 0 uses `seed` itself).
 inline constexpr std::uint64_t auto_fill_seed(std::uint64_t seed, std::uint64_t k) noexcept {
   if (k == 0) return seed;
   std::uint64_t state = seed ^ (k * 0xC2B2AE3D27D4EB4FULL);
   return splitmix64(state);
+}
+
+namespace detail {
+
+struct DegreeProfile {
+  std::size_t min = 0;
+  std::size_t max = 0;
+  std::size_t low = 0;  // spins of degree <= 2
+};
+
+template <class Model>
+DegreeProfile degree_profile(const Model& model) noexcept {
+  using index_type = typename Model::index_type;
+  DegreeProfile p;
+  const std::size_t n = model.num_spins();
+  for (std::size_t i = 0; i < n; ++i) {
+    const std::size_t d = model.degree(static_cast<index_type>(i));
+    if (i == 0 || d < p.min) p.min = d;
+    if (d > p.max) p.max = d;
+    p.low += d <= 2 ? 1 : 0;
+  }
+  return p;
+}
+
+}  // namespace detail
+
+// Acceptance of the time-filling anneals (sequential site order): Metropolis, unless at least a
+// quarter of the spins have degree <= 2 (rings, chains), where sequential Metropolis sweeps carry
+// domain walls along without letting them meet; heat-bath acceptance there.
+template <class Model>
+Acceptance auto_fill_acceptance(const Model& model) noexcept {
+  return 4 * detail::degree_profile(model).low >= model.num_spins() ? Acceptance::heat_bath : Acceptance::metropolis;
+}
+
+// The kernel of the time-filling mode: choose_kernel's, except that a sparse model whose every
+// spin has degree 3 to 6 (lattice-like: square and cubic grids and their +-1 variants) gets
+// tempering with Houdayer cluster moves (built for 2D spin glasses) instead of annealing.
+template <class Model>
+KernelKind auto_fill_kernel(const Model& model) noexcept {
+  const KernelKind k = choose_kernel(model).kernel;
+  if (k != KernelKind::anneal) return k;
+  const detail::DegreeProfile p = detail::degree_profile(model);
+  return p.min >= 3 && p.max <= 6 ? KernelKind::temper : KernelKind::anneal;
 }
 
 // True when solve_auto(model, seed, restart, budget) uses the time-filling mode.
@@ -116,7 +170,7 @@ template <class Model>
 Solution<typename Model::energy_type> auto_fill_anneal(const Model& model, std::uint64_t seed, std::uint64_t restart,
                                                        const Budget& budget, std::uint64_t growth = auto_fill_growth,
                                                        SiteOrder order = SiteOrder::sequential,
-                                                       Acceptance acceptance = Acceptance::heat_bath) {
+                                                       Acceptance acceptance = Acceptance::metropolis) {
   using energy_type = typename Model::energy_type;
   const Clock clock = budget.clock;
   const double t0 = clock.read();
@@ -212,6 +266,25 @@ Solution<typename Model::energy_type> auto_fill_anneal(const Model& model, std::
   return out;
 }
 
+// Time-filling tempering (see the rule at the top of this header).
+template <class Model>
+Solution<typename Model::energy_type> auto_fill_temper(const Model& model, std::uint64_t seed, std::uint64_t restart,
+                                                       const Budget& budget) {
+  using energy_type = typename Model::energy_type;
+  TemperParams params;
+  const BetaRange range = auto_beta_range(model);
+  params.ladder.beta_min = auto_fill_hot_factor * range.beta_start;
+  params.ladder.beta_max = range.beta_end;
+  if (params.ladder.beta_max < params.ladder.beta_min) params.ladder.beta_max = params.ladder.beta_min;
+  params.houdayer = true;
+  params.order = SiteOrder::sequential;
+  Budget run = budget;
+  run.sweeps = std::numeric_limits<std::uint64_t>::max();
+  Solution<energy_type> s = static_cast<Solution<energy_type>>(temper(model, params, seed, restart, run));
+  if (s.reason == StopReason::stopped) return s;
+  return polish(model, s, DescentRule::steepest);
+}
+
 }  // namespace detail
 
 // One restart of the automatically chosen kernel. Restart r depends on (seed, r) only (and, in
@@ -245,7 +318,11 @@ Solution<typename Model::energy_type> solve_auto(const Model& model, std::uint64
       return tabu_search(model, params, seed, restart, run);
     }
     default: {
-      if (fill) return detail::auto_fill_anneal(model, seed, restart, budget);
+      if (fill) {
+        if (auto_fill_kernel(model) == KernelKind::temper) return detail::auto_fill_temper(model, seed, restart, budget);
+        return detail::auto_fill_anneal(model, seed, restart, budget, auto_fill_growth, SiteOrder::sequential,
+                                        auto_fill_acceptance(model));
+      }
       AnnealParams params;
       params.sweeps = choice.sweeps;
       Solution<energy_type> annealed = anneal(model, params, seed, restart, budget);
