@@ -74,44 +74,52 @@ TEST_CASE("the hazard path: entries are -ln(1 - p), and first-passage acceptance
   // Introduction to Probability Theory and Its Applications, vol. 1, 3rd ed., 1968): with
   // E ~ Exp(1) and hazards h_t = -ln(1 - p_t), "accept at the first t where h_1 + ... + h_t
   // reaches E, then draw E afresh" accepts each attempt with probability p_t given the past.
-  for (const std::size_t limit : {std::size_t{4096}, std::size_t{4}}) {  // 4: beyond-table deltas too
-    CAPTURE(limit);
-    Acceptor<std::int64_t> acc(Acceptance::metropolis, 1, 40, limit, /*hazard*/ true);
-    for (const double beta : {0.05, 0.3, 1.0}) {
-      CAPTURE(beta);
-      acc.set_beta(beta);
-      acc.prepare_hazard();
-      const auto hz = acc.hazard();
-      for (const std::int64_t d : {2, 4, 6, 10, 20, 40}) {
-        CAPTURE(d);
-        const double p = metropolis(beta, static_cast<double>(d));
-        const double h = -std::log1p(-p);
-        // Fixed point 2^52, truncated: relative error below 1e-12 where h is not tiny.
-        const double scaled = static_cast<double>(hz.of(d)) / hazard_scale;
-        CHECK(scaled == doctest::Approx(h).epsilon(1e-12));
-        // First-passage protocol with this one delta repeated: the accepted fraction is p.
-        Xoshiro256 rng(900 + static_cast<std::uint64_t>(d));
-        std::uint64_t left = decltype(hz)::draw(rng);
-        const int trials = 200000;
-        int accepted = 0;
-        for (int t = 0; t < trials; ++t) {
-          const std::uint64_t step = hz.of(d);
-          if (step >= left) {
-            ++accepted;
-            left = decltype(hz)::draw(rng);
-          } else {
-            left -= step;
+  for (const Acceptance rule : {Acceptance::metropolis, Acceptance::heat_bath}) {
+    const bool hb = rule == Acceptance::heat_bath;
+    for (const std::size_t limit : {std::size_t{4096}, std::size_t{4}}) {  // 4: beyond-table deltas too
+      CAPTURE(hb);
+      CAPTURE(limit);
+      Acceptor<std::int64_t> acc(rule, 1, 40, limit, /*hazard*/ true);
+      for (const double beta : {0.05, 0.3, 1.0}) {
+        CAPTURE(beta);
+        acc.set_beta(beta);
+        acc.prepare_hazard();
+        const auto hz = acc.hazard();
+        auto hazard_of = [&](std::int64_t d) { return hb ? hz.of_heat_bath(d) : hz.of(d); };
+        for (const std::int64_t d : {-12, -2, 0, 2, 4, 6, 10, 20, 40}) {
+          if (!hb && d <= 0) continue;  // Metropolis accepts these before any lookup
+          CAPTURE(d);
+          const double p = hb ? heat_bath(beta, static_cast<double>(d)) : metropolis(beta, static_cast<double>(d));
+          const double h = -std::log1p(-p);
+          // Fixed point 2^52, truncated: relative error below 1e-12 where h is not tiny.
+          const double scaled = static_cast<double>(hazard_of(d)) / hazard_scale;
+          CHECK(scaled == doctest::Approx(h).epsilon(1e-12));
+          // First-passage protocol with this one delta repeated: the accepted fraction is p.
+          Xoshiro256 rng(900 + static_cast<std::uint64_t>(d + 100));
+          std::uint64_t left = decltype(hz)::draw(rng);
+          const int trials = 200000;
+          int accepted = 0;
+          for (int t = 0; t < trials; ++t) {
+            const std::uint64_t step = hazard_of(d);
+            if (step >= left) {
+              ++accepted;
+              left = decltype(hz)::draw(rng);
+            } else {
+              left -= step;
+            }
           }
+          const double rate = static_cast<double>(accepted) / trials;
+          CAPTURE(rate);
+          CHECK(std::fabs(rate - p) <= 4 * std::sqrt(p * (1 - p) / trials) + 1e-12);
         }
-        const double rate = static_cast<double>(accepted) / trials;
-        CAPTURE(rate);
-        CHECK(std::fabs(rate - p) <= 4 * std::sqrt(p * (1 - p) / trials) + 1e-12);
       }
+      // Beyond 53 ln 2 an uphill hazard is 0 (no acceptance), as the threshold table's zero
+      // entries; heat-bath's downhill hazard there exceeds every possible draw (E <= 53 ln 2).
+      acc.set_beta(5.0);
+      acc.prepare_hazard();
+      CHECK(acc.hazard().of(40) == 0);
+      if (hb) CHECK(static_cast<double>(acc.hazard().of_heat_bath(-40)) > acceptance_cutoff * hazard_scale);
     }
-    // Beyond 53 ln 2 the hazard is 0 (no acceptance), as the threshold table's zero entries.
-    acc.set_beta(5.0);
-    acc.prepare_hazard();
-    CHECK(acc.hazard().of(40) == 0);
   }
 }
 

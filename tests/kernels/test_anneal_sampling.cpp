@@ -157,6 +157,40 @@ TEST_CASE("integer Metropolis: the uniform path and the hazard path each reprodu
   }
 }
 
+TEST_CASE("a 16-spin glass with fields: every rule, order and acceptance path samples the exact Boltzmann average") {
+  // Frustrated +-1 couplings on about half the pairs and fields in [-2, 2] give deltas of many
+  // sizes and both signs (the lattices above only have 0, +-4, +-8). The reference is <E> by
+  // enumerating all 2^16 states (Boltzmann weights, as in Metropolis et al., J. Chem. Phys.
+  // 21, 1087 (1953)); 4 standard errors from 100 bins.
+  IsingBuilder<std::int32_t> b(16);
+  Xoshiro256 pick(5);
+  for (std::uint32_t i = 0; i < 16; ++i) {
+    for (std::uint32_t j = i + 1; j < 16; ++j) {
+      if (pick.coin()) b.add_coupling(i, j, pick.coin() ? 1 : -1);
+    }
+  }
+  for (std::uint32_t i = 0; i < 16; ++i) b.add_field(i, static_cast<std::int32_t>(pick.below(5)) - 2);
+  const auto model = b.build().value();
+  for (const double beta : {0.8, 1.5}) {
+    const double exact = anneal_support::exact_mean_energy(model, beta) / 16.0;
+    for (const Acceptance rule : {Acceptance::metropolis, Acceptance::heat_bath}) {
+      for (const SiteOrder order : {SiteOrder::sequential, SiteOrder::random}) {
+        for (const double hazard_below : {0.0, 2.0}) {
+          CAPTURE(beta);
+          CAPTURE(static_cast<int>(rule));
+          CAPTURE(static_cast<int>(order));
+          CAPTURE(hazard_below);
+          const Samples s = sample(model, 1.0 / beta, rule, order, 1000, 60000, 81, hazard_below);
+          CAPTURE(s.u.mean);
+          CAPTURE(s.u.error);
+          CAPTURE(exact);
+          CHECK(std::abs(s.u.mean - exact) <= 4 * s.u.error);
+        }
+      }
+    }
+  }
+}
+
 TEST_CASE("heat-bath on the 32x32 periodic ferromagnet reproduces Onsager's energy") {
   const auto int_model = anneal_support::square_lattice<std::int32_t>(32, -1);
   const auto dbl_model = anneal_support::square_lattice<double>(32, -1.0);
@@ -167,8 +201,13 @@ TEST_CASE("heat-bath on the 32x32 periodic ferromagnet reproduces Onsager's ener
     const Samples b = sample(dbl_model, T, Acceptance::heat_bath, SiteOrder::random, 2000, 30000, 22);
     CHECK(std::abs(b.u.mean - onsager_u(T)) <= 4 * b.u.error);
   }
-  const Samples m = sample(int_model, 2.0, Acceptance::heat_bath, SiteOrder::sequential, 2000, 30000, 23);
-  CHECK(std::abs(m.abs_m.mean - yang_m(2.0)) <= 4 * m.abs_m.error);
+  // Integer heat-bath with each acceptance path forced (kernels/schedule.hpp).
+  for (const double hazard_below : {0.0, 2.0}) {
+    CAPTURE(hazard_below);
+    const Samples m = sample(int_model, 2.0, Acceptance::heat_bath, SiteOrder::sequential, 2000, 30000, 23, hazard_below);
+    CHECK(std::abs(m.u.mean - onsager_u(2.0)) <= 4 * m.u.error);
+    CHECK(std::abs(m.abs_m.mean - yang_m(2.0)) <= 4 * m.abs_m.error);
+  }
 }
 
 TEST_CASE("the 1D ring reproduces its transfer-matrix energy") {
@@ -229,9 +268,16 @@ TEST_CASE("the 4x4 periodic lattice matches full enumeration of its partition fu
       CAPTURE(a.u.error);
       CHECK(std::abs(a.u.mean - u) <= 4 * a.u.error);
     }
-    const Samples b = sample(model, T, Acceptance::heat_bath, SiteOrder::random, 1000, 300000, 42);
-    CAPTURE(b.u.mean);
-    CAPTURE(b.u.error);
-    CHECK(std::abs(b.u.mean - u) <= 4 * b.u.error);
+    for (const double hazard_below : {0.0, 2.0}) {
+      CAPTURE(hazard_below);
+      const Samples b = sample(model, T, Acceptance::heat_bath, SiteOrder::random, 1000, 300000, 42, hazard_below);
+      CAPTURE(b.u.mean);
+      CAPTURE(b.u.error);
+      CHECK(std::abs(b.u.mean - u) <= 4 * b.u.error);
+      const Samples c = sample(model, T, Acceptance::heat_bath, SiteOrder::sequential, 1000, 300000, 43, hazard_below);
+      CAPTURE(c.u.mean);
+      CAPTURE(c.u.error);
+      CHECK(std::abs(c.u.mean - u) <= 4 * c.u.error);
+    }
   }
 }

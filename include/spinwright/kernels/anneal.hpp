@@ -6,9 +6,9 @@
 // One sweep makes move.moves_per_sweep(state) attempts at one beta; sweep k of a schedule of
 // S sweeps uses beta(k / (S - 1)); sweeps past the end stay at the final beta.
 //
-// Acceptance (kernels/schedule.hpp): integer models use threshold tables; with Metropolis and
-// the built-in SingleFlip, cold sweeps take the hazard path (AnnealParams::hazard_below), which
-// replaces the uniform draw of each rejected uphill attempt by one addition. Same chain, other
+// Acceptance (kernels/schedule.hpp): integer models use threshold tables; with the built-in
+// SingleFlip, cold sweeps take the hazard path (AnnealParams::hazard_below), which replaces
+// the uniform draw of each rejected attempt by one addition. Same chain, other
 // random stream: a run is still fully determined by its seed.
 //
 // Best state: checked at the end of every sweep; the spins are copied only when the energy
@@ -54,9 +54,9 @@ struct AnnealParams {
   const std::int8_t* initial = nullptr;  // warm start (n spins, +1/-1); random spins otherwise
   std::uint64_t progress_every = 0;      // observers' on_progress period in sweeps (0: never)
   std::size_t table_limit = 4096;        // entries of the integer acceptance table
-  // Integer models, Metropolis, the built-in SingleFlip: a sweep takes the hazard path
-  // (kernels/schedule.hpp: one exponential draw per accepted uphill flip instead of one
-  // uniform per uphill attempt) when the previous sweep accepted less than this fraction of
+  // Integer models with the built-in SingleFlip: a sweep takes the hazard path
+  // (kernels/hazard_sweep.hpp: one exponential draw per random acceptance instead of one
+  // uniform per uncertain attempt) when the previous sweep accepted less than this fraction of
   // its attempts; the first sweep after a (re)start takes the uniform path. Both paths are
   // exact Metropolis; the choice changes speed and the random stream, never the
   // distribution. 0 disables the hazard path; any value above 1 uses it from the second sweep.
@@ -234,11 +234,9 @@ class Annealer {
     }
   }
 
-  // The hazard path applies to the built-in move on integer models with Metropolis acceptance.
+  // The hazard path applies to the built-in move on integer models.
   static constexpr bool hazard_capable = std::is_same_v<Move, SingleFlip<Model>> && Acceptor<energy_type>::has_hazard_path;
-  static bool uses_hazard(const AnnealParams& params) noexcept {
-    return hazard_capable && params.acceptance == Acceptance::metropolis && params.hazard_below > 0;
-  }
+  static bool uses_hazard(const AnnealParams& params) noexcept { return hazard_capable && params.hazard_below > 0; }
 
   static Move default_move(const AnnealParams& params) {
     if constexpr (std::is_constructible_v<Move, SiteOrder>) {
@@ -299,7 +297,7 @@ class Annealer {
   std::uint64_t sweep_moves(Xoshiro256& stream, std::size_t m) {
     Xoshiro256 rng = stream;
     std::uint64_t accepted = 0;
-    if constexpr (hazard_capable && Rule == Acceptance::metropolis) {
+    if constexpr (hazard_capable) {
       if (last_rate_ < params_.hazard_below && acceptor_.has_hazard()) {
         accepted = detail::hazard_sweep(state_, acceptor_, move_.order(), rng);
         stream = rng;

@@ -1,6 +1,6 @@
-// spinwright — one sweep of the built-in single flip on an integer model with Metropolis
-// acceptance along the hazard path (kernels/schedule.hpp): one exponential draw per accepted
-// uphill flip instead of one uniform per uphill attempt. Shared by annealing and tempering,
+// spinwright — one sweep of the built-in single flip on an integer model (Metropolis or
+// heat-bath) along the hazard path (kernels/schedule.hpp): one exponential draw per random
+// acceptance instead of one uniform per attempt whose outcome is uncertain. Shared by annealing and tempering,
 // which take it on cold sweeps (a sweep after one that accepted less than `hazard_below` of
 // its attempts). No allocation.
 #ifndef SPINWRIGHT_KERNELS_HAZARD_SWEEP_HPP
@@ -43,7 +43,39 @@ std::uint64_t hazard_sweep(SpinState<Model>& state, Acceptor<typename Model::ene
       return spins[i] * fields[i];
     }
   };
-  if (order == SiteOrder::sequential) {
+  if (acceptor.rule() == Acceptance::heat_bath) {
+    // Every delta has a hazard (ln 2 at zero); an acceptance always spends E.
+    if (order == SiteOrder::sequential) {
+      std::uint32_t i = 0;
+      for (;;) {
+        energy_type d{};
+        for (; i < n; ++i) {
+          d = delta_at(i);
+          const std::uint64_t h = hazard.of_heat_bath(d);
+          if (h >= left) break;
+          left -= h;
+        }
+        if (i >= n) break;
+        state.flip_with_delta(static_cast<index_type>(i), d);
+        ++accepted;
+        ++i;
+        left = hazard.draw(rng);
+      }
+    } else {
+      for (std::uint32_t k = 0; k < n; ++k) {
+        const std::uint32_t i = rng.below(n);
+        const energy_type d = delta_at(i);
+        const std::uint64_t h = hazard.of_heat_bath(d);
+        if (h < left) {
+          left -= h;
+          continue;
+        }
+        state.flip_with_delta(static_cast<index_type>(i), d);
+        ++accepted;
+        left = hazard.draw(rng);
+      }
+    }
+  } else if (order == SiteOrder::sequential) {
     // A tight scan that only evaluates and rejects, leaving it for each accepted flip.
     std::uint32_t i = 0;
     for (;;) {

@@ -15,16 +15,17 @@
 //    a margin that keeps each decision identical to the exact comparison. When |beta * delta| exceeds 53 ln 2 the outcome is decided
 //    without a draw: no u of 53 bits could change it (u >= 2^-53). The decision to draw
 //    depends only on (beta, delta), so a seed fully determines a run.
-//  * integer Metropolis, cold sweeps (the hazard path, used by Annealer): one exponential
-//    draw E = -ln(u) serves a whole run of rejections. Attempt t with uphill delta d_t has
-//    hazard h_t = -ln(1 - p_t), p_t = exp(-beta d_t); the first attempt at which the summed
+//  * integer models, cold sweeps (the hazard path, kernels/hazard_sweep.hpp): one
+//    exponential draw E = -ln(u) serves a whole run of rejections. Attempt t, accepted with
+//    probability p_t, has hazard h_t = -ln(1 - p_t); the first attempt at which the summed
 //    hazards since the last draw reach E is accepted, and E is drawn afresh. Because the
 //    exponential distribution is memoryless, each attempt is accepted with probability
 //    exactly 1 - exp(-h_t) = p_t given everything before it: the same Markov chain as one
 //    uniform per attempt, at one integer addition and comparison per rejection instead of a
 //    64-bit draw. Hazards are 2^52-scaled integers (hazard_scale), filled per beta only
-//    when a cold sweep asks for them (prepare_hazard); downhill and zero deltas are
-//    accepted without touching E.
+//    when a cold sweep asks for them (prepare_hazard). Metropolis: h = -ln(1 - e^{-beta d})
+//    for d > 0, and d <= 0 is accepted without touching E. Heat-bath: h = ln(1 + e^{-beta d})
+//    for every d (ln 2 at d = 0; beta |d| + ln(1 + e^{-beta |d|}) downhill).
 #ifndef SPINWRIGHT_KERNELS_SCHEDULE_HPP
 #define SPINWRIGHT_KERNELS_SCHEDULE_HPP
 
@@ -34,7 +35,7 @@
 #include "../rng/xoshiro.hpp"
 
 #include <cmath>        // std::exp, std::log, std::pow, std::sqrt
-#include <cstddef>      // std::size_t
+#include <cstddef>      // std::size_t, std::ptrdiff_t
 #include <cstdint>      // std::uint64_t, std::uint8_t
 #include <type_traits>  // std::is_integral_v
 
@@ -221,7 +222,7 @@ class Acceptor {
 
 #if !SPINWRIGHT_NO_HEAP
   // `shift` and `max_delta` from the model (see make_acceptor); table_limit bounds the table.
-  // `hazard`: also allocate the hazard table (integer Metropolis only; see prepare_hazard).
+  // `hazard`: also allocate the hazard table (integer models; see prepare_hazard).
   Acceptor(Acceptance rule, unsigned shift, std::uint64_t max_delta, std::size_t table_limit = default_table_limit,
            bool hazard = false)
       : rule_(rule),
@@ -259,7 +260,7 @@ class Acceptor {
 
   bool valid() const noexcept { return table_.valid() && hazard_.valid(); }
 
-  // True when the hazard table was requested and applies (integer Metropolis).
+  // True when the hazard table was requested and applies (integer models).
   bool has_hazard() const noexcept { return hazard_.size() != 0; }
 
   // Follow a model whose coefficients were edited in place: the table is indexed by
@@ -358,20 +359,38 @@ class Acceptor {
     return {table_.data(), used_, shift_, overflow_, beta_};
   }
 
-  // The hazard path (integer Metropolis; see the header comment). A copy for one sweep,
-  // valid until the next set_beta(); call prepare_hazard() first.
+  // The hazard path (integer models; see the header comment). A copy for one sweep, valid
+  // until the next set_beta(); call prepare_hazard() first.
   struct Hazard {
-    const std::uint64_t* table;  // 2^52 * -ln(1 - p), indexed by delta >> shift
-    std::uint64_t size;
+    const std::uint64_t* table;  // 2^52 * -ln(1 - p) of delta = k << shift at table[k]
+                                 // (k > 0; heat-bath also k <= 0: the table is centred)
+    std::uint64_t size;          // entries on each side
     unsigned shift;
     bool overflow;
+    bool heat_bath;
     double beta;
 
-    // Scaled hazard of an uphill delta (> 0).
+    // Scaled hazard of an uphill delta (> 0), either rule.
     std::uint64_t of(Energy delta) const noexcept {
       const std::uint64_t k = static_cast<std::uint64_t>(delta) >> shift;
       if (k < size) return table[k];
-      return overflow ? hazard_beyond(beta, static_cast<double>(delta)) : 0;
+      return overflow ? hazard_beyond(beta, static_cast<double>(delta), heat_bath) : 0;
+    }
+
+    // Scaled hazard of any delta under heat-bath acceptance. Deltas are multiples of
+    // 2^shift, so the arithmetic shift divides exactly; one range check covers both signs.
+    std::uint64_t of_heat_bath(Energy delta) const noexcept {
+      static_assert((Energy{-8} >> 1) == Energy{-4}, "arithmetic right shift of negative values");
+      const auto k = static_cast<std::ptrdiff_t>(delta >> shift);
+      if (static_cast<std::uint64_t>(k) + (size - 1) < 2 * size - 1) return table[k];
+      return heat_bath_beyond(delta);
+    }
+
+    std::uint64_t heat_bath_beyond(Energy delta) const noexcept {
+      if (delta > 0) return overflow ? hazard_beyond(beta, static_cast<double>(delta), true) : 0;
+      if (!overflow) return hazard_certain;  // acceptance within 2^-53 of 1
+      const double x = -beta * static_cast<double>(delta);
+      return scaled_hazard(x + log1p_small(std::exp(-x)));
     }
 
     // A fresh exponential draw, scaled; at least 1, so 0 can mark "spent".
@@ -384,29 +403,47 @@ class Acceptor {
 
   static constexpr bool has_hazard_path = integer;
 
-  // Fills the hazard table for the current beta when it is stale: O(entries with a non-zero
-  // threshold), one log1p each where p > 1e-4 and a series below. No allocation.
+  // A scaled hazard at least this large accepts whatever E is (E <= 53 ln 2 * 2^52 < 2^58).
+  static constexpr std::uint64_t hazard_certain = std::uint64_t{1} << 60;
+
+  // Fills the hazard table for the current beta when it is stale: Metropolis O(entries with a
+  // non-zero threshold), heat-bath O(entries); one log1p per entry where e^{-beta d} > 1e-4, a
+  // series below. No allocation.
   void prepare_hazard() noexcept {
     if constexpr (integer) {
-      SPINWRIGHT_ASSERT(has_hazard(), "the hazard path needs an Acceptor built with hazard = true, Metropolis");
+      SPINWRIGHT_ASSERT(has_hazard(), "the hazard path needs an Acceptor built with hazard = true");
       if (hazard_ready_) return;
-      const std::size_t size = hazard_.size();
-      const double p = std::exp(-beta_ * static_cast<double>(std::uint64_t{1} << shift_));
+      const std::size_t size = hazard_side();
+      std::uint64_t* centre = hazard_.data() + (hazard_.size() - size);
+      const double step = beta_ * static_cast<double>(std::uint64_t{1} << shift_);
+      const double p = std::exp(-step);
       double pk = 1;
-      hazard_[0] = ~std::uint64_t{0};  // delta 0 is accepted before any lookup
       std::size_t k = 1;
-      for (; k < used_ && k < size; ++k) {
-        pk *= p;
-        hazard_[k] = static_cast<std::uint64_t>(hazard_of_probability(pk) * hazard_scale);
+      if (rule_ == Acceptance::metropolis) {
+        centre[0] = hazard_certain;  // delta 0 is accepted before any lookup
+        for (; k < used_ && k < size; ++k) {
+          pk *= p;
+          centre[k] = scaled_hazard(-log1m(pk));
+        }
+        for (; k < size && centre[k] != 0; ++k) centre[k] = 0;
+      } else {
+        centre[0] = scaled_hazard(0.69314718055994531);  // ln 2
+        for (; k < size; ++k) {
+          pk *= p;  // underflows to 0 harmlessly
+          const double up = log1p_small(pk);
+          centre[k] = scaled_hazard(up);
+          const double down = step * static_cast<double>(k) + up;
+          centre[-static_cast<std::ptrdiff_t>(k)] = scaled_hazard(down);
+        }
       }
-      for (; k < size && hazard_[k] != 0; ++k) hazard_[k] = 0;
       hazard_ready_ = true;
     }
   }
 
   Hazard hazard() const noexcept {
     SPINWRIGHT_ASSERT(hazard_ready_, "prepare_hazard() before hazard()");
-    return {hazard_.data(), hazard_.size(), shift_, overflow_, beta_};
+    const std::size_t size = hazard_side();
+    return {hazard_.data() + (hazard_.size() - size), size, shift_, overflow_, rule_ == Acceptance::heat_bath, beta_};
   }
 
   bool accept(Energy delta, Xoshiro256& rng) const noexcept {
@@ -417,22 +454,36 @@ class Acceptor {
  private:
   static constexpr double two53 = 9007199254740992.0;
 
+  // Metropolis: one side (index k >= 0); heat-bath: both sides around a centre entry.
   static std::size_t hazard_entries(Acceptance rule, bool hazard, std::size_t entries) noexcept {
-    return integer && hazard && rule == Acceptance::metropolis ? entries : 0;
+    if (!integer || !hazard) return 0;
+    return rule == Acceptance::metropolis ? entries : 2 * entries - 1;
+  }
+  std::size_t hazard_side() const noexcept {
+    return rule_ == Acceptance::metropolis ? hazard_.size() : (hazard_.size() + 1) / 2;
   }
 
-  // -ln(1 - p) for p in (0, 1): the series p + p^2/2 + p^3/3 + p^4/4 where its remainder is
-  // below 2^-53 relative (p < 1e-4), log1p otherwise.
-  static double hazard_of_probability(double p) noexcept {
-    if (p < 1e-4) return p * (1 + p * (0.5 + p * (1.0 / 3 + p * 0.25)));
-    return -std::log1p(-p);
+  // ln(1 - q) and ln(1 + q) for q in [0, 1): the series to q^4 where its remainder is below
+  // 2^-53 relative (q < 1e-4), log1p otherwise.
+  static double log1m(double q) noexcept {
+    if (q < 1e-4) return -q * (1 + q * (0.5 + q * (1.0 / 3 + q * 0.25)));
+    return std::log1p(-q);
+  }
+  static double log1p_small(double q) noexcept {
+    if (q < 1e-4) return q * (1 - q * (0.5 - q * (1.0 / 3 - q * 0.25)));
+    return std::log1p(q);
+  }
+  static std::uint64_t scaled_hazard(double h) noexcept {
+    const double scaled = h * hazard_scale;
+    return scaled >= static_cast<double>(hazard_certain) ? hazard_certain : static_cast<std::uint64_t>(scaled);
   }
 
-  // Deltas beyond a table that was too short for this beta.
-  static std::uint64_t hazard_beyond(double beta, double delta) noexcept {
+  // Uphill deltas beyond a table that was too short for this beta.
+  static std::uint64_t hazard_beyond(double beta, double delta, bool heat_bath) noexcept {
     const double x = beta * delta;
     if (x > acceptance_cutoff) return 0;
-    return static_cast<std::uint64_t>(hazard_of_probability(std::exp(-x)) * hazard_scale);
+    const double q = std::exp(-x);
+    return scaled_hazard(heat_bath ? log1p_small(q) : -log1m(q));
   }
 
   // exp(x) >= 1 + x + x^2/2 + x^3/6 for x >= 0, so u * that > 1 proves u > exp(-x). The
