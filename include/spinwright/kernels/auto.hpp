@@ -102,6 +102,19 @@ inline constexpr std::uint64_t auto_fill_seed(std::uint64_t seed, std::uint64_t 
   return splitmix64(state);
 }
 
+template <class Model>
+AutoChoice choose_kernel(const Model& model) noexcept {
+  const std::size_t n = model.num_spins();
+  if (n <= auto_exact_max_spins) return {KernelKind::exact, 0, "at most 20 spins: exact enumeration"};
+  const double all_pairs = 0.5 * static_cast<double>(n) * static_cast<double>(n - 1);
+  const double density = static_cast<double>(model.num_pairs()) / all_pairs;
+  if (Model::is_dense || density >= auto_dense_threshold) {
+    return {KernelKind::tabu, 2000, "dense model (pair density >= 0.10): tabu search"};
+  }
+  const std::uint64_t sweeps = n <= 10000 ? 4000 : (n <= 100000 ? 2000 : 1000);
+  return {KernelKind::anneal, sweeps, "sparse model: annealing, then descent"};
+}
+
 namespace detail {
 
 struct DegreeProfile {
@@ -148,19 +161,6 @@ KernelKind auto_fill_kernel(const Model& model) noexcept {
 // True when solve_auto(model, seed, restart, budget) uses the time-filling mode.
 inline bool auto_fills_time(const Budget& budget) noexcept {
   return budget.sweeps == 0 && budget.clock.valid() && budget.seconds < std::numeric_limits<double>::infinity();
-}
-
-template <class Model>
-AutoChoice choose_kernel(const Model& model) noexcept {
-  const std::size_t n = model.num_spins();
-  if (n <= auto_exact_max_spins) return {KernelKind::exact, 0, "at most 20 spins: exact enumeration"};
-  const double all_pairs = 0.5 * static_cast<double>(n) * static_cast<double>(n - 1);
-  const double density = static_cast<double>(model.num_pairs()) / all_pairs;
-  if (Model::is_dense || density >= auto_dense_threshold) {
-    return {KernelKind::tabu, 2000, "dense model (pair density >= 0.10): tabu search"};
-  }
-  const std::uint64_t sweeps = n <= 10000 ? 4000 : (n <= 100000 ? 2000 : 1000);
-  return {KernelKind::anneal, sweeps, "sparse model: annealing, then descent"};
 }
 
 namespace detail {
@@ -246,7 +246,7 @@ Solution<typename Model::energy_type> auto_fill_anneal(const Model& model, std::
       break;
     }
     if (r == StopReason::deadline) break;
-    // The next length: double the last, capped by what fits in the margin of the time left.
+    // The next length: `growth` times the last, capped by what fits in the margin of the time left.
     const double elapsed = clock.read() - t0;
     const double left = budget.seconds - elapsed;
     if (!(left > 0)) break;
