@@ -9,7 +9,9 @@
 
 #include <spinwright/model/maxcut.hpp>
 
-#include <limits>  // std::numeric_limits
+#include <algorithm>  // std::max
+#include <limits>     // std::numeric_limits
+#include <thread>     // std::thread::hardware_concurrency
 
 namespace spinwright_cli {
 
@@ -19,9 +21,9 @@ const std::vector<OptionSpec>& solve_options() {
   static const std::vector<OptionSpec> specs = {
       {"format", "edges|mtx", "input format (default: detected from the content)"},
       {"kernel", "NAME", "auto, anneal, temper, tabu, descent or exact (default auto)"},
-      {"time-limit", "SECONDS", "wall-clock limit for the whole run (default: none)"},
+      {"time-limit", "SECONDS", "wall-clock limit for the whole run; auto without --sweeps fills it (default: none)"},
       {"sweeps", "N", "sweeps per restart (default: the kernel's own, 1000 for anneal)"},
-      {"restarts", "R", "independent restarts (default 8)"},
+      {"restarts", "R", "independent restarts (default 8; one per thread when auto fills a time limit)"},
       {"threads", "T", "threads; 0 = one per hardware thread (default 0)"},
       {"seed", "N", "seed; restart r uses the stream (seed, r) (default 1)"},
       {"target", "ENERGY", "stop a restart once it reaches this energy; report the success rate"},
@@ -92,6 +94,7 @@ std::string solve_json(const LoadedModel& m, const SolveSettings& s, const RunRe
   j.member("pairs", static_cast<std::uint64_t>(m.num_pairs()));
   j.member("kernel", kernel_name(s.run.kernel));
   j.member("kernel_requested", s.kernel_text);
+  j.member("time_filling", s.run.fill_time);
   j.member("seed", s.run.seed);
   j.member("restarts", static_cast<std::uint64_t>(r.tally.restarts()));
   j.member("threads", r.threads);
@@ -151,7 +154,9 @@ std::string solve_text(const LoadedModel& m, const SolveSettings& s, const RunRe
   t.line("file", m.path);
   t.line("model", m.description + ", " + std::to_string(m.num_spins()) + (m.graph ? " nodes, " : " variables, ") +
                       std::to_string(m.num_pairs()) + (m.graph ? " edges" : " pairs"));
-  t.line("kernel", std::string(kernel_name(s.run.kernel)) + (s.kernel_auto ? " (chosen automatically)" : ""));
+  t.line("kernel", std::string(kernel_name(s.run.kernel)) +
+                       (s.run.fill_time ? " (chosen automatically, filling the time limit)"
+                                        : s.kernel_auto ? " (chosen automatically)" : ""));
   if (r.exact) {
     t.line("threads", std::to_string(r.threads));
   } else {
@@ -216,6 +221,18 @@ int run_solve(int argc, const char* const* argv) {
     const AutoPick pick = auto_choice(m);
     s.run.kernel = pick.kernel;
     if (!args.has("sweeps")) s.run.sweeps = pick.sweeps;
+    // A time limit without a sweep count (and without a warm start, which the time-filling mode
+    // does not take): every restart fills its share of the limit; by default one restart per
+    // thread, so each gets the whole limit.
+    if (pick.kernel != Kernel::exact && s.run.time_limit < std::numeric_limits<double>::infinity() &&
+        !args.has("sweeps") && s.warm_path.empty()) {
+      s.run.fill_time = true;
+      s.run.sweeps = 0;
+      s.run.kernel = auto_fill_choice(m);
+      if (!args.has("restarts")) {
+        s.run.restarts = s.run.threads != 0 ? s.run.threads : std::max(1u, std::thread::hardware_concurrency());
+      }
+    }
   }
   if (s.run.kernel == Kernel::exact && m.num_spins() > exact_limit()) {
     return fail(input_failure(m.path + ": the exact kernel is limited to " + std::to_string(exact_limit()) +

@@ -45,19 +45,30 @@ bool kernel_from_name(const std::string& name, bool& is_auto, Kernel& out) {
 
 std::size_t exact_limit() { return spinwright::exact_default_limit; }
 
+namespace {
+Kernel from_kind(spinwright::KernelKind k) {
+  switch (k) {
+    case spinwright::KernelKind::anneal: return Kernel::anneal;
+    case spinwright::KernelKind::temper: return Kernel::temper;
+    case spinwright::KernelKind::tabu: return Kernel::tabu;
+    case spinwright::KernelKind::descent: return Kernel::descent;
+    case spinwright::KernelKind::exact: return Kernel::exact;
+  }
+  return Kernel::anneal;
+}
+}  // namespace
+
 AutoPick auto_choice(const LoadedModel& m) {
   const spinwright::AutoChoice c = visit(m, [](const auto& model) { return spinwright::choose_kernel(model); });
   AutoPick pick;
-  switch (c.kernel) {
-    case spinwright::KernelKind::anneal: pick.kernel = Kernel::anneal; break;
-    case spinwright::KernelKind::temper: pick.kernel = Kernel::temper; break;
-    case spinwright::KernelKind::tabu: pick.kernel = Kernel::tabu; break;
-    case spinwright::KernelKind::descent: pick.kernel = Kernel::descent; break;
-    case spinwright::KernelKind::exact: pick.kernel = Kernel::exact; break;
-  }
+  pick.kernel = from_kind(c.kernel);
   pick.sweeps = c.sweeps;
   pick.reason = c.reason;
   return pick;
+}
+
+Kernel auto_fill_choice(const LoadedModel& m) {
+  return from_kind(visit(m, [](const auto& model) { return spinwright::auto_fill_kernel(model); }));
 }
 
 std::uint64_t count_at(const spinwright::Tally<double>& tally, double energy, double scale) {
@@ -114,6 +125,15 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
   ProgressObserver observer{o.progress};
   const std::int8_t* warm = o.warm != nullptr ? o.warm->data() : nullptr;
   spinwright::Solution<double> s;
+  if (o.fill_time) {
+    s = spinwright::solve_auto(model, o.seed, r, budget);
+    if (s.reason == spinwright::StopReason::stopped) cut_short.fetch_add(1, std::memory_order_relaxed);
+    if (o.progress != nullptr) {
+      o.progress->best.offer(s.energy);
+      o.progress->restarts_done.fetch_add(1, std::memory_order_relaxed);
+    }
+    return s;
+  }
   switch (o.kernel) {
     case Kernel::anneal: {
       spinwright::AnnealParams p;

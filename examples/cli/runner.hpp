@@ -33,6 +33,10 @@ struct AutoPick {
 };
 AutoPick auto_choice(const LoadedModel& m);
 
+// The kernel that fills a time limit under `auto` (spinwright::auto_fill_kernel: annealing,
+// tempering for lattice-like graphs, tabu for dense models, exact for N <= 20).
+Kernel auto_fill_choice(const LoadedModel& m);
+
 // Largest N the exact kernel takes from the command line.
 std::size_t exact_limit();
 
@@ -46,6 +50,10 @@ struct RunOptions {
   bool has_target = false;
   double target = 0;
   const std::vector<std::int8_t>* warm = nullptr;  // start state of every restart
+  // `auto` with a time limit and no sweep count: every restart is spinwright::solve_auto in its
+  // time-filling mode over its share of the limit (kernels/auto.hpp); `kernel` is then only
+  // what the report names. Ending at the deadline is that mode's normal end, not a cut.
+  bool fill_time = false;
   ProgressCounters* progress = nullptr;
 };
 

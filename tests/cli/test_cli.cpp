@@ -656,6 +656,33 @@ TEST_CASE("cli: a time limit ends a run that its sweep budget would not; no prog
   CHECK(spins_of(j).size() == 500);
 }
 
+TEST_CASE("cli: auto with a time limit and no sweep count fills the limit (kernels/auto.hpp time-filling mode)") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const Graph g = random_graph(300, 900, -2, 3, 6);
+  const std::string path = dir.write("g.txt", g.edge_list());
+  const RunOutput r = cli_test::run_process(exe, {"solve", path, "--time-limit", "0.4", "--threads", "2", "--report", "json"},
+                                            dir, 0, 60);
+  CHECK_FALSE(r.hung);
+  CHECK(r.code == 0);
+  const Json j = parse_ok(r);
+  CHECK(j["time_filling"].b);
+  CHECK(j["kernel_requested"].text == "auto");
+  CHECK((j["kernel"].text == "anneal" || j["kernel"].text == "temper"));
+  CHECK(j["restarts"].num == 2);  // one restart per thread by default
+  CHECK(j["cut_short"].num == 0);  // ending at the deadline is this mode's normal end
+  const std::vector<int> s = spins_of(j);
+  REQUIRE(s.size() == 300);
+  CHECK(static_cast<std::int64_t>(j["energy"].num) == g.energy(s));
+  CHECK(static_cast<std::int64_t>(j["cut"].num) == g.cut(s));
+  // A sweep count keeps the fixed runs of the rule.
+  const RunOutput fixed = run(dir, {"solve", path, "--time-limit", "30", "--sweeps", "50", "--restarts", "3", "--report", "json"});
+  CHECK(fixed.code == 0);
+  const Json k = parse_ok(fixed);
+  CHECK_FALSE(k["time_filling"].b);
+  CHECK(k["restarts"].num == 3);
+}
+
 namespace {
 // Everything a pseudo-terminal's master side holds (non-blocking reads until empty).
 std::string drain(int fd) {
