@@ -9,10 +9,10 @@
 
 #include <spinwright/kernels/anneal.hpp>
 
+#include "kernels/cpu_clock.hpp"
 #include "kernels/reference_anneal.hpp"
 #include "support/anneal_graph.hpp"
 
-#include <ctime>  // clock_gettime: per-thread CPU time (the machine is shared)
 #include <cstdint>
 #include <map>
 #include <string>
@@ -21,11 +21,7 @@ using namespace spinwright;
 
 namespace {
 
-double cpu_seconds() {
-  timespec ts{};
-  clock_gettime(CLOCK_THREAD_CPUTIME_ID, &ts);
-  return static_cast<double>(ts.tv_sec) + 1e-9 * static_cast<double>(ts.tv_nsec);
-}
+double cpu_seconds() { return bench_support::thread_seconds(); }
 
 enum GraphKind { cubic = 0, lattice = 1, g22 = 2 };
 enum Phase { cold = 0, annealing = 1 };

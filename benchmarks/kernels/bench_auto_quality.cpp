@@ -14,12 +14,12 @@
 #include <spinwright/kernels/auto.hpp>
 #include <spinwright/model/maxcut.hpp>
 
+#include "kernels/cpu_clock.hpp"
 #include "support/temper_graph.hpp"
 
 #include <algorithm>  // std::sort, std::min
 #include <cstdint>
 #include <cstdlib>    // std::getenv, std::atof, std::atoi
-#include <ctime>      // clock_gettime: per-thread CPU time
 #include <limits>
 #include <map>
 #include <string>
@@ -29,12 +29,8 @@ using namespace spinwright;
 
 namespace {
 
-double thread_seconds(void*) noexcept {
-  timespec ts{};
-  clock_gettime(CLOCK_THREAD_CPUTIME_ID, &ts);
-  return static_cast<double>(ts.tv_sec) + 1e-9 * static_cast<double>(ts.tv_nsec);
-}
-Clock cpu_clock() { return Clock{&thread_seconds, nullptr}; }
+using bench_support::cpu_clock;
+using bench_support::thread_seconds;
 
 double env_double(const char* name, double fallback) {
   const char* v = std::getenv(name);

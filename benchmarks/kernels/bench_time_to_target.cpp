@@ -13,11 +13,11 @@
 #include <spinwright/kernels/temper.hpp>
 #include <spinwright/model/maxcut.hpp>
 
+#include "kernels/cpu_clock.hpp"
 #include "support/temper_graph.hpp"
 
 #include <algorithm>  // std::sort
 #include <cstdint>
-#include <ctime>      // clock_gettime: per-thread CPU time
 #include <limits>
 #include <map>
 #include <string>
@@ -27,12 +27,8 @@ using namespace spinwright;
 
 namespace {
 
-double thread_seconds(void*) noexcept {
-  timespec ts{};
-  clock_gettime(CLOCK_THREAD_CPUTIME_ID, &ts);
-  return static_cast<double>(ts.tv_sec) + 1e-9 * static_cast<double>(ts.tv_nsec);
-}
-Clock cpu_clock() { return Clock{&thread_seconds, nullptr}; }
+using bench_support::cpu_clock;
+using bench_support::thread_seconds;
 
 const char* const instances[] = {"bqp250-1", "bqp250-2", "bqp250-3", "bqp250-4", "bqp250-5",
                                  "G11",      "G14",      "G22",      "G43"};
