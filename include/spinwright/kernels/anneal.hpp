@@ -56,10 +56,12 @@ struct AnnealParams {
   std::size_t table_limit = 4096;        // entries of the integer acceptance table
   // Integer models with the built-in SingleFlip: a sweep takes the hazard path
   // (kernels/hazard_sweep.hpp: one exponential draw per random acceptance instead of one
-  // uniform per uncertain attempt) when the previous sweep accepted less than this fraction of
-  // its attempts; the first sweep after a (re)start takes the uniform path. Both paths are
-  // exact Metropolis; the choice changes speed and the random stream, never the
-  // distribution. 0 disables the hazard path; any value above 1 uses it from the second sweep.
+  // uniform per uncertain attempt) when the previous sweep accepted less than this fraction
+  // of its attempts and the hazard table is cheap to fill for this beta (at most a quarter as
+  // many entries as attempts, or already filled); the first sweep after a (re)start takes
+  // the uniform path. Both paths sample the same chain; the choice changes speed and the
+  // random stream, never the distribution. 0 disables the hazard path; any value above 1
+  // forces it from the second sweep.
   double hazard_below = 0.125;
 };
 
@@ -298,7 +300,7 @@ class Annealer {
     Xoshiro256 rng = stream;
     std::uint64_t accepted = 0;
     if constexpr (hazard_capable) {
-      if (last_rate_ < params_.hazard_below && acceptor_.has_hazard()) {
+      if (detail::take_hazard_path(acceptor_, last_rate_, params_.hazard_below, m)) {
         accepted = detail::hazard_sweep(state_, acceptor_, move_.order(), rng);
         stream = rng;
         return accepted;

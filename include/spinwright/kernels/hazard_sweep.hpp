@@ -18,6 +18,17 @@
 namespace spinwright {
 namespace detail {
 
+// The choice of path for one sweep of `attempts` attempts: the previous sweep of this state
+// accepted less than `hazard_below` of its attempts, and the hazard table is ready for this
+// beta or cheap to fill (at most a quarter as many entries as attempts). hazard_below > 1
+// forces the path (tests of each path alone).
+template <class Energy>
+bool take_hazard_path(const Acceptor<Energy>& acceptor, double last_rate, double hazard_below, std::size_t attempts) {
+  if (!acceptor.has_hazard() || !(last_rate < hazard_below)) return false;
+  if (hazard_below > 1) return true;
+  return acceptor.hazard_ready() || 4 * acceptor.hazard_fill_entries() <= attempts;
+}
+
 // n attempts on `state` in the given site order; returns the number accepted. The acceptor
 // must have been built with its hazard table (make_acceptor(..., hazard = true)); its table
 // for the current beta is filled here when stale. `stream` is copied into a local for the

@@ -440,6 +440,14 @@ class Acceptor {
     }
   }
 
+  // Whether the hazard table matches the current beta, and the entries prepare_hazard() would
+  // compute otherwise (kernels weigh this against a sweep's attempts: refilling a long table
+  // every sweep on a small model costs more than the draws it saves).
+  bool hazard_ready() const noexcept { return hazard_ready_; }
+  std::size_t hazard_fill_entries() const noexcept {
+    return rule_ == Acceptance::metropolis ? (used_ < hazard_.size() ? used_ : hazard_.size()) : hazard_.size();
+  }
+
   Hazard hazard() const noexcept {
     SPINWRIGHT_ASSERT(hazard_ready_, "prepare_hazard() before hazard()");
     const std::size_t size = hazard_side();

@@ -286,7 +286,7 @@ class Tempering {
   // `rate`: the accepted fraction of this replica's previous sweep, updated here.
   void metropolis_sweep(state_type& s, Acceptor<energy_type>& acc, double& rate, Xoshiro256& stream) {
     if constexpr (Acceptor<energy_type>::has_hazard_path) {
-      if (rate < params_.hazard_below && acc.has_hazard()) {
+      if (detail::take_hazard_path(acc, rate, params_.hazard_below, n_)) {
         const std::uint64_t accepted = detail::hazard_sweep(s, acc, params_.order, stream);
         attempted_ += n_;
         accepted_ += accepted;
