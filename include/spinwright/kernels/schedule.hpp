@@ -440,12 +440,18 @@ class Acceptor {
     }
   }
 
-  // Whether the hazard table matches the current beta, and the entries prepare_hazard() would
-  // compute otherwise (kernels weigh this against a sweep's attempts: refilling a long table
-  // every sweep on a small model costs more than the draws it saves).
+  // Whether the hazard table matches the current beta, and how many entries per side carry a
+  // probability of at least 2^-53 at this beta (1 + floor(53 ln 2 / (beta 2^shift))): the
+  // costly entries of a fill. Kernels weigh this against a sweep's attempts, because
+  // refilling a long table every sweep on a small model costs more than the draws it saves.
+  // It depends on beta and the delta unit only, not on the table's size, so a kernel reused
+  // after in-place edits chooses exactly as a fresh one would.
   bool hazard_ready() const noexcept { return hazard_ready_; }
   std::size_t hazard_fill_entries() const noexcept {
-    return rule_ == Acceptance::metropolis ? (used_ < hazard_.size() ? used_ : hazard_.size()) : hazard_.size();
+    const double step = beta_ * static_cast<double>(std::uint64_t{1} << shift_);
+    const double limit = 1e9;  // "very many": beta near 0
+    const double entries = step > 0 ? acceptance_cutoff / step : limit;
+    return entries < limit ? static_cast<std::size_t>(entries) + 1 : static_cast<std::size_t>(limit);
   }
 
   Hazard hazard() const noexcept {
