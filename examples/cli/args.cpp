@@ -15,6 +15,7 @@ Failure usage_failure(std::string message, std::string hint) {
 }
 
 Failure input_failure(std::string message) { return Failure{exit_input, std::move(message), {}}; }
+Failure interrupted_failure(std::string message) { return Failure{exit_interrupted, std::move(message), {}}; }
 
 bool Args::has(const std::string& name) const {
   return values.count(name) != 0 || std::find(flags.begin(), flags.end(), name) != flags.end();

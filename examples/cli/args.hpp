@@ -29,6 +29,8 @@ struct Failure {
 
 Failure usage_failure(std::string message, std::string hint);
 Failure input_failure(std::string message);
+// Ctrl-C ended an operation that has no partial answer (exact enumeration): exit 130.
+Failure interrupted_failure(std::string message);
 
 struct OptionSpec {
   const char* name;     // without the leading "--"

@@ -11,7 +11,6 @@
 #include <spinwright/model/maxcut.hpp>
 #include <spinwright/parallel/exact_threads.hpp>
 
-#include <csignal>  // std::signal, SIGINT, SIG_DFL
 
 namespace spinwright_cli {
 
@@ -125,12 +124,15 @@ int run_exact(int argc, const char* const* argv) {
   }
   spinwright::ExactParams params;
   params.levels = static_cast<std::size_t>(levels);
+  params.stop = &interrupt_token();  // polled every 2^16 states: Ctrl-C ends it without an answer
   unsigned used = threads == 0 ? std::max(1u, std::thread::hardware_concurrency()) : static_cast<unsigned>(threads);
-  std::signal(SIGINT, SIG_DFL);
   const double start = spinwright::steady_seconds(nullptr);
   std::string report;
   f = visit(m, [&](const auto& model) -> Failure {
     auto r = spinwright::solve_exact_threads(model, params, used);
+    if (!r && r.status().code == spinwright::StatusCode::stopped) {
+      return interrupted_failure(m.path + ": exact enumeration interrupted (Ctrl-C) before it finished: no answer");
+    }
     if (!r) return input_failure(m.path + ": " + r.status().message);
     const double seconds = spinwright::steady_seconds(nullptr) - start;
     report = exact_report(m, model, r.value(), seconds, used, json);

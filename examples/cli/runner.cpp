@@ -15,7 +15,6 @@
 #include <algorithm>  // std::max
 #include <atomic>     // std::atomic
 #include <cmath>      // std::ceil
-#include <csignal>    // std::signal, SIGINT, SIG_DFL
 #include <thread>     // std::thread::hardware_concurrency
 
 namespace spinwright_cli {
@@ -179,11 +178,12 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
 template <class Model>
 Failure run_exact_kernel(const LoadedModel& m, const Model& model, const RunOptions& o, RunResult& out) {
   spinwright::ExactParams params;
+  params.stop = &interrupt_token();  // polled every 2^16 states: Ctrl-C ends it without an answer
   const double start = spinwright::steady_seconds(nullptr);
-  // The enumeration does not poll the stop token: Ctrl-C keeps its default action meanwhile.
-  std::signal(SIGINT, SIG_DFL);
   auto result = spinwright::solve_exact_threads(model, params, o.threads);
-  install_interrupt_handler();
+  if (!result && result.status().code == spinwright::StatusCode::stopped) {
+    return interrupted_failure(m.path + ": exact enumeration interrupted (Ctrl-C) before it finished: no answer");
+  }
   if (!result) {
     return input_failure(m.path + ": exact enumeration refused: the model has " + std::to_string(m.num_spins()) +
                          " spins and the limit is " + std::to_string(exact_limit()));

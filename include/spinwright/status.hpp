@@ -22,6 +22,7 @@ enum class StatusCode : std::uint8_t {
   invalid_argument,     // a parameter outside its documented range
   unsupported,          // a valid but unsupported variant (e.g. complex Matrix Market)
   capacity_exceeded,    // a caller-supplied buffer is too small
+  stopped,              // a StopToken ended an operation that has no partial answer (exact enumeration)
 };
 
 inline constexpr const char* to_string(StatusCode code) noexcept {
@@ -38,6 +39,7 @@ inline constexpr const char* to_string(StatusCode code) noexcept {
     case StatusCode::invalid_argument: return "invalid argument";
     case StatusCode::unsupported: return "unsupported";
     case StatusCode::capacity_exceeded: return "capacity exceeded";
+    case StatusCode::stopped: return "stopped";
   }
   return "unknown";
 }

@@ -639,6 +639,27 @@ TEST_CASE("cli: Ctrl-C stops a long run, prints the best state so far and exits 
   CHECK(t.out.find("\nspins ") != std::string::npos);
 }
 
+TEST_CASE("cli: Ctrl-C ends an exact enumeration without an answer: exit 130, a message, no report") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  // 30 nodes, no fields: 2^29 states after the flip symmetry, seconds of work or more.
+  const Graph g = random_graph(30, 80, -3, 5, 12);
+  const std::string path = dir.write("g30.txt", g.edge_list());
+  for (const char* command : {"exact", "solve"}) {
+    CAPTURE(command);
+    std::vector<std::string> args = {command, path, "--threads", "2"};
+    if (std::string(command) == "solve") {
+      args.push_back("--kernel");
+      args.push_back("exact");
+    }
+    const RunOutput r = cli_test::run_process(exe, args, dir, 0.5, 60);
+    CHECK_FALSE(r.hung);
+    CHECK(r.code == 130);
+    CHECK(r.out.empty());
+    CHECK(r.err.find("interrupted") != std::string::npos);
+  }
+}
+
 TEST_CASE("cli: a time limit ends a run that its sweep budget would not; no progress line off a terminal") {
   TempDir dir;
   REQUIRE(dir.ok());

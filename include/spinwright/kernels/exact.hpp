@@ -28,10 +28,15 @@
 //
 // Size limits: N > ExactParams::max_spins (default 30, about 10^9 states) and N > 40 (the
 // hard limit, exact_hard_limit) are refused with StatusCode::size_limit.
+//
+// Stopping: ExactParams::stop, when set, is polled every 2^16 states; a requested stop ends
+// the enumeration with StatusCode::stopped and no answer (a partial enumeration proves
+// nothing).
 #ifndef SPINWRIGHT_KERNELS_EXACT_HPP
 #define SPINWRIGHT_KERNELS_EXACT_HPP
 
 #include "../config.hpp"
+#include "../control/control.hpp"
 #include "../model/form.hpp"
 #include "../state/spin_state.hpp"
 #include "../status.hpp"
@@ -55,7 +60,10 @@ struct ExactParams {
   double tolerance = 1e-9;                      // floating models: relative level tolerance
   bool flip_symmetry = true;                    // halve the work on field-free Ising models
   unsigned chunk_bits = 6;                      // the work is cut into 2^chunk_bits chunks (fewer when N is small)
+  const StopToken* stop = nullptr;              // polled every 2^16 states (StatusCode::stopped)
 };
+
+inline constexpr unsigned exact_stop_poll_bits = 16;
 
 /// One energy level: its energy, the number of assignments on it, and the lowest canonical
 /// index among them.
@@ -203,22 +211,31 @@ typename Model::energy_type exact_tolerance(const Model& model, const ExactParam
 
 // Enumerates chunk `c` of the plan into `keeper`. `state` and `buffer` are the caller's
 // workspace (a state over `model` and n spins); nothing is allocated inside the loop.
+// Returns false when `stop` was requested (polled every 2^exact_stop_poll_bits states).
 template <class Model>
-void exact_chunk(const ExactPlan& plan, std::uint64_t c, SpinState<Model>& state, std::vector<std::int8_t>& buffer,
-                 LevelKeeper<typename Model::energy_type>& keeper) {
+bool exact_chunk(const ExactPlan& plan, std::uint64_t c, SpinState<Model>& state, std::vector<std::int8_t>& buffer,
+                 LevelKeeper<typename Model::energy_type>& keeper, const StopToken* stop = nullptr) {
   using index_type = typename Model::index_type;
+  if (stop != nullptr && stop->stop_requested()) return false;
   const std::uint64_t base = c << plan.low_bits;
   for (std::size_t k = 0; k < plan.n; ++k) buffer[k] = ((base >> k) & 1) ? -1 : 1;
   state.set_spins(buffer.data());
   std::uint64_t index = base;
   keeper.offer(state.energy(), index);
   const std::uint64_t steps = std::uint64_t{1} << plan.low_bits;
+  const std::uint64_t poll = (std::uint64_t{1} << exact_stop_poll_bits) - 1;
   for (std::uint64_t t = 1; t < steps; ++t) {
     const unsigned b = trailing_zeros(t);
     state.flip(static_cast<index_type>(b));
     index ^= std::uint64_t{1} << b;
     keeper.offer(state.energy(), index);
+    if ((t & poll) == 0 && stop != nullptr && stop->stop_requested()) return false;
   }
+  return true;
+}
+
+inline Status exact_stopped() noexcept {
+  return Status::error(StatusCode::stopped, "exact enumeration stopped by its StopToken before it finished");
 }
 
 template <class Model>
@@ -239,8 +256,8 @@ ExactResult<typename Model::energy_type> exact_finish(const Model& model, const 
 
 }  // namespace detail
 
-/// Exact enumeration on the calling thread. Returns size_limit beyond the limits above and
-/// invalid_argument for levels == 0 or a negative tolerance. Allocates O(N + levels) at start.
+/// Exact enumeration on the calling thread. Returns size_limit beyond the limits above,
+/// invalid_argument for levels == 0 or a negative tolerance, stopped when params.stop ended it. Allocates O(N + levels) at start.
 /// Model: any sparse or dense model (Ising or QUBO, every value type).
 template <class Model>
 Result<ExactResult<typename Model::energy_type>> solve_exact(const Model& model, const ExactParams& params = {}) {
@@ -255,7 +272,7 @@ Result<ExactResult<typename Model::energy_type>> solve_exact(const Model& model,
   std::vector<std::int8_t> buffer(plan.n, 1);
   for (std::uint64_t c = 0; c < plan.chunks; ++c) {
     chunk = detail::LevelKeeper<energy_type>(params.levels, tol);
-    detail::exact_chunk(plan, c, state, buffer, chunk);
+    if (!detail::exact_chunk(plan, c, state, buffer, chunk, params.stop)) return detail::exact_stopped();
     total.merge(chunk);
   }
   return detail::exact_finish(model, plan, total);

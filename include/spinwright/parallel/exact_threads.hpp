@@ -34,11 +34,15 @@ Result<ExactResult<typename Model::energy_type>> solve_exact_threads(const Model
   per_chunk.reserve(static_cast<std::size_t>(plan.chunks));
   for (std::uint64_t c = 0; c < plan.chunks; ++c) per_chunk.emplace_back(params.levels, tol);
   std::atomic<std::uint64_t> next{0};
+  std::atomic<bool> stopped{false};
   auto worker = [&]() {
     SpinState<Model> state(model);
     std::vector<std::int8_t> buffer(plan.n, 1);
     for (std::uint64_t c = next.fetch_add(1); c < plan.chunks; c = next.fetch_add(1)) {
-      detail::exact_chunk(plan, c, state, buffer, per_chunk[static_cast<std::size_t>(c)]);
+      if (!detail::exact_chunk(plan, c, state, buffer, per_chunk[static_cast<std::size_t>(c)], params.stop)) {
+        stopped.store(true);
+        return;
+      }
     }
   };
   if (threads <= 1) {
@@ -49,6 +53,7 @@ Result<ExactResult<typename Model::energy_type>> solve_exact_threads(const Model
     for (unsigned t = 0; t < threads; ++t) pool.emplace_back(worker);
     for (auto& th : pool) th.join();
   }
+  if (stopped.load()) return detail::exact_stopped();
   detail::LevelKeeper<energy_type> total(params.levels, tol);
   for (const auto& k : per_chunk) total.merge(k);
   return detail::exact_finish(model, plan, total);
