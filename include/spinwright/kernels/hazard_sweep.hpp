@@ -1,8 +1,7 @@
 // spinwright — one sweep of the built-in single flip on an integer model (Metropolis or
 // heat-bath) along the hazard path (kernels/schedule.hpp): one exponential draw per random
-// acceptance instead of one uniform per attempt whose outcome is uncertain. Shared by annealing and tempering,
-// which take it on cold sweeps (a sweep after one that accepted less than `hazard_below` of
-// its attempts). No allocation.
+// acceptance instead of one uniform per attempt whose outcome is uncertain. Shared by
+// annealing and tempering, which take it on cold sweeps (take_hazard_path). No allocation.
 #ifndef SPINWRIGHT_KERNELS_HAZARD_SWEEP_HPP
 #define SPINWRIGHT_KERNELS_HAZARD_SWEEP_HPP
 
