@@ -80,9 +80,9 @@ struct TemperParams {
   const std::int8_t* initial = nullptr;   // warm start for every replica (n spins); random otherwise
   std::uint64_t progress_every = 0;       // observers' on_progress period in sweeps (0: never)
   std::size_t table_limit = 4096;         // entries of each integer acceptance table
-  // Integer models: a replica's sweep takes the hazard path (kernels/hazard_sweep.hpp) when
-  // its previous sweep accepted less than this fraction of its attempts, as in annealing
-  // (AnnealParams::hazard_below); 0 disables it.
+  // Integer models: a replica's sweep takes the hazard path (kernels/hazard_sweep.hpp) on the
+  // same rule as annealing (AnnealParams::hazard_below: the replica's previous sweep accepted
+  // less than this fraction, and the table is cheap to fill); 0 disables it, > 1 forces it.
   double hazard_below = 0.125;
 };
 
@@ -280,20 +280,27 @@ class Tempering {
     }
   }
 
-  // The generator is copied into a local for the sweep: reached through the reference, its
-  // state would be stored and reloaded at every draw (flips write through int8_t pointers,
-  // which may alias anything).
-  // `rate`: the accepted fraction of this replica's previous sweep, updated here.
+  // One Metropolis sweep of replica `s`; `rate` (the accepted fraction of this replica's
+  // previous sweep) chooses the path and is updated here.
   void metropolis_sweep(state_type& s, Acceptor<energy_type>& acc, double& rate, Xoshiro256& stream) {
-    if constexpr (Acceptor<energy_type>::has_hazard_path) {
+    std::uint64_t accepted = 0;
+    bool swept = false;
+    if constexpr (Acceptor<energy_type>::has_hazard_path) {  // integer models only
       if (detail::take_hazard_path(acc, rate, params_.hazard_below, n_)) {
-        const std::uint64_t accepted = detail::hazard_sweep(s, acc, params_.order, stream);
-        attempted_ += n_;
-        accepted_ += accepted;
-        rate = n_ != 0 ? static_cast<double>(accepted) / static_cast<double>(n_) : 1.0;
-        return;
+        accepted = detail::hazard_sweep(s, acc, params_.order, stream);
+        swept = true;
       }
     }
+    if (!swept) accepted = uniform_sweep(s, acc, stream);
+    attempted_ += n_;
+    accepted_ += accepted;
+    rate = n_ != 0 ? static_cast<double>(accepted) / static_cast<double>(n_) : 1.0;
+  }
+
+  // One uniform per uncertain attempt. The generator is copied into a local for the sweep:
+  // reached through the reference, its state would be stored and reloaded at every draw
+  // (flips write through int8_t pointers, which may alias anything).
+  std::uint64_t uniform_sweep(state_type& s, const Acceptor<energy_type>& acc, Xoshiro256& stream) {
     Xoshiro256 rng = stream;
     std::uint64_t accepted = 0;
     const bool random = params_.order == SiteOrder::random;
@@ -307,9 +314,7 @@ class Tempering {
       }
     }
     stream = rng;
-    attempted_ += n_;
-    accepted_ += accepted;
-    rate = n_ != 0 ? static_cast<double>(accepted) / static_cast<double>(n_) : 1.0;
+    return accepted;
   }
 
   // One Houdayer move between the two replicas on rung k.
