@@ -162,15 +162,7 @@ class TermBuilder {
     bool fits = range.add(offset_);
     for (const Value v : linear) fits = range.add(v) && fits;
     for (const auto& p : merged) fits = range.add(p.v) && fits;
-    if (!fits) {
-      if constexpr (std::is_integral_v<Value>) {
-        return Status::error(StatusCode::energy_overflow,
-                             "the energy range (|offset| + sum of |coefficients|) exceeds 2^61 - 1 and could overflow the 64-bit accumulator; scale the coefficients down or use a floating Value");
-      } else {
-        return Status::error(StatusCode::energy_overflow,
-                             "the energy range (|offset| + sum of |coefficients|) exceeds DBL_MAX/4, so flip deltas could overflow to infinity; scale the coefficients down");
-      }
-    }
+    if (!fits) return Status::error(StatusCode::energy_overflow, build_range_message<Value>());
 
     // Compressed rows, both directions; rows come out sorted because `merged` is sorted.
     std::vector<std::size_t> row(n + 1, 0);

@@ -165,6 +165,16 @@ constexpr const char* range_message(bool offset) noexcept {
   }
 }
 
+// The refusal of a model (built, or viewed over caller arrays) whose range passes the limit.
+template <class Value>
+constexpr const char* build_range_message() noexcept {
+  if constexpr (std::is_integral_v<Value>) {
+    return "the energy range (|offset| + sum of |coefficients|) exceeds 2^61 - 1 and could overflow the 64-bit accumulator; scale the coefficients down or use a floating Value";
+  } else {
+    return "the energy range (|offset| + sum of |coefficients|) exceeds DBL_MAX/4, so flip deltas could overflow to infinity; scale the coefficients down";
+  }
+}
+
 template <class Value>
 constexpr bool is_finite(Value v) noexcept {
   if constexpr (std::is_floating_point_v<Value>) {

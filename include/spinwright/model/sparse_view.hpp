@@ -80,15 +80,7 @@ class SparseModelView {
         if (j > i) fits = range.add(values[k]) && fits;
       }
     }
-    if (!fits) {
-      if constexpr (std::is_integral_v<Value>) {
-        return Status::error(StatusCode::energy_overflow,
-                             "the energy range (|offset| + sum of |coefficients|) exceeds 2^61 - 1 and could overflow the 64-bit accumulator; scale the coefficients down or use a floating Value");
-      } else {
-        return Status::error(StatusCode::energy_overflow,
-                             "the energy range (|offset| + sum of |coefficients|) exceeds DBL_MAX/4, so flip deltas could overflow; scale the coefficients down");
-      }
-    }
+    if (!fits) return Status::error(StatusCode::energy_overflow, detail::build_range_message<Value>());
     v.bound_ = range.bound();
     return v;
   }
