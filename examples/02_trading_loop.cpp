@@ -1,13 +1,13 @@
 // Trading loop: a desk holds exactly K of N instruments, chosen by cardinality-constrained
 // mean-variance selection (problems/selection.hpp). Every tick the expected returns drift; the
-// unary coefficients are edited in place (edit_linear keeps the held book's energy exact), and
+// unary coefficients are edited in place (edit_site_term keeps the held book's energy exact), and
 // one Annealer, built once, warm-starts from the held answer for a small fixed sweep budget.
-// The Exchange move keeps exactly K chosen. Each answer is checked: feasible, energy equal to
+// The CountKeepingSwap move keeps exactly K chosen. Each answer is checked: feasible, energy equal to
 // the model's energy recomputed, and equal to the optimum found by exact enumeration.
 // All data are invented for this example (12 instruments in 3 sectors, drifts from a fixed seed).
 #include <spinwright/kernels/anneal.hpp>
 #include <spinwright/kernels/exact.hpp>
-#include <spinwright/moves/exchange.hpp>
+#include <spinwright/moves/count_keeping_swap.hpp>
 #include <spinwright/problems/selection.hpp>
 
 #include <cstdint>
@@ -36,7 +36,7 @@ int main() {
   for (std::size_t i = 0; i < k; ++i) start[i] = -1;  // hold the first K (spin -1 = bit 1 = chosen)
   book.set_spins(start.data());
 
-  // The automatic beta range would follow the penalty terms (hundreds), which Exchange never
+  // The beta span from the model would follow the penalty terms (hundreds), which CountKeepingSwap never
   // pays; exchange deltas are integers of a few tens, so: uphill 40 accepted with probability
   // 1/2 at the start, uphill 1 with probability 1e-3 at the end. 40 sweeps of n exchanges.
   AnnealParams params;
@@ -48,9 +48,9 @@ int main() {
   // of two dividing every delta): with an odd unary term that power is 1, valid whatever the
   // edits. The Annealer's state is resynchronised by every warm_start().
   bool odd = false;
-  for (std::size_t i = 0; i < n; ++i) odd = odd || model.linear(static_cast<Model::index_type>(i)) % 2 != 0;
+  for (std::size_t i = 0; i < n; ++i) odd = odd || model.site_term(static_cast<Model::index_type>(i)) % 2 != 0;
   if (!odd) return 1;
-  Annealer<Model, Exchange<Model>> desk(model, params, seed);
+  Annealer<Model, CountKeepingSwap<Model>> desk(model, params, seed);
   Xoshiro256 market = Xoshiro256::for_restart(seed, 99);
   int failures = 0;
   for (std::uint64_t tick = 0; tick < 8; ++tick) {
@@ -58,7 +58,7 @@ int main() {
       for (std::size_t i = 0; i < n; ++i) {  // returns drift by -6..+6: unary Q_ii = lambda C_ii - mu_i + penalty
         const int drift = static_cast<int>(market.below(13)) - 6;
         const auto ii = static_cast<Model::index_type>(i);
-        if (!edit_linear(model, book, ii, model.linear(ii) - drift)) return 1;
+        if (!edit_site_term(model, book, ii, model.site_term(ii) - drift)) return 1;
       }
     }
     const auto held = book.energy();  // the held position marked to the new returns, kept exact

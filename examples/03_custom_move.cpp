@@ -78,7 +78,7 @@ int main() {
   QuboBuilder<int> full = objective;  // + one shift per worker, so enumeration agrees with the move
   ConstraintSet one_shift(workers * shifts);
   for (std::uint32_t w = 0; w < workers && weight; ++w) {
-    if (!add_exactly_one(full, one_shift, {bit(w, 0), bit(w, 1), bit(w, 2)}, *weight)) return 1;
+    if (!add_one_hot(full, one_shift, {bit(w, 0), bit(w, 1), bit(w, 2)}, *weight)) return 1;
   }
   auto model = full.build();
   auto exact = model ? solve_exact(*model) : Result<ExactResult<std::int64_t>>(model.status());

@@ -53,7 +53,7 @@ double reference_ns(int g, int phase) {
   const int key = g * 2 + phase;
   if (auto it = cache.find(key); it != cache.end()) return it->second;
   const auto& model = model_for<Value>(g);
-  const BetaRange range = auto_beta_range(model);
+  const BetaSpan range = estimate_beta_span(model);
   reference::PlainAnnealer<Value> ref(model, 1);
   const Schedule sched = Schedule::geometric(range.beta_start, range.beta_end);
   if (phase == cold) {
@@ -88,7 +88,7 @@ void bench_anneal(benchmark::State& st) {
   std::uint64_t attempts = 0;
   double seconds = 0;  // measured here so that the ratio to the reference is a counter
   if (phase == cold) {
-    const BetaRange range = auto_beta_range(model);
+    const BetaSpan range = estimate_beta_span(model);
     p.schedule = Schedule::constant(range.beta_end);
     Annealer<IsingModel<Value>> a(model, p, 1);
     a.step(20);

@@ -1,4 +1,4 @@
-// Quality, not speed: how the automatic beta range (kernels/schedule.hpp, docs/moves.md)
+// Quality, not speed: how the beta span from the model (kernels/schedule.hpp, docs/moves.md)
 // compares with ranges scaled around it. For G11, G22 (G-set, best known cuts from
 // reference.csv) and bqp250-1 (proven optimum), int32 couplings, 8 restarts of 2000 sweeps:
 // counters mean_cut, best_cut and hits (restarts reaching the reference cut), for beta_start
@@ -32,7 +32,7 @@ void bench_range(benchmark::State& st) {
   const auto g = anneal_support::read_edge_list(std::string(SPINWRIGHT_DATA_DIR) + "/maxcut/" + inst.file);
   const auto model = anneal_support::maxcut_model<std::int32_t>(g);
   const auto w = total_weight(model);
-  const BetaRange r = auto_beta_range(model);
+  const BetaSpan r = estimate_beta_span(model);
   AnnealParams p;
   p.sweeps = 2000;
   p.schedule = Schedule::geometric(r.beta_start * fs, r.beta_end * fe);

@@ -89,7 +89,7 @@ Outcome run_one(int kernel, int inst, std::uint64_t seed) {
                           Budget{}.with_sweeps(~std::uint64_t{0}).with_time_limit(cap, cpu_clock()).with_target(target));
     best = s.energy;
   } else {
-    const auto s = tabu_search(x.model, TabuParams{}, seed, 0,
+    const auto s = tabu_walk(x.model, TabuParams{}, seed, 0,
                                Budget{}.with_sweeps(~std::uint64_t{0}).with_time_limit(cap, cpu_clock()).with_target(target));
     best = s.energy;
   }

@@ -33,7 +33,7 @@ DenseQuboModel<std::int32_t> dense_qubo(std::size_t n) {
   Xoshiro256 rng(256);
   auto m = DenseQuboModel<std::int32_t>::zeros(n).value();
   for (std::uint32_t i = 0; i < n; ++i) {
-    (void)m.set_linear(i, static_cast<std::int32_t>(rng.below(201)) - 100);
+    (void)m.set_site_term(i, static_cast<std::int32_t>(rng.below(201)) - 100);
     for (std::uint32_t j = i + 1; j < n; ++j) (void)m.set_pair(i, j, static_cast<std::int32_t>(rng.below(201)) - 100);
   }
   return m;
@@ -66,7 +66,7 @@ void run(benchmark::State& st, Model model, std::uint64_t warm_sweeps) {
   const std::size_t edits = std::max<std::size_t>(1, pairs.size() / 100);
   AnnealParams cold_params;  // the automatic schedule
   Annealer<Model> cold_probe(model, cold_params, 1);
-  const BetaRange range = cold_probe.beta_range();
+  const BetaSpan range = cold_probe.beta_span();
   AnnealParams warm_params;
   warm_params.sweeps = warm_sweeps;
   warm_params.schedule = Schedule::geometric(range.beta_end * 0.2, range.beta_end);  // stay cold: keep the answer

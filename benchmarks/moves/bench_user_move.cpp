@@ -47,7 +47,7 @@ double ns_per_attempt(bool cold, std::uint64_t sweeps) {
   AnnealParams p;
   p.order = SiteOrder::random;
   p.sweeps = 100;
-  if (cold) p.schedule = Schedule::constant(auto_beta_range(m).beta_end);
+  if (cold) p.schedule = Schedule::constant(estimate_beta_span(m).beta_end);
   Annealer<Model, Move> a(m, p, Move{}, 1);
   a.step(5);
   const std::uint64_t before = a.attempted();

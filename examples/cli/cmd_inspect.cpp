@@ -46,7 +46,10 @@ int run_inspect(int argc, const char* const* argv) {
   const ModelFigures g = figures_of(m);
   const bool ising = m.form == spinwright::Form::ising;
   const char* linear_name = ising ? "fields" : "unary";
-  const char* pair_name = ising ? "couplings" : "pairs";
+  // Count and value range get different labels; nodes only for graphs, spins or variables otherwise.
+  const char* count_name = m.graph ? "edges" : (ising ? "couplings" : "pairs");
+  const char* range_name = ising ? "coupling values" : "pair values";
+  const char* unit = m.graph ? "node" : (ising ? "spin" : "variable");
   const AutoPick chosen = auto_choice(m);
   std::string report;
   if (json) {
@@ -63,9 +66,9 @@ int run_inspect(int argc, const char* const* argv) {
     j.member("max_degree", static_cast<std::uint64_t>(g.max_degree));
     j.member("mean_degree", g.mean_degree);
     j.member("density", g.density);
-    j.member("linear_nonzero", static_cast<std::uint64_t>(g.linear_nonzero));
-    j.member("linear_min", g.linear_min);
-    j.member("linear_max", g.linear_max);
+    j.member("site_terms_nonzero", static_cast<std::uint64_t>(g.site_terms_nonzero));
+    j.member("site_term_min", g.site_term_min);
+    j.member("site_term_max", g.site_term_max);
     j.member("pair_min", g.pair_min);
     j.member("pair_max", g.pair_max);
     j.member("offset", g.offset);
@@ -83,20 +86,20 @@ int run_inspect(int argc, const char* const* argv) {
     t.line("file", m.path);
     t.line("format", m.description);
     t.line("form", ising ? "Ising (spins +1/-1)" : "QUBO (bits 0/1)");
-    t.line(m.graph ? "nodes" : "variables", std::to_string(g.nodes));
+    t.line(std::string(unit) + "s", std::to_string(g.nodes));
     std::snprintf(buf, sizeof buf, " (density %.3g%%)", 100 * g.density);
-    t.line(m.graph ? "edges" : "pairs", std::to_string(g.pairs) + buf);
+    t.line(count_name, std::to_string(g.pairs) + buf);
     std::snprintf(buf, sizeof buf, ", mean %.3g", g.mean_degree);
     t.line("degree", std::to_string(g.min_degree) + " .. " + std::to_string(g.max_degree) + buf);
     if (m.graph) {
       t.line("weights", g.pairs == 0 ? "none" : range_text(g.pair_min, g.pair_max));
     } else {
-      t.line(linear_name, std::to_string(g.linear_nonzero) + " non-zero, " + range_text(g.linear_min, g.linear_max));
-      t.line(pair_name, g.pairs == 0 ? "none" : range_text(g.pair_min, g.pair_max));
+      t.line(linear_name, std::to_string(g.site_terms_nonzero) + " non-zero, " + range_text(g.site_term_min, g.site_term_max));
+      t.line(range_name, g.pairs == 0 ? "none" : range_text(g.pair_min, g.pair_max));
     }
     t.line("offset", number_text(g.offset));
     t.line("components", std::to_string(g.components) + " (largest " + std::to_string(g.largest_component) +
-                             (g.largest_component == 1 ? " node)" : " nodes)"));
+                             " " + unit + (g.largest_component == 1 ? ")" : "s)"));
     t.line("memory", bytes_text(g.model_bytes) + " model + " + bytes_text(g.state_bytes) + " per restart");
     t.line("auto kernel", std::string(kernel_name(chosen.kernel)) +
                               (chosen.sweeps > 0 ? ", " + std::to_string(chosen.sweeps) + " sweeps per restart" : "") +

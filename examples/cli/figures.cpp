@@ -32,10 +32,10 @@ void fill(const Model& m, ModelFigures& f) {
   bool first_pair = true;
   for (std::size_t i = 0; i < n; ++i) {
     const auto ii = static_cast<Index>(i);
-    const double lin = m.linear(ii);
-    if (lin != 0) ++f.linear_nonzero;
-    f.linear_min = i == 0 ? lin : std::min(f.linear_min, lin);
-    f.linear_max = i == 0 ? lin : std::max(f.linear_max, lin);
+    const double lin = m.site_term(ii);
+    if (lin != 0) ++f.site_terms_nonzero;
+    f.site_term_min = i == 0 ? lin : std::min(f.site_term_min, lin);
+    f.site_term_max = i == 0 ? lin : std::max(f.site_term_max, lin);
     const std::size_t d = m.degree(ii);
     f.min_degree = i == 0 ? d : std::min(f.min_degree, d);
     f.max_degree = std::max(f.max_degree, d);
@@ -59,7 +59,7 @@ void fill(const Model& m, ModelFigures& f) {
   }
   f.mean_degree = n == 0 ? 0 : 2.0 * static_cast<double>(f.pairs) / static_cast<double>(n);
   f.density = n < 2 ? 0 : static_cast<double>(f.pairs) / (0.5 * static_cast<double>(n) * static_cast<double>(n - 1));
-  // CSR storage: linear terms, row starts, and both directions of every pair.
+  // CSR storage: site terms, row starts, and both directions of every pair.
   f.model_bytes = static_cast<double>(n) * sizeof(double) + static_cast<double>(n + 1) * sizeof(std::size_t) +
                   2.0 * static_cast<double>(f.pairs) * (sizeof(double) + sizeof(Index));
   // SpinState: one spin, one local field (energy type) and one mark byte per spin.

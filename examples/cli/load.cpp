@@ -29,7 +29,7 @@ spinwright::Result<spinwright::SparseModel<F, double, std::uint32_t>> to_double(
   b.reserve(m.num_pairs());
   for (std::size_t i = 0; i < n; ++i) {
     const auto ii = static_cast<Index>(i);
-    const double lin = static_cast<double>(m.linear(ii));
+    const double lin = static_cast<double>(m.site_term(ii));
     if constexpr (F == spinwright::Form::ising) {
       b.add_field(i, lin);
     } else {

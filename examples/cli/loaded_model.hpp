@@ -65,9 +65,9 @@ struct ModelFigures {
   std::size_t max_degree = 0;
   double mean_degree = 0;
   double density = 0;            // pairs / (N (N - 1) / 2)
-  std::size_t linear_nonzero = 0;
-  double linear_min = 0;         // over all N linear terms (fields or unary terms)
-  double linear_max = 0;
+  std::size_t site_terms_nonzero = 0;
+  double site_term_min = 0;         // over all N site terms (fields or unary terms)
+  double site_term_max = 0;
   double pair_min = 0;           // over stored pairs (0 when none)
   double pair_max = 0;
   double offset = 0;

@@ -159,7 +159,7 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
     case Kernel::tabu: {
       spinwright::TabuParams p;
       p.initial = warm;
-      s = spinwright::tabu_search(model, p, o.seed, r, budget, observer);
+      s = spinwright::tabu_walk(model, p, o.seed, r, budget, observer);
       break;
     }
     case Kernel::exact:

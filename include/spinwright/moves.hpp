@@ -3,7 +3,7 @@
 #define SPINWRIGHT_MOVES_HPP
 
 #include "config.hpp"
-#include "moves/exchange.hpp"
+#include "moves/count_keeping_swap.hpp"
 #include "moves/group_flip.hpp"
 #include "moves/move.hpp"
 #include "moves/single_flip.hpp"

@@ -38,7 +38,7 @@ TEST_CASE("every kernel runs in this build mode") {
   CHECK(anneal(m, ap, 1).energy == -3);
   TabuParams tp;
   tp.sweeps = 20;
-  CHECK(tabu_search(m, tp, 1).energy == -3);
+  CHECK(tabu_walk(m, tp, 1).energy == -3);
   TemperParams pp;
   pp.sweeps = 100;
   CHECK(temper(m, pp, 1).energy == -3);

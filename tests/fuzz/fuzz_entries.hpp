@@ -190,7 +190,7 @@ Acc naive_energy(const Model& m, const std::int8_t* s) {
   const std::size_t n = m.num_spins();
   for (std::size_t i = 0; i < n; ++i) {
     const auto ii = static_cast<typename Model::index_type>(i);
-    const Acc h = static_cast<Acc>(m.linear(ii));
+    const Acc h = static_cast<Acc>(m.site_term(ii));
     if constexpr (Model::form == Form::ising) {
       e += h * s[i];
     } else if (s[i] < 0) {
@@ -216,7 +216,7 @@ Acc abs_sum(const Model& m) {
   const std::size_t n = m.num_spins();
   for (std::size_t i = 0; i < n; ++i) {
     const auto ii = static_cast<typename Model::index_type>(i);
-    sum += mag(static_cast<Acc>(m.linear(ii)));
+    sum += mag(static_cast<Acc>(m.site_term(ii)));
     m.for_each_neighbour(ii, [&](typename Model::index_type j, typename Model::value_type v) {
       if (j > ii) sum += mag(static_cast<Acc>(v));
     });
@@ -241,7 +241,7 @@ Failure check_structure(const Model& m, bool edited = false) {
   }
   for (std::size_t i = 0; i < n; ++i) {
     if (row[i + 1] < row[i]) return "row starts decrease";
-    if (!finite_value(m.linear(static_cast<Index>(i)))) return "non-finite linear term in a built model";
+    if (!finite_value(m.site_term(static_cast<Index>(i)))) return "non-finite site term in a built model";
     const auto ii = static_cast<Index>(i);
     bool first = true;
     Index last = 0;
@@ -517,11 +517,11 @@ Failure builder_case(ByteReader& r, bool fixed, std::uint64_t declared, std::uin
   }
   std::size_t expected_pairs = 0;
   for (std::size_t i = 0; i < n; ++i) {
-    const Value got = m.linear(static_cast<Index>(i));
+    const Value got = m.site_term(static_cast<Index>(i));
     if constexpr (integral) {
-      if (static_cast<Wide>(got) != lin_w[i]) return "linear term differs from the exact sum";
+      if (static_cast<Wide>(got) != lin_w[i]) return "site term differs from the exact sum";
     } else {
-      if (!(got == static_cast<Value>(lin_f[i]))) return "linear term differs from the ordered sum";
+      if (!(got == static_cast<Value>(lin_f[i]))) return "site term differs from the ordered sum";
     }
   }
   if constexpr (integral) {
@@ -588,8 +588,8 @@ Failure builder_case(ByteReader& r, bool fixed, std::uint64_t declared, std::uin
         Wide c = m.offset(), total = 0;
         for (std::size_t i = 0; i < n && !need; ++i) {
           const auto ii = static_cast<Index>(i);
-          Wide qii = -2 * static_cast<Wide>(m.linear(ii));
-          c += m.linear(ii);
+          Wide qii = -2 * static_cast<Wide>(m.site_term(ii));
+          c += m.site_term(ii);
           m.for_each_neighbour(ii, [&](Index j, Value v) {
             qii -= 2 * static_cast<Wide>(v);
             if (j > ii) {
@@ -631,7 +631,7 @@ Failure builder_case(ByteReader& r, bool fixed, std::uint64_t declared, std::uin
     if constexpr (integral) {
       if (d->energy(spins.data()) != m.energy(spins.data())) return "dense copy changed an integer energy";
       // A no-op edit of the largest term must be accepted (the copy's range is exact).
-      if (!d->set_linear(0, m.linear(0)) || !d->set_offset(m.offset())) return "dense copy refused a no-op edit";
+      if (!d->set_site_term(0, m.site_term(0)) || !d->set_offset(m.offset())) return "dense copy refused a no-op edit";
     } else {
       const long double diff = magnitude(static_cast<long double>(d->energy(spins.data())) - m.energy(spins.data()));
       if (diff > 1e-9L * m.energy_bound() + 1e-300L) return "dense copy changed a floating energy";
@@ -660,7 +660,7 @@ Failure builder_case(ByteReader& r, bool fixed, std::uint64_t declared, std::uin
         const Value v = decode_value<Value>(r);
         const bool big = (op & 0x40) != 0;
         const Index target = big ? static_cast<Index>(n + (op >> 7)) : i;
-        const Value old = target < n ? m.linear(target) : Value{0};
+        const Value old = target < n ? m.site_term(target) : Value{0};
         const double old_bound = m.energy_bound();
         bool expect = target < n && finite_value(v);
         if constexpr (integral) {
@@ -669,14 +669,14 @@ Failure builder_case(ByteReader& r, bool fixed, std::uint64_t declared, std::uin
             expect = proposed <= static_cast<Wide>(integer_energy_limit);
           }
         }
-        const Status s = edit_linear(m, st, target, v);
-        if (integral && s.ok() != expect) return "edit_linear accepted or refused against the exact range";
-        if (!integral && s.ok() && !expect) return "edit_linear accepted a bad index or value";
+        const Status s = edit_site_term(m, st, target, v);
+        if (integral && s.ok() != expect) return "edit_site_term accepted or refused against the exact range";
+        if (!integral && s.ok() && !expect) return "edit_site_term accepted a bad index or value";
         if (!s.ok()) {
-          if (target < n && !(m.linear(target) == old)) return "refused edit_linear changed the model";
-          if (m.energy_bound() != old_bound) return "refused edit_linear changed the bound";
-        } else if (!(m.linear(target) == v)) {
-          return "edit_linear did not store the value";
+          if (target < n && !(m.site_term(target) == old)) return "refused edit_site_term changed the model";
+          if (m.energy_bound() != old_bound) return "refused edit_site_term changed the bound";
+        } else if (!(m.site_term(target) == v)) {
+          return "edit_site_term did not store the value";
         }
         break;
       }
@@ -789,7 +789,7 @@ Failure same_model(const Model& a, const Model& b) {
   if (a.num_spins() != b.num_spins() || a.num_pairs() != b.num_pairs()) return "round trip changed the size";
   if (!(a.offset() == b.offset())) return "round trip changed the offset";
   for (std::size_t i = 0; i < a.num_spins(); ++i) {
-    if (!(a.linear(static_cast<Index>(i)) == b.linear(static_cast<Index>(i)))) return "round trip changed a linear term";
+    if (!(a.site_term(static_cast<Index>(i)) == b.site_term(static_cast<Index>(i)))) return "round trip changed a site term";
   }
   if (a.row_starts() != b.row_starts() || a.neighbour_array() != b.neighbour_array()) return "round trip changed the pattern";
   for (std::size_t k = 0; k < a.value_array().size(); ++k) {
@@ -820,7 +820,7 @@ Failure edge_list_case(std::string_view text, const spinwright::io::ReadOptions&
   const auto& m = read.value();
   if (Failure f = check_read_model(m, opt.max_spins, seed)) return f;
   for (std::size_t i = 0; i < m.num_spins(); ++i) {
-    if (m.linear(static_cast<Index>(i)) != Value{0}) return "edge list produced a field";
+    if (m.site_term(static_cast<Index>(i)) != Value{0}) return "edge list produced a field";
   }
   if (m.offset() != energy_t<Value>{0}) return nullptr;  // self-loops: the format cannot write it back
   auto text2 = io::format_edge_list(m);

@@ -157,7 +157,7 @@ TEST_CASE("a stop from another thread ends tabu search within one sweep, keeping
   sw::TabuParams p;
   p.progress_every = 1;
   const auto s = run_with_stop_from_other_thread(token, obs, [&](Rendezvous& o) {
-    return sw::tabu_search(m, p, 9, 0, far_budget(token), o);
+    return sw::tabu_walk(m, p, 9, 0, far_budget(token), o);
   });
   REQUIRE(obs.met);
   CHECK(s.reason == sw::StopReason::stopped);
@@ -206,7 +206,7 @@ TEST_CASE("a stop requested before the run starts ends every kernel before its f
   const sw::Budget budget = far_budget(token);
   const auto a = sw::anneal(m, sw::AnnealParams{}, 1, 0, budget);
   const auto t = sw::temper(m, sw::TemperParams{}, 1, 0, budget);
-  const auto u = sw::tabu_search(m, sw::TabuParams{}, 1, 0, budget);
+  const auto u = sw::tabu_walk(m, sw::TabuParams{}, 1, 0, budget);
   const auto d = sw::descend(m, sw::DescentParams{}, 1, 0, budget);
   for (const auto* s : {&a, &u, &d}) {
     CHECK(s->reason == sw::StopReason::stopped);

@@ -36,9 +36,9 @@ Wide wide_energy(const Model& m, const std::int8_t* s) {
   for (std::uint32_t i = 0; i < m.num_spins(); ++i) {
     const auto ii = static_cast<typename Model::index_type>(i);
     if constexpr (Model::form == sw::Form::ising) {
-      e += static_cast<Wide>(m.linear(ii)) * s[i];
+      e += static_cast<Wide>(m.site_term(ii)) * s[i];
     } else if (s[i] < 0) {
-      e += m.linear(ii);
+      e += m.site_term(ii);
     }
     m.for_each_neighbour(ii, [&](typename Model::index_type j, typename Model::value_type v) {
       if (j <= ii) return;
@@ -57,7 +57,7 @@ Wide wide_range(const Model& m) {
   Wide r = mag(m.offset());
   for (std::uint32_t i = 0; i < m.num_spins(); ++i) {
     const auto ii = static_cast<typename Model::index_type>(i);
-    r += mag(m.linear(ii));
+    r += mag(m.site_term(ii));
     m.for_each_neighbour(ii, [&](typename Model::index_type j, typename Model::value_type v) {
       if (j > ii) r += mag(v);
     });
@@ -156,7 +156,7 @@ TEST_CASE("builders accept an energy range of exactly integer_energy_limit and r
   CHECK(e.build().status().code == sw::StatusCode::value_out_of_range);
 }
 
-TEST_CASE("set_linear, set_pair and set_offset refuse edits past the limit and leave the model unchanged") {
+TEST_CASE("set_site_term, set_pair and set_offset refuse edits past the limit and leave the model unchanged") {
   sw::IsingBuilder<std::int64_t> b;
   b.add_field(0, L - 100).add_coupling(0, 1, 50).add_field(1, -10).add_offset(-40);
   auto built = b.build();
@@ -164,24 +164,24 @@ TEST_CASE("set_linear, set_pair and set_offset refuse edits past the limit and l
   auto& m = built.value();
   REQUIRE(wide_range(m) == L);
 
-  CHECK(m.set_linear(1, -11).code == sw::StatusCode::energy_overflow);
-  CHECK(m.linear(1) == -10);
+  CHECK(m.set_site_term(1, -11).code == sw::StatusCode::energy_overflow);
+  CHECK(m.site_term(1) == -10);
   CHECK(m.set_pair(0, 1, -51).code == sw::StatusCode::energy_overflow);
   CHECK(m.pair(0, 1) == 50);
   CHECK(m.pair(1, 0) == 50);
   CHECK(m.set_offset(41).code == sw::StatusCode::energy_overflow);
   CHECK(m.offset() == -40);
-  CHECK(m.set_linear(0, i64_min).code == sw::StatusCode::energy_overflow);
+  CHECK(m.set_site_term(0, i64_min).code == sw::StatusCode::energy_overflow);
   CHECK(m.set_offset(i64_min).code == sw::StatusCode::energy_overflow);
   CHECK(wide_range(m) == L);
   CHECK(m.energy_bound() == static_cast<double>(L));
 
   // Moving magnitude from one term to another at the limit is allowed.
-  CHECK(m.set_linear(1, 0).ok());
+  CHECK(m.set_site_term(1, 0).ok());
   CHECK(m.set_pair(0, 1, -60).ok());
   CHECK(m.set_offset(40).ok());
   CHECK(wide_range(m) == L);
-  CHECK(m.set_linear(0, -(L - 100)).ok());
+  CHECK(m.set_site_term(0, -(L - 100)).ok());
   CHECK(wide_range(m) == L);
   // Refusals name the term.
   const auto st = m.set_pair(1, 0, 61);
@@ -190,7 +190,7 @@ TEST_CASE("set_linear, set_pair and set_offset refuse edits past the limit and l
   CHECK(st.j == 0);
 }
 
-TEST_CASE("edit_linear, edit_pair and edit_offset at the limit keep a state exact; refused edits change nothing") {
+TEST_CASE("edit_site_term, edit_pair and edit_offset at the limit keep a state exact; refused edits change nothing") {
   sw::Xoshiro256 rng(2024);
   for (int trial = 0; trial < 40; ++trial) {
     const std::uint32_t n = 2 + static_cast<std::uint32_t>(rng.below(9));
@@ -215,15 +215,15 @@ TEST_CASE("edit_linear, edit_pair and edit_offset at the limit keep a state exac
           break;
         }
         case 1: {  // field edit: either exactly fills the room or passes it by one
-          const Wide old = m.linear(i);
+          const Wide old = m.site_term(i);
           const bool over = rng.coin();
           const Wide target = mag(old) + room + (over ? 1 : 0);
           if (target > static_cast<Wide>(i64_max)) break;
           const auto v = static_cast<std::int64_t>(rng.coin() ? target : -target);
-          const sw::Status s = sw::edit_linear(m, st, i, v);
+          const sw::Status s = sw::edit_site_term(m, st, i, v);
           if (over) {
             REQUIRE(s.code == sw::StatusCode::energy_overflow);
-            REQUIRE(static_cast<Wide>(m.linear(i)) == old);
+            REQUIRE(static_cast<Wide>(m.site_term(i)) == old);
             REQUIRE(st.energy() == before_energy);
           } else {
             REQUIRE(s.ok());
@@ -286,7 +286,7 @@ TEST_CASE("QUBO models at the limit: flips and edits stay exact") {
         st.flip(i);
       } else {
         // Swap the sign of a unary term: same range, large change of every affected field.
-        REQUIRE(sw::edit_linear(m, st, i, -m.linear(i)).ok());
+        REQUIRE(sw::edit_site_term(m, st, i, -m.site_term(i)).ok());
       }
       require_exact(st);
     }
@@ -338,8 +338,8 @@ TEST_CASE("qubo_from refuses Ising models whose QUBO form does not fit, and is e
     const auto& m = built.value();
     Wide qrange = 0, c = m.offset();
     for (std::uint32_t i = 0; i < n; ++i) {
-      Wide qii = -2 * static_cast<Wide>(m.linear(i));
-      c += m.linear(i);
+      Wide qii = -2 * static_cast<Wide>(m.site_term(i));
+      c += m.site_term(i);
       m.for_each_neighbour(i, [&](std::uint32_t j, std::int64_t v) {
         qii -= 2 * static_cast<Wide>(v);
         if (j > i) {
@@ -368,12 +368,12 @@ TEST_CASE("dense copies of integer models at the limit keep the exact range") {
   auto dm = sw::DenseIsingModel<std::int64_t>::from(sm.value());
   REQUIRE(dm.ok());
   auto& d = dm.value();
-  CHECK(d.set_linear(0, L - 200).ok());  // no-op edit at the limit
-  CHECK(d.set_linear(1, 2).code == sw::StatusCode::energy_overflow);
+  CHECK(d.set_site_term(0, L - 200).ok());  // no-op edit at the limit
+  CHECK(d.set_site_term(1, 2).code == sw::StatusCode::energy_overflow);
   CHECK(d.set_pair(0, 1, -200).code == sw::StatusCode::energy_overflow);
   CHECK(d.set_pair(0, 1, -199).ok());
   CHECK(d.set_offset(1).code == sw::StatusCode::energy_overflow);
-  CHECK(d.set_linear(1, 0).ok());
+  CHECK(d.set_site_term(1, 0).ok());
   CHECK(d.set_offset(-1).ok());
   sw::SpinState<sw::DenseIsingModel<std::int64_t>> st(d);
   for (int k = 0; k < 20; ++k) {

@@ -104,8 +104,8 @@ TEST_CASE("floating models whose flip deltas could reach infinity are refused") 
   // Edits that would pass the limit are refused and leave the model as it was.
   CHECK(m->set_offset(1e300).code == sw::StatusCode::energy_overflow);
   CHECK(m->offset() == 0);
-  CHECK(m->set_linear(0, sw::float_energy_limit / 2).code == sw::StatusCode::energy_overflow);
-  CHECK(m->linear(0) == 0);
+  CHECK(m->set_site_term(0, sw::float_energy_limit / 2).code == sw::StatusCode::energy_overflow);
+  CHECK(m->site_term(0) == 0);
   CHECK(m->set_pair(0, 1, sw::float_energy_limit).code == sw::StatusCode::energy_overflow);
   CHECK(m->pair(0, 1) == sw::float_energy_limit / 2);
   CHECK(m->energy_bound() == sw::float_energy_limit);
@@ -113,7 +113,7 @@ TEST_CASE("floating models whose flip deltas could reach infinity are refused") 
   auto dm = sw::DenseIsingModel<double>::from(m.value());
   REQUIRE(dm.ok());
   CHECK(dm->set_offset(1e300).code == sw::StatusCode::energy_overflow);
-  CHECK(dm->set_linear(0, 1e300).code == sw::StatusCode::energy_overflow);
+  CHECK(dm->set_site_term(0, 1e300).code == sw::StatusCode::energy_overflow);
   CHECK(dm->offset() == 0);
 }
 
@@ -128,14 +128,14 @@ TEST_CASE_TEMPLATE("in-place edits refuse NaN and infinity and leave model and s
   st.randomize(rng);
   const double energy = st.energy();
   for (const Value bad : bad_values<Value>) {
-    CHECK(m.set_linear(0, bad).code == sw::StatusCode::non_finite_value);
+    CHECK(m.set_site_term(0, bad).code == sw::StatusCode::non_finite_value);
     CHECK(m.set_pair(0, 1, bad).code == sw::StatusCode::non_finite_value);
     CHECK(m.set_offset(static_cast<double>(bad)).code == sw::StatusCode::non_finite_value);
-    CHECK(sw::edit_linear(m, st, 2, bad).code == sw::StatusCode::non_finite_value);
+    CHECK(sw::edit_site_term(m, st, 2, bad).code == sw::StatusCode::non_finite_value);
     CHECK(sw::edit_pair(m, st, 2, 1, bad).code == sw::StatusCode::non_finite_value);
     CHECK(sw::edit_offset(m, st, static_cast<double>(bad)).code == sw::StatusCode::non_finite_value);
   }
-  CHECK(m.linear(0) == 1);
+  CHECK(m.site_term(0) == 1);
   CHECK(m.pair(1, 0) == -2);
   CHECK(m.pair(2, 1) == 3);
   CHECK(m.offset() == 0.5);
@@ -146,11 +146,11 @@ TEST_CASE_TEMPLATE("in-place edits refuse NaN and infinity and leave model and s
   auto dm = sw::DenseModel<sw::Form::ising, Value>::from(m);
   REQUIRE(dm.ok());
   for (const Value bad : bad_values<Value>) {
-    CHECK(dm->set_linear(1, bad).code == sw::StatusCode::non_finite_value);
+    CHECK(dm->set_site_term(1, bad).code == sw::StatusCode::non_finite_value);
     CHECK(dm->set_pair(0, 2, bad).code == sw::StatusCode::non_finite_value);
     CHECK(dm->set_offset(static_cast<double>(bad)).code == sw::StatusCode::non_finite_value);
   }
-  CHECK(dm->linear(1) == 0);
+  CHECK(dm->site_term(1) == 0);
   CHECK(dm->pair(2, 0) == 0);
 }
 
@@ -170,7 +170,7 @@ TEST_CASE("conversions of floating models never produce NaN or infinity") {
   REQUIRE(qm.ok());
   const auto im = sw::ising_from(qm.value());
   REQUIRE(im.ok());
-  for (std::uint32_t i = 0; i < 2; ++i) CHECK(finite(im->linear(i)));
+  for (std::uint32_t i = 0; i < 2; ++i) CHECK(finite(im->site_term(i)));
   CHECK(finite(im->pair(0, 1)));
   CHECK(finite(im->offset()));
 }

@@ -79,7 +79,7 @@ TEST_CASE("annealing step/reset/warm_start do not allocate") {
       check_annealer(ml, SingleFlip<IsingModel<std::int64_t>>(order), rule, order);
       check_annealer(dense, SingleFlip<DenseIsingModel<std::int32_t>>(order), rule, order);
     }
-    check_annealer(mi, Exchange<IsingModel<std::int32_t>>{}, rule, SiteOrder::random);
+    check_annealer(mi, CountKeepingSwap<IsingModel<std::int32_t>>{}, rule, SiteOrder::random);
     const std::vector<std::vector<std::uint32_t>> groups = {{0, 1, 2}, {3, 4}, {10, 200, 300}};
     check_annealer(md, GroupFlip<IsingModel<double>>(groups), rule, SiteOrder::random);
   }
@@ -92,6 +92,6 @@ TEST_CASE("descent step/reset/warm_start do not allocate") {
   for (const DescentRule rule : {DescentRule::steepest, DescentRule::first_improvement}) {
     check_descender(mi, SingleFlip<IsingModel<std::int32_t>>{}, rule);
     check_descender(md, SingleFlip<IsingModel<double>>{}, rule);
-    check_descender(mi, Exchange<IsingModel<std::int32_t>>{}, rule);
+    check_descender(mi, CountKeepingSwap<IsingModel<std::int32_t>>{}, rule);
   }
 }

@@ -45,12 +45,12 @@ TEST_CASE("arena-built moves and descent") {
   std::vector<std::int8_t> start(n, 1);
   for (std::size_t i = 0; i < n; i += 3) start[i] = -1;
   p.initial = start.data();
-  std::vector<unsigned char> memory(Annealer<Model, Exchange<Model>>::bytes_needed(model, p) + Exchange<Model>::bytes_needed(n) +
+  std::vector<unsigned char> memory(Annealer<Model, CountKeepingSwap<Model>>::bytes_needed(model, p) + CountKeepingSwap<Model>::bytes_needed(n) +
                                     Descender<Model>::bytes_needed(model));
   Arena arena(memory.data(), memory.size());
-  Exchange<Model> ex(n, arena);
+  CountKeepingSwap<Model> ex(n, arena);
   REQUIRE(ex.valid());
-  Annealer<Model, Exchange<Model>> a(model, p, std::move(ex), arena, 4);
+  Annealer<Model, CountKeepingSwap<Model>> a(model, p, std::move(ex), arena, 4);
   REQUIRE(a.valid());
   a.step(100);
   int down = 0;

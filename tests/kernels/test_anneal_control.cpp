@@ -142,7 +142,7 @@ TEST_CASE("schedules: geometric, linear, constant and a user function") {
   // Automatic range: documented rule.
   p.schedule = Schedule{};
   Annealer<IsingModel<double>> d(model, p, 1);
-  const BetaRange r = d.beta_range();
+  const BetaSpan r = d.beta_span();
   CHECK(r.beta_start == doctest::Approx(std::log(2.0) / r.hot_delta));
   CHECK(r.beta_end == doctest::Approx(std::log(1000.0) / r.cold_delta));
   CHECK(r.cold_delta == doctest::Approx(2.0));  // Ising, smallest |J| = 1

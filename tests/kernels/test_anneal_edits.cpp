@@ -36,7 +36,7 @@ TEST_CASE("Annealer: warm start after edits that make deltas finer equals a fres
   // Odd edits: deltas are now multiples of 2 only.
   SpinState<IsingModel<std::int32_t>> book(model);
   book.set_spins(start.data());
-  REQUIRE(edit_linear(model, book, 3, 1).ok());
+  REQUIRE(edit_site_term(model, book, 3, 1).ok());
   REQUIRE(edit_pair(model, book, 10, 11, -3).ok());
   CHECK(book.check().exact);
 
@@ -64,7 +64,7 @@ TEST_CASE("Tempering: warm start after odd edits equals a fresh run on the edite
   reused.step(20);
   std::vector<std::int8_t> start(model.num_spins(), 1);
   SpinState<IsingModel<std::int32_t>> book(model);
-  REQUIRE(edit_linear(model, book, 7, -1).ok());
+  REQUIRE(edit_site_term(model, book, 7, -1).ok());
   reused.warm_start(start.data(), 9);
   reused.step(50);
   Tempering<IsingModel<std::int32_t>> fresh(model, params, 9);

@@ -7,7 +7,7 @@
 #include <spinwright/model/builder.hpp>
 #include <spinwright/model/dense_model.hpp>
 #include <spinwright/model/maxcut.hpp>
-#include <spinwright/moves/exchange.hpp>
+#include <spinwright/moves/count_keeping_swap.hpp>
 
 #include "support/anneal_graph.hpp"
 
@@ -146,7 +146,7 @@ TEST_CASE("exchange descent keeps the cardinality and ends at an exchange local 
   p.initial = start.data();
   for (const DescentRule rule : {DescentRule::steepest, DescentRule::first_improvement}) {
     p.rule = rule;
-    Descender<IsingModel<std::int32_t>, Exchange<IsingModel<std::int32_t>>> d(model, p, 1);
+    Descender<IsingModel<std::int32_t>, CountKeepingSwap<IsingModel<std::int32_t>>> d(model, p, 1);
     const auto s = d.run();
     int down = 0;
     for (auto v : s.spins) down += v < 0;
@@ -155,6 +155,6 @@ TEST_CASE("exchange descent keeps the cardinality and ends at an exchange local 
     st.set_spins(s.spins.data());
     for (std::uint32_t i = 0; i < 200; ++i)
       for (std::uint32_t j = 0; j < 200; ++j)
-        if (st.spin(i) > 0 && st.spin(j) < 0) CHECK(st.delta_exchange(i, j) >= 0);
+        if (st.spin(i) > 0 && st.spin(j) < 0) CHECK(st.delta_swap(i, j) >= 0);
   }
 }

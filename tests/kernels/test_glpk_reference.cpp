@@ -64,7 +64,7 @@ TEST_CASE("20 random sparse QUBOs: exact enumeration equals GLPK, and every kern
     CHECK(t.energy == exact->energy);
 
     TabuParams bp;
-    const auto b = tabu_search(q, bp, 7, 0, Budget{}.with_sweeps(500).with_target(target));
+    const auto b = tabu_walk(q, bp, 7, 0, Budget{}.with_sweeps(500).with_target(target));
     CHECK(b.energy == exact->energy);
   }
 }

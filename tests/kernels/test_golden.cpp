@@ -68,7 +68,7 @@ void answers(const std::string& name, const Model& m, std::map<std::string, std:
   out[name + ".descent"] = line(d.spins.data(), d.spins.size(), d.energy);
   TabuParams tp;
   tp.sweeps = 40;
-  const auto t = tabu_search(m, tp, 7, 3);
+  const auto t = tabu_walk(m, tp, 7, 3);
   out[name + ".tabu"] = line(t.spins.data(), t.spins.size(), t.energy);
   TemperParams pp;
   pp.sweeps = 60;

@@ -45,11 +45,11 @@ TEST_CASE_TEMPLATE("random QUBOs, sparse and dense: tabu reaches the exact groun
     REQUIRE(exact.ok());
     TabuParams p;
     p.sweeps = 200;
-    const auto s = tabu_search(q, p, 5, static_cast<std::uint64_t>(trial));
+    const auto s = tabu_walk(q, p, 5, static_cast<std::uint64_t>(trial));
     CHECK(static_cast<double>(s.energy) == doctest::Approx(static_cast<double>(exact->energy)));
     CHECK(static_cast<double>(q.energy(s.spins.data())) == doctest::Approx(static_cast<double>(s.energy)));
     const auto dq = DenseQuboModel<Value>::from(q).value();
-    const auto sd = tabu_search(dq, p, 5, static_cast<std::uint64_t>(trial));
+    const auto sd = tabu_walk(dq, p, 5, static_cast<std::uint64_t>(trial));
     CHECK(static_cast<double>(sd.energy) == doctest::Approx(static_cast<double>(exact->energy)));
     // Same seed, same model in the other storage: the same moves (ties go to the lower index in both).
     CHECK(sd.spins == s.spins);
@@ -62,7 +62,7 @@ TEST_CASE("max-cut facts") {
     const auto m = test_support::ising_of<std::int32_t, std::uint16_t>(g);
     TabuParams p;
     p.sweeps = 200;
-    const auto s = tabu_search(m, p, 3);
+    const auto s = tabu_walk(m, p, 3);
     return cut_value(m, s.spins.data());
   };
   for (std::uint32_t n = 3; n <= 16; ++n) CHECK(cut_of(test_support::complete(n)) == (n * n) / 4);
@@ -74,13 +74,13 @@ TEST_CASE("max-cut facts") {
 // against enumeration.
 TEST_CASE("lattices") {
   const auto f4 = test_support::ising_of<double>(test_support::torus(4, -1));
-  CHECK(tabu_search(f4, TabuParams{}, 1).energy == -32.0);
+  CHECK(tabu_walk(f4, TabuParams{}, 1).energy == -32.0);
   const auto f6 = test_support::ising_of<float>(test_support::torus(6, -1));
-  CHECK(tabu_search(f6, TabuParams{}, 1).energy == -72.0);
+  CHECK(tabu_walk(f6, TabuParams{}, 1).energy == -72.0);
   const auto g = test_support::ising_of<std::int64_t>(pm_torus(5, 2024));
   const auto exact = solve_exact(g);
   REQUIRE(exact.ok());
-  CHECK(tabu_search(g, TabuParams{}, 1).energy == exact->energy);
+  CHECK(tabu_walk(g, TabuParams{}, 1).energy == exact->energy);
 }
 
 // The move rule, checked move by move against a plain scan: the chosen spin has the least delta
@@ -96,7 +96,7 @@ TEST_CASE("each move is the best admissible one-flip move") {
   p.tenure = 8;
   p.tenure_spread = 0;
   p.stagnation = 1000000;  // no perturbation during the check
-  TabuSearch<IsingModel<std::int32_t>> t(q, p, 8);
+  TabuWalker<IsingModel<std::int32_t>> t(q, p, 8);
   REQUIRE(t.tenure() == 8);
   std::vector<std::uint64_t> last(24, 0);  // 1 + move number of the last flip of each spin
   std::int64_t best = t.state().energy();
@@ -150,11 +150,11 @@ TEST_CASE("determinism, perturbations, state exactness") {
   TabuParams p;
   p.sweeps = 300;
   p.stagnation = 500;
-  const auto a = tabu_search(m, p, 42, 1);
-  const auto b = tabu_search(m, p, 42, 1);
+  const auto a = tabu_walk(m, p, 42, 1);
+  const auto b = tabu_walk(m, p, 42, 1);
   CHECK(a.spins == b.spins);
   CHECK(a.energy == b.energy);
-  TabuSearch<IsingModel<double>> t(m, p, 42, 1);
+  TabuWalker<IsingModel<double>> t(m, p, 42, 1);
   t.step(300);
   CHECK(t.perturbations() > 0);
   CHECK(t.moves_done() == 300 * 64);
@@ -180,12 +180,12 @@ TEST_CASE("stop token and target stop a run") {
   p.progress_every = 1;
   StopToken token;
   StopAt obs{&token, 4};
-  const auto s = tabu_search(m, p, 1, 0, Budget{}.with_stop(token), obs);
+  const auto s = tabu_walk(m, p, 1, 0, Budget{}.with_stop(token), obs);
   CHECK(s.reason == StopReason::stopped);
   CHECK(s.sweeps == 4);
 
   const auto ferro = test_support::ising_of<std::int32_t>(test_support::torus(6, -1));
-  const auto t = tabu_search(ferro, p, 1, 0, Budget{}.with_target(-72));
+  const auto t = tabu_walk(ferro, p, 1, 0, Budget{}.with_target(-72));
   CHECK(t.reason == StopReason::target_reached);
   CHECK(t.energy == -72);
   CHECK(t.sweeps < 100000);
@@ -202,7 +202,7 @@ TEST_CASE("bqp250 instances: tabu search reaches the proven optimum cut") {
     REQUIRE(ref > 0);
     const std::int64_t w = total_weight(m);
     TabuParams p;
-    const auto s = tabu_search(m, p, 2026, 0, Budget{}.with_sweeps(1000).with_target(static_cast<double>(energy_from_cut(w, ref))));
+    const auto s = tabu_walk(m, p, 2026, 0, Budget{}.with_sweeps(1000).with_target(static_cast<double>(energy_from_cut(w, ref))));
     CHECK(cut_value(m, s.spins.data()) == ref);
     CHECK(cut_from_energy(w, s.energy) == ref);
   }

@@ -79,7 +79,7 @@ TEST_CASE("4x4 torus: every rung reproduces the exact mean energy, uniform and h
   for (const double hazard_below : {0.0, 2.0}) {
     CAPTURE(hazard_below);
     TemperParams p;
-    p.ladder.shape = LadderShape::custom;
+    p.ladder.shape = LadderShape::listed;
     p.ladder.temperatures = 5;
     p.ladder.betas = betas;
     p.order = SiteOrder::random;

@@ -42,8 +42,8 @@ TEST_CASE("tabu search: no allocation after construction, sparse and dense") {
   std::vector<std::int8_t> warm(m.num_spins(), -1);
   TabuParams p;
   p.stagnation = 200;  // perturbations happen inside the counted steps
-  TabuSearch<IsingModel<std::int64_t>> ts(m, p, 5);
-  TabuSearch<DenseIsingModel<std::int64_t>> td(d, p, 5);
+  TabuWalker<IsingModel<std::int64_t>> ts(m, p, 5);
+  TabuWalker<DenseIsingModel<std::int64_t>> td(d, p, 5);
   alloc_counter::start();
   ts.step(30);
   td.step(30);

@@ -33,7 +33,7 @@ TEST_CASE("IsingBuilder merges (i,j) with (j,i), folds s_i s_i into the offset, 
   const auto s = m->summary();
   CHECK(s.num_spins == 4);
   CHECK(s.num_pairs == 1);
-  CHECK(s.num_linear == 0);
+  CHECK(s.num_site_terms == 0);
   CHECK(s.min_degree == 0);
   CHECK(s.max_degree == 1);
   CHECK(s.largest_magnitude == 7.0);
@@ -204,12 +204,12 @@ TEST_CASE("floating energy bound survives an edit that removes a dominant term")
   b.add_field(0, 4e307).add_field(1, 1e290);
   auto m = b.build();
   REQUIRE(m.ok());
-  REQUIRE(m->set_linear(0, 0.0).ok());
+  REQUIRE(m->set_site_term(0, 0.0).ok());
   CHECK(m->energy_bound() == doctest::Approx(1e290).epsilon(1e-12));
   auto d = DenseIsingModel<double>::from(*m);
   REQUIRE(d.ok());
   CHECK(d->energy_bound() == doctest::Approx(1e290).epsilon(1e-12));
-  REQUIRE(m->set_linear(0, 4e307).ok());
-  REQUIRE(m->set_linear(0, -2.0).ok());
+  REQUIRE(m->set_site_term(0, 4e307).ok());
+  REQUIRE(m->set_site_term(0, -2.0).ok());
   CHECK(m->energy_bound() == doctest::Approx(1e290).epsilon(1e-12));
 }

@@ -61,11 +61,11 @@ struct NoProposalType {};
 }  // namespace
 
 static_assert(is_move_generator_v<SingleFlip<IntModel>, IntModel>);
-static_assert(is_move_generator_v<Exchange<IntModel>, IntModel>);
+static_assert(is_move_generator_v<CountKeepingSwap<IntModel>, IntModel>);
 static_assert(is_move_generator_v<GroupFlip<IntModel>, IntModel>);
 static_assert(is_move_generator_v<SingleFlip<DenseQuboModel<float>>, DenseQuboModel<float>>);
 static_assert(is_enumerable_move_v<SingleFlip<IntModel>, IntModel>);
-static_assert(is_enumerable_move_v<Exchange<IntModel>, IntModel>);
+static_assert(is_enumerable_move_v<CountKeepingSwap<IntModel>, IntModel>);
 static_assert(is_enumerable_move_v<GroupFlip<IntModel>, IntModel>);
 static_assert(is_move_generator_v<MySingleFlip<IntModel>, IntModel>);
 static_assert(!is_enumerable_move_v<MySingleFlip<IntModel>, IntModel>);
@@ -118,7 +118,7 @@ TEST_CASE("exchange keeps the cardinality; annealing finds the minimum bisection
   AnnealParams p;
   p.sweeps = 20000;
   p.initial = start.data();
-  Annealer<IntModel, Exchange<IntModel>> a(model, p, Exchange<IntModel>{}, 9);
+  Annealer<IntModel, CountKeepingSwap<IntModel>> a(model, p, CountKeepingSwap<IntModel>{}, 9);
   for (int chunk = 0; chunk < 40; ++chunk) {
     a.step(500);
     int down = 0;

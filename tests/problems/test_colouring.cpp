@@ -140,7 +140,7 @@ TEST_CASE("colouring: a proper 3-colouring of the Petersen graph has energy 0, a
   for (std::size_t i = 0; i < bits.size(); ++i) s[i] = bits[i] ? -1 : 1;
   const auto f = p->feasibility(s.data());
   CHECK_FALSE(f.feasible);
-  CHECK(f.kind == ConstraintKind::exactly_one);
+  CHECK(f.kind == ConstraintKind::one_hot);
   CHECK(f.label.tag == 4);
   CHECK(std::strcmp(f.label.text, "one colour per vertex") == 0);
   CHECK(f.amount == 1);
@@ -150,7 +150,7 @@ TEST_CASE("colouring: a proper 3-colouring of the Petersen graph has energy 0, a
   bits[p->variable(4, c[0])] = 1;
   for (std::size_t i = 0; i < bits.size(); ++i) s[i] = bits[i] ? -1 : 1;
   const auto g = p->feasibility(s.data());
-  CHECK(g.kind == ConstraintKind::at_most_one);
+  CHECK(g.kind == ConstraintKind::pairwise_exclusion);
   CHECK(std::strcmp(g.label.text, "edge endpoints share a colour") == 0);
   CHECK(p->check(p->decode(s.data())).conflicts >= 1);
 }

@@ -33,11 +33,11 @@ TEST_CASE("the check names the first violated constraint, for bits and spins") {
   // Variables 0..5; slack bits of the inequality follow.
   QuboBuilder<std::int64_t> b;
   ConstraintSet set(6);
-  REQUIRE(add_exactly_one(b, set, {0, 1, 2}, std::int64_t{4}, {"one shift per nurse", 11}).ok());            // #0
-  REQUIRE(add_exactly_k(b, set, {3, 4, 5}, 2, std::int64_t{4}, {"two on call", 12}).ok());                    // #1
-  REQUIRE(add_linear_inequality(b, set, {0, 3, 4}, {3, 2, 2}, 4, std::int64_t{4}, {"hours cap", 13}).ok());  // #2
-  REQUIRE(add_at_most_one(b, set, {1, 5}, std::int64_t{4}, {"not both", 14}).ok());                           // #3
-  REQUIRE(add_linear_equality(b, set, {2, 5}, {1, -1}, 0, std::int64_t{4}, {"tied", 15}).ok());               // #4
+  REQUIRE(add_one_hot(b, set, {0, 1, 2}, std::int64_t{4}, {"one shift per nurse", 11}).ok());            // #0
+  REQUIRE(add_k_hot(b, set, {3, 4, 5}, 2, std::int64_t{4}, {"two on call", 12}).ok());                    // #1
+  REQUIRE(add_sum_at_most(b, set, {0, 3, 4}, {3, 2, 2}, 4, std::int64_t{4}, {"hours cap", 13}).ok());  // #2
+  REQUIRE(add_pairwise_exclusion(b, set, {1, 5}, std::int64_t{4}, {"not both", 14}).ok());                           // #3
+  REQUIRE(add_sum_equal(b, set, {2, 5}, {1, -1}, 0, std::int64_t{4}, {"tied", 15}).ok());               // #4
   REQUIRE(set.size() == 5);
   CHECK(set[2].slack_begin == 6);
   CHECK(set.num_decision_variables() == 6);
@@ -66,7 +66,7 @@ TEST_CASE("the check names the first violated constraint, for bits and spins") {
   f = check_both({1, 0, 1, 1, 0, 1});
   CHECK_FALSE(f.feasible);
   CHECK(f.first == 0);
-  CHECK(f.kind == ConstraintKind::exactly_one);
+  CHECK(f.kind == ConstraintKind::one_hot);
   CHECK(std::strcmp(f.label.text, "one shift per nurse") == 0);
   CHECK(f.label.tag == 11);
   CHECK(f.lhs == 2);
@@ -77,23 +77,23 @@ TEST_CASE("the check names the first violated constraint, for bits and spins") {
   // Only the inequality: x0 = 1 alone, x3 = x4 = 1 gives 7 > 4; x5 = 0 ties with x2 = 0.
   f = check_both({1, 0, 0, 1, 1, 0});
   CHECK(f.first == 2);
-  CHECK(f.kind == ConstraintKind::inequality);
-  CHECK(std::strcmp(to_string(f.kind), "linear inequality") == 0);
+  CHECK(f.kind == ConstraintKind::sum_at_most);
+  CHECK(std::strcmp(to_string(f.kind), "weighted sum at most a bound") == 0);
   CHECK(f.amount == 3);
   CHECK(f.violated_count == 1);
 
-  // x1 = x5 = 1 breaks at-most-one (#3); the tie x2 = x5 (#4) then fails too, since x2 = 1
+  // x1 = x5 = 1 breaks pairwise-exclusion (#3); the tie x2 = x5 (#4) then fails too, since x2 = 1
   // would give the nurse two shifts. #3 is named first.
   f = check_both({0, 1, 0, 1, 0, 1});
   CHECK(f.first == 3);
-  CHECK(f.kind == ConstraintKind::at_most_one);
+  CHECK(f.kind == ConstraintKind::pairwise_exclusion);
   CHECK(f.amount == 1);
   CHECK(f.violated_count == 2);
 
   // Only the equality: x2 = 1, x5 = 0, with two on call from x3, x4 (hours 4).
   f = check_both({0, 0, 1, 1, 1, 0});
   CHECK(f.first == 4);
-  CHECK(f.kind == ConstraintKind::equality);
+  CHECK(f.kind == ConstraintKind::sum_equal);
   CHECK(f.label.tag == 15);
   CHECK(f.lhs == 1);
   CHECK(f.amount == 1);
@@ -107,8 +107,8 @@ TEST_CASE("the check names the first violated constraint, for bits and spins") {
 TEST_CASE("energy 0 exactly on feasible states (with their best slack), >= the weight otherwise") {
   QuboBuilder<std::int64_t> b;
   ConstraintSet set(5);
-  REQUIRE(add_exactly_k(b, set, {0, 1, 2, 3}, 2, std::int64_t{3}).ok());
-  REQUIRE(add_linear_inequality(b, set, {1, 2, 4}, {4, -1, 3}, 3, std::int64_t{3}).ok());
+  REQUIRE(add_k_hot(b, set, {0, 1, 2, 3}, 2, std::int64_t{3}).ok());
+  REQUIRE(add_sum_at_most(b, set, {1, 2, 4}, {4, -1, 3}, 3, std::int64_t{3}).ok());
   auto m = b.build();
   REQUIRE(m.ok());
   REQUIRE(m->num_spins() == set.num_variables());

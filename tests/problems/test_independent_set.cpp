@@ -105,7 +105,7 @@ TEST_CASE("independent set: the feasibility check names the edge inside the set"
   s[5] = -1;  // spoke 0 -- 5 is edge number 2 in petersen_graph()
   const auto f = p->feasibility(s.data());
   CHECK_FALSE(f.feasible);
-  CHECK(f.kind == ConstraintKind::at_most_one);
+  CHECK(f.kind == ConstraintKind::pairwise_exclusion);
   CHECK(f.label.tag == 2);
   CHECK(std::strcmp(f.label.text, "edge inside the set") == 0);
   CHECK(f.violated_count == 1);
@@ -116,7 +116,7 @@ TEST_CASE("independent set: the feasibility check names the edge inside the set"
   REQUIRE(vc.ok());
   std::vector<std::int8_t> t{-1, 1, 1};
   const auto g = vc->feasibility(t.data());
-  CHECK(g.kind == ConstraintKind::at_least_one);
+  CHECK(g.kind == ConstraintKind::pair_cover);
   CHECK(g.label.tag == 1);
 }
 

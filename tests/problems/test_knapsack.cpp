@@ -51,7 +51,7 @@ TEST_CASE("knapsack: five-item illustration, capacity 15, optimum 15") {
   for (int i = 0; i < 5; ++i) s[static_cast<std::size_t>(i)] = -1;
   const auto f = p->feasibility(s.data());
   CHECK_FALSE(f.feasible);
-  CHECK(f.kind == ConstraintKind::inequality);
+  CHECK(f.kind == ConstraintKind::sum_at_most);
   CHECK(std::strcmp(f.label.text, "total weight within capacity") == 0);
   CHECK(f.lhs == 20);
   CHECK(f.amount == 5);

@@ -38,7 +38,7 @@ std::uint64_t floor_log2(std::uint64_t v) {
 
 }  // namespace
 
-TEST_CASE_TEMPLATE("exactly-one and exactly-k: A (k - sum x)^2 on every assignment", Value, std::int32_t, std::int64_t, double) {
+TEST_CASE_TEMPLATE("one-hot and k-hot: A (k - sum x)^2 on every assignment", Value, std::int32_t, std::int64_t, double) {
   const Value a = Value{3};
   for (std::uint64_t m = 1; m <= 5; ++m) {
     for (std::uint64_t k = 0; k <= m; ++k) {
@@ -48,10 +48,10 @@ TEST_CASE_TEMPLATE("exactly-one and exactly-k: A (k - sum x)^2 on every assignme
       for (std::uint64_t i = 0; i < m; ++i) group.push_back(2 * i);
       QuboBuilder<Value> b(n);
       ConstraintSet set(n);
-      auto r = k == 1 ? add_exactly_one(b, set, group, a) : add_exactly_k(b, set, group, k, a);
+      auto r = k == 1 ? add_one_hot(b, set, group, a) : add_k_hot(b, set, group, k, a);
       REQUIRE(r.ok());
       CHECK(*r == 0);
-      CHECK(set[0].kind == (k == 1 ? ConstraintKind::exactly_one : ConstraintKind::exactly_k));
+      CHECK(set[0].kind == (k == 1 ? ConstraintKind::one_hot : ConstraintKind::k_hot));
       auto model = b.build();
       REQUIRE(model.ok());
       for_each_bits(static_cast<std::uint32_t>(n), [&](const std::uint8_t* x) {
@@ -69,14 +69,14 @@ TEST_CASE_TEMPLATE("exactly-one and exactly-k: A (k - sum x)^2 on every assignme
   }
 }
 
-TEST_CASE_TEMPLATE("at-most-one: A sum_{i<j} x_i x_j is 0 exactly on <= 1 bit set", Value, std::int32_t, double) {
+TEST_CASE_TEMPLATE("pairwise-exclusion: A sum_{i<j} x_i x_j is 0 exactly on <= 1 bit set", Value, std::int32_t, double) {
   const Value a = Value{5};
   for (std::uint64_t m = 1; m <= 6; ++m) {
     std::vector<std::uint64_t> group;
     for (std::uint64_t i = 0; i < m; ++i) group.push_back(i);
     QuboBuilder<Value> b(m);
     ConstraintSet set(m);
-    REQUIRE(add_at_most_one(b, set, group, a).ok());
+    REQUIRE(add_pairwise_exclusion(b, set, group, a).ok());
     auto model = b.build();
     REQUIRE(model.ok());
     for_each_bits(static_cast<std::uint32_t>(m), [&](const std::uint8_t* x) {
@@ -89,16 +89,16 @@ TEST_CASE_TEMPLATE("at-most-one: A sum_{i<j} x_i x_j is 0 exactly on <= 1 bit se
       if (ones > 1) {
         CHECK(e >= static_cast<energy_t<Value>>(a));
         CHECK(f.amount == ones - 1);
-        CHECK(f.kind == ConstraintKind::at_most_one);
+        CHECK(f.kind == ConstraintKind::pairwise_exclusion);
       }
     });
   }
 }
 
-TEST_CASE("at-least-one of two: A (1 - x_u)(1 - x_v)") {
+TEST_CASE("pair-cover of two: A (1 - x_u)(1 - x_v)") {
   QuboBuilder<std::int32_t> b(3);
   ConstraintSet set(3);
-  REQUIRE(add_at_least_one(b, set, 2, 0, std::int32_t{7}).ok());
+  REQUIRE(add_pair_cover(b, set, 2, 0, std::int32_t{7}).ok());
   auto model = b.build();
   REQUIRE(model.ok());
   for_each_bits(3, [&](const std::uint8_t* x) {
@@ -107,14 +107,14 @@ TEST_CASE("at-least-one of two: A (1 - x_u)(1 - x_v)") {
     const auto f = set.check_bits(x);
     CHECK(f.feasible == feasible);
     if (!feasible) {
-      CHECK(f.kind == ConstraintKind::at_least_one);
+      CHECK(f.kind == ConstraintKind::pair_cover);
       CHECK(f.amount == 1);
     }
   });
-  CHECK(add_at_least_one(b, set, 1, 1, std::int32_t{7}).status().code == StatusCode::invalid_argument);
+  CHECK(add_pair_cover(b, set, 1, 1, std::int32_t{7}).status().code == StatusCode::invalid_argument);
 }
 
-TEST_CASE_TEMPLATE("linear equality: A (sum a x - b)^2 on random integer data", Value, std::int64_t, double) {
+TEST_CASE_TEMPLATE("weighted sum equal: A (sum a x - b)^2 on random integer data", Value, std::int64_t, double) {
   Xoshiro256 rng(20261201);
   for (int trial = 0; trial < 40; ++trial) {
     const std::uint64_t n = 2 + rng.below(6);
@@ -129,7 +129,7 @@ TEST_CASE_TEMPLATE("linear equality: A (sum a x - b)^2 on random integer data", 
     const Value a = Value{2} + static_cast<Value>(rng.below(3));
     QuboBuilder<Value> b(n);
     ConstraintSet set(n);
-    REQUIRE(add_linear_equality(b, set, vars, coef, rhs, a).ok());
+    REQUIRE(add_sum_equal(b, set, vars, coef, rhs, a).ok());
     auto model = b.build();
     REQUIRE(model.ok());
     for_each_bits(static_cast<std::uint32_t>(n), [&](const std::uint8_t* x) {
@@ -171,7 +171,7 @@ TEST_CASE("slack bits: powers of two with the last one capped, exactly 0..S") {
   }
 }
 
-TEST_CASE_TEMPLATE("linear inequality with slack: min over slack is A max(0, sum a x - b)^2", Value, std::int64_t, double) {
+TEST_CASE_TEMPLATE("weighted sum at most with slack: min over slack is A max(0, sum a x - b)^2", Value, std::int64_t, double) {
   Xoshiro256 rng(77);
   for (int trial = 0; trial < 40; ++trial) {
     const std::uint64_t n = 2 + rng.below(4);
@@ -190,10 +190,10 @@ TEST_CASE_TEMPLATE("linear inequality with slack: min over slack is A max(0, sum
     ConstraintSet set(n);
     auto bits = slack_bit_count(coef, rhs);
     REQUIRE(bits.ok());
-    auto r = add_linear_inequality(b, set, vars, coef, rhs, a);
+    auto r = add_sum_at_most(b, set, vars, coef, rhs, a);
     REQUIRE(r.ok());
     const Constraint& c = set[*r];
-    CHECK(c.kind == ConstraintKind::inequality);
+    CHECK(c.kind == ConstraintKind::sum_at_most);
     CHECK(c.slack_begin == n);
     CHECK(c.slack_weights == slack_weights(rhs - low));
     CHECK(c.slack_weights.size() == *bits);
@@ -236,19 +236,19 @@ TEST_CASE("penalty builders refuse bad input and add nothing") {
   QuboBuilder<std::int32_t> b(4);
   ConstraintSet set(4);
   const auto terms = b.num_terms();
-  CHECK(add_exactly_one(b, set, {0, 1}, std::int32_t{0}).status().code == StatusCode::invalid_argument);
-  CHECK(add_exactly_one(b, set, {0, 1}, std::int32_t{-2}).status().code == StatusCode::invalid_argument);
-  CHECK(add_exactly_one(b, set, {}, std::int32_t{1}).status().code == StatusCode::invalid_argument);
-  CHECK(add_exactly_one(b, set, {0, 4}, std::int32_t{1}).status().code == StatusCode::index_out_of_range);
-  CHECK(add_exactly_k(b, set, {0, 1}, 3, std::int32_t{1}).status().code == StatusCode::invalid_argument);
-  CHECK(add_linear_equality(b, set, {0, 1}, {1}, 1, std::int32_t{1}).status().code == StatusCode::invalid_argument);
+  CHECK(add_one_hot(b, set, {0, 1}, std::int32_t{0}).status().code == StatusCode::invalid_argument);
+  CHECK(add_one_hot(b, set, {0, 1}, std::int32_t{-2}).status().code == StatusCode::invalid_argument);
+  CHECK(add_one_hot(b, set, {}, std::int32_t{1}).status().code == StatusCode::invalid_argument);
+  CHECK(add_one_hot(b, set, {0, 4}, std::int32_t{1}).status().code == StatusCode::index_out_of_range);
+  CHECK(add_k_hot(b, set, {0, 1}, 3, std::int32_t{1}).status().code == StatusCode::invalid_argument);
+  CHECK(add_sum_equal(b, set, {0, 1}, {1}, 1, std::int32_t{1}).status().code == StatusCode::invalid_argument);
   // sum a x <= -3 with a = (1, -2): the left-hand side is at least -2.
-  CHECK(add_linear_inequality(b, set, {0, 1}, {1, -2}, -3, std::int32_t{1}).status().code == StatusCode::invalid_argument);
+  CHECK(add_sum_at_most(b, set, {0, 1}, {1, -2}, -3, std::int32_t{1}).status().code == StatusCode::invalid_argument);
   // Coefficients whose penalty terms do not fit int32: 2 * 1 * 50000 * 50000 > 2^31.
-  CHECK(add_linear_equality(b, set, {0, 1}, {50000, 50000}, 0, std::int32_t{1}).status().code == StatusCode::value_out_of_range);
-  CHECK(add_linear_equality(b, set, {0}, {constraint_data_limit}, 1, std::int32_t{1}).status().code == StatusCode::value_out_of_range);
+  CHECK(add_sum_equal(b, set, {0, 1}, {50000, 50000}, 0, std::int32_t{1}).status().code == StatusCode::value_out_of_range);
+  CHECK(add_sum_equal(b, set, {0}, {constraint_data_limit}, 1, std::int32_t{1}).status().code == StatusCode::value_out_of_range);
   QuboBuilder<double> bd(2);
-  CHECK(add_exactly_one(bd, set, {0, 1}, std::numeric_limits<double>::quiet_NaN()).status().code == StatusCode::invalid_argument);
+  CHECK(add_one_hot(bd, set, {0, 1}, std::numeric_limits<double>::quiet_NaN()).status().code == StatusCode::invalid_argument);
   CHECK(b.num_terms() == terms);
   CHECK(set.size() == 0);
   CHECK(set.num_variables() == 4);
@@ -283,12 +283,12 @@ TEST_CASE_TEMPLATE("suggested penalty weight: no infeasible state beats the best
     QuboBuilder<Value> full = obj;
     ConstraintSet set(n);
     const std::vector<std::uint64_t> g1{0, 1, 2, 3};
-    REQUIRE(add_exactly_k(full, set, g1, std::uint64_t{x0[0]} + x0[1] + x0[2] + x0[3], *a).ok());
+    REQUIRE(add_k_hot(full, set, g1, std::uint64_t{x0[0]} + x0[1] + x0[2] + x0[3], *a).ok());
     std::vector<std::int64_t> coef{static_cast<std::int64_t>(rng.below(7)) - 2, static_cast<std::int64_t>(rng.below(7)) - 2,
                                    static_cast<std::int64_t>(rng.below(7)) - 2, static_cast<std::int64_t>(rng.below(7)) - 2};
     const std::vector<std::uint64_t> g2{2, 3, 4, 5};
-    REQUIRE(add_linear_inequality(full, set, g2, coef, lhs_of(g2, coef, x0.data()) + static_cast<std::int64_t>(rng.below(2)), *a).ok());
-    if (x0[4] + x0[5] + x0[0] <= 1) REQUIRE(add_at_most_one(full, set, {0, 4, 5}, *a).ok());
+    REQUIRE(add_sum_at_most(full, set, g2, coef, lhs_of(g2, coef, x0.data()) + static_cast<std::int64_t>(rng.below(2)), *a).ok());
+    if (x0[4] + x0[5] + x0[0] <= 1) REQUIRE(add_pairwise_exclusion(full, set, {0, 4, 5}, *a).ok());
     auto model = full.build();
     REQUIRE(model.ok());
     const auto total = static_cast<std::uint32_t>(model->num_spins());
@@ -367,7 +367,7 @@ TEST_CASE("objective span bounds the objective's range (QUBO and Ising)") {
 TEST_CASE("a fixed-size builder too small for the slack bits reports its refusal") {
   QuboBuilder<std::int32_t> b(2);
   ConstraintSet set(2);
-  auto r = add_linear_inequality(b, set, {0, 1}, {2, 3}, 4, std::int32_t{1});
+  auto r = add_sum_at_most(b, set, {0, 1}, {2, 3}, 4, std::int32_t{1});
   CHECK(r.status().code == StatusCode::index_out_of_range);
   CHECK(set.size() == 0);
   CHECK(set.num_variables() == 2);
@@ -379,7 +379,7 @@ TEST_CASE("penalty weight below the bound lets an infeasible state win") {
     QuboBuilder<std::int32_t> b(1);
     b.add_unary(0, -10);
     ConstraintSet set(1);
-    REQUIRE(add_linear_inequality(b, set, {0}, {1}, 0, a).ok());
+    REQUIRE(add_sum_at_most(b, set, {0}, {1}, 0, a).ok());
     CHECK(set[0].slack_weights.empty());
     auto m = b.build();
     REQUIRE(m.ok());

@@ -1,5 +1,5 @@
 // Cardinality-constrained mean-variance selection: minimise lambda x^T C x - mu^T x subject to
-// sum x = K through the exactly-k penalty. Checked by enumerating the encoded model and, in
+// sum x = K through the k-hot penalty. Checked by enumerating the encoded model and, in
 // the original domain, every subset of exactly K items.
 #include <doctest/doctest.h>
 #include <spinwright/kernels/exact.hpp>

@@ -90,8 +90,8 @@ void exercise(const Model& m, std::uint64_t seed) {
     const auto before = m.energy(t.data());
     t[i] = static_cast<std::int8_t>(-t[i]);
     t[j] = static_cast<std::int8_t>(-t[j]);
-    check_close<Model>(st.delta_exchange(i, j), m.energy(t.data()) - before);
-    st.exchange(i, j);
+    check_close<Model>(st.delta_swap(i, j), m.energy(t.data()) - before);
+    st.apply_swap(i, j);
   }
   const auto c = st.check();
   if constexpr (std::is_integral_v<typename Model::value_type>) CHECK(c.exact);
@@ -130,7 +130,7 @@ TEST_CASE_TEMPLATE("in-place edits keep local fields and energy exact", Model, I
   for (int step = 0; step < 400; ++step) {
     const auto i = static_cast<I>(rng.below(30));
     switch (rng.below(4)) {
-      case 0: REQUIRE(edit_linear(m, st, i, static_cast<V>(static_cast<int>(rng.below(21)) - 10)).ok()); break;
+      case 0: REQUIRE(edit_site_term(m, st, i, static_cast<V>(static_cast<int>(rng.below(21)) - 10)).ok()); break;
       case 1: {
         const auto nb = m.neighbours(i);
         if (nb.empty()) break;

@@ -46,7 +46,7 @@ GlpkAnswer glpk_qubo_minimum(const QuboModel& q) {
   if (cols > 0) glp_add_cols(lp, cols);
   for (int i = 0; i < n; ++i) {
     glp_set_col_kind(lp, i + 1, GLP_BV);
-    glp_set_obj_coef(lp, i + 1, static_cast<double>(q.linear(static_cast<index_type>(i))));
+    glp_set_obj_coef(lp, i + 1, static_cast<double>(q.site_term(static_cast<index_type>(i))));
   }
   std::vector<int> ia{0};
   std::vector<int> ja{0};

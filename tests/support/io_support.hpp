@@ -71,7 +71,7 @@ Value random_value(spinwright::Xoshiro256& rng, std::int64_t range) {
   }
 }
 
-// A random sparse model with n spins, about `pairs` pairs, optional linear terms and offset.
+// A random sparse model with n spins, about `pairs` pairs, optional site terms and offset.
 template <spinwright::Form F, class Value, class Index = std::uint32_t>
 spinwright::SparseModel<F, Value, Index> random_model(std::uint64_t seed, std::uint32_t n, std::uint32_t pairs,
                                                        bool linear, bool offset, std::int64_t range = 1000) {
@@ -118,7 +118,7 @@ void check_same_model(const A& a, const B& b) {
   REQUIRE(a.num_spins() == b.num_spins());
   REQUIRE(a.num_pairs() == b.num_pairs());
   CHECK(a.offset() == b.offset());
-  CHECK(a.linear_array() == b.linear_array());
+  CHECK(a.site_term_array() == b.site_term_array());
   CHECK(a.row_starts() == b.row_starts());
   CHECK(a.neighbour_array() == b.neighbour_array());
   CHECK(a.value_array() == b.value_array());

@@ -292,7 +292,7 @@ IoResult<std::string> format_matrix_market(const SparseModel<F, Value, Index>& m
   const std::size_t n = m.num_spins();
   std::size_t nnz = m.num_pairs();
   for (std::size_t i = 0; i < n; ++i) {
-    if (m.linear(static_cast<Index>(i)) != Value{0}) ++nnz;
+    if (m.site_term(static_cast<Index>(i)) != Value{0}) ++nnz;
   }
   std::string out;
   out.reserve(128 + nnz * 20);
@@ -311,7 +311,7 @@ IoResult<std::string> format_matrix_market(const SparseModel<F, Value, Index>& m
   out += '\n';
   for (std::size_t i = 0; i < n; ++i) {
     const auto ii = static_cast<Index>(i);
-    const Value lin = m.linear(ii);
+    const Value lin = m.site_term(ii);
     if (lin != Value{0}) {
       detail::append_u64(out, i + 1);
       out += ' ';

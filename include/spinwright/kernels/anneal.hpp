@@ -44,7 +44,7 @@ namespace spinwright {
 
 struct AnnealParams {
   std::uint64_t sweeps = 1000;           // schedule length (a Budget's sweeps override it in run())
-  Schedule schedule{};                   // default: geometric over the automatic beta range
+  Schedule schedule{};                   // default: geometric over the beta span from the model
   Acceptance acceptance = Acceptance::metropolis;
   // Used by moves constructible from a SiteOrder (SingleFlip). Random is the default because
   // sequential Metropolis is not ergodic where zero-delta flips abound (rings, cycles: domain
@@ -213,7 +213,7 @@ class Annealer {
   double beta() const noexcept { return beta_at_sweep(sweeps_); }
   /// The schedule in use (automatic ranges filled in).
   const Schedule& schedule() const noexcept { return schedule_; }
-  const BetaRange& beta_range() const noexcept { return range_; }
+  const BetaSpan& beta_span() const noexcept { return range_; }
   /// Change the schedule length used by step() (run() sets it from its budget).
   void set_schedule_sweeps(std::uint64_t s) noexcept { schedule_sweeps_ = s; }
 
@@ -222,7 +222,7 @@ class Annealer {
     schedule_sweeps_ = params_.sweeps;
     schedule_ = params_.schedule;
     if (schedule_.automatic()) {
-      range_ = auto_beta_range(*model_);
+      range_ = estimate_beta_span(*model_);
       schedule_.beta_start = range_.beta_start;
       schedule_.beta_end = range_.beta_end;
     } else {
@@ -369,7 +369,7 @@ class Annealer {
   Move move_;
   Acceptor<energy_type> acceptor_;
   Schedule schedule_{};
-  BetaRange range_{};
+  BetaSpan range_{};
   Xoshiro256 rng_{};
   detail::Buffer<std::int8_t> best_spins_;
   energy_type best_energy_{};

@@ -7,7 +7,7 @@
 //     (density = pairs / (N (N - 1) / 2); one-flip tabu with best-move selection is strongest
 //     where every spin interacts with many others, e.g. dense QUBO);
 //   * otherwise (sparse graphs, lattices)      -> annealing, sweeps = 4000 for N <= 10^4,
-//     2000 up to 10^5, 1000 beyond, geometric schedule over the automatic beta range, random
+//     2000 up to 10^5, 1000 beyond, geometric schedule over the beta span from the model, random
 //     site order, then steepest descent to polish the result.
 //
 // Two modes of solve_auto():
@@ -21,7 +21,7 @@
 //         times the automatic hot beta to the automatic cold beta, sequential site order; it is
 //         stopped by the deadline and its best state polished by steepest descent.
 //       - other sparse models: successive anneals, each a full schedule (geometric over the
-//         automatic beta range, sequential site order, acceptance by auto_fill_acceptance:
+//         beta span from the model, sequential site order, acceptance by auto_fill_acceptance:
 //         Metropolis, or heat-bath when at least a quarter of the spins have degree <= 2)
 //         followed by steepest descent. The first is auto_fill_first_sweeps (256) sweeps long
 //         and calibrates the time per sweep (clock time so far / anneal sweeps so far, descents
@@ -46,7 +46,7 @@
 // in the time-filling mode, the sequence of clock readings.
 //
 // Allocation: the time-filling mode constructs one Annealer and one Descender (or one Tempering,
-// or one TabuSearch) and reuses them for every run (plus one more Descender for a run the
+// or one TabuWalker) and reuses them for every run (plus one more Descender for a run the
 // deadline cuts short); nothing is allocated per sweep or per run.
 #ifndef SPINWRIGHT_KERNELS_AUTO_HPP
 #define SPINWRIGHT_KERNELS_AUTO_HPP
@@ -272,7 +272,7 @@ Solution<typename Model::energy_type> auto_fill_temper(const Model& model, std::
                                                        const Budget& budget) {
   using energy_type = typename Model::energy_type;
   TemperParams params;
-  const BetaRange range = auto_beta_range(model);
+  const BetaSpan range = estimate_beta_span(model);
   params.ladder.beta_min = auto_fill_hot_factor * range.beta_start;
   params.ladder.beta_max = range.beta_end;
   if (params.ladder.beta_max < params.ladder.beta_min) params.ladder.beta_max = params.ladder.beta_min;
@@ -312,10 +312,10 @@ Solution<typename Model::energy_type> solve_auto(const Model& model, std::uint64
     case KernelKind::tabu: {
       TabuParams params;
       params.sweeps = choice.sweeps;
-      if (!fill) return tabu_search(model, params, seed, restart, budget);
+      if (!fill) return tabu_walk(model, params, seed, restart, budget);
       Budget run = budget;
       run.sweeps = std::numeric_limits<std::uint64_t>::max();
-      return tabu_search(model, params, seed, restart, run);
+      return tabu_walk(model, params, seed, restart, run);
     }
     default: {
       if (fill) {

@@ -4,7 +4,7 @@
 // Solution. A one-call function descend() / polish() and a stepping object Descender.
 //
 // Generic over the model and over any enumerable move (moves/move.hpp): SingleFlip by
-// default; Exchange and GroupFlip work too. "Local minimum" is with respect to that move's
+// default; CountKeepingSwap and GroupFlip work too. "Local minimum" is with respect to that move's
 // neighbourhood. One pass = neighbourhood_size(state) evaluated moves; a Solution's `sweeps`
 // counts passes. Descent that reaches a local minimum ends with StopReason::budget_exhausted.
 //

@@ -184,7 +184,7 @@ Result<ExactPlan> exact_plan(const Model& model, const ExactParams& params) {
     if (params.flip_symmetry && n > 0) {
       bool field_free = true;
       for (std::size_t i = 0; i < n; ++i) {
-        field_free = field_free && model.linear(static_cast<typename Model::index_type>(i)) == typename Model::value_type{0};
+        field_free = field_free && model.site_term(static_cast<typename Model::index_type>(i)) == typename Model::value_type{0};
       }
       plan.symmetric = field_free;
     }

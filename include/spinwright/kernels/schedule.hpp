@@ -1,4 +1,4 @@
-// spinwright — temperature schedules in inverse temperature beta, the automatic beta range
+// spinwright — temperature schedules in inverse temperature beta, the beta span from the model
 // derived from a model's coefficients, and the acceptance rules (Metropolis, heat-bath)
 // shared by the sampling kernels.
 //
@@ -46,11 +46,11 @@ namespace spinwright {
 enum class ScheduleShape : std::uint8_t {
   geometric,  // beta = beta_start * (beta_end / beta_start)^f
   linear,     // beta = beta_start + (beta_end - beta_start) f
-  custom,     // beta = user function (f)
+  callable,   // beta = a user callable of f (Schedule::from)
 };
 
 // A schedule. With beta_start and beta_end both 0 (the default) the kernel derives the range
-// from the model (auto_beta_range). A custom function is called once per sweep, never per
+// from the model (estimate_beta_span). A callable is called once per sweep, never per
 // attempt; it and its context must outlive the kernel that uses the schedule.
 struct Schedule {
   ScheduleShape shape = ScheduleShape::geometric;
@@ -73,7 +73,7 @@ struct Schedule {
   template <class Fn>
   static Schedule from(const Fn& fn) noexcept {
     Schedule s;
-    s.shape = ScheduleShape::custom;
+    s.shape = ScheduleShape::callable;
     s.function = [](double fraction, const void* ctx) { return (*static_cast<const Fn*>(ctx))(fraction); };
     s.context = &fn;
     return s;
@@ -81,7 +81,7 @@ struct Schedule {
 
   // True when the kernel must fill in beta_start / beta_end from the model.
   constexpr bool automatic() const noexcept {
-    return shape != ScheduleShape::custom && beta_start == 0 && beta_end == 0;
+    return shape != ScheduleShape::callable && beta_start == 0 && beta_end == 0;
   }
 
   double beta_at(double fraction) const noexcept {
@@ -92,21 +92,21 @@ struct Schedule {
         if (beta_start <= 0 || beta_end <= 0) return beta_start + (beta_end - beta_start) * fraction;
         return beta_start * std::pow(beta_end / beta_start, fraction);
       case ScheduleShape::linear: return beta_start + (beta_end - beta_start) * fraction;
-      case ScheduleShape::custom: return function(fraction, context);
+      case ScheduleShape::callable: return function(fraction, context);
     }
     return beta_end;
   }
 };
 
 // The automatic range and the two delta scales it came from.
-struct BetaRange {
+struct BetaSpan {
   double beta_start = 0;
   double beta_end = 0;
   double hot_delta = 0;   // typical |delta| of a flip at a random state
   double cold_delta = 0;  // smallest non-zero |delta| scale
 };
 
-// Rule (see docs/moves.md, "automatic beta range"):
+// Rule (see docs/moves.md, "beta span from the model"):
 //  hot_delta  = root mean square, over spins, of the RMS flip delta at a uniformly random
 //               state: Ising 2 sqrt(h_i^2 + sum_j J_ij^2); QUBO sqrt((Q_ii + sum_j Q_ij/2)^2 +
 //               sum_j Q_ij^2 / 4);
@@ -115,7 +115,7 @@ struct BetaRange {
 //  beta_end   = ln 1000 / cold_delta  (the smallest uphill step is accepted with probability 1e-3).
 // A model with no non-zero coefficient gets beta 1 .. 1.
 template <class Model>
-BetaRange auto_beta_range(const Model& model) {
+BetaSpan estimate_beta_span(const Model& model) {
   using index_type = typename Model::index_type;
   using value_type = typename Model::value_type;
   const std::size_t n = model.num_spins();
@@ -126,7 +126,7 @@ BetaRange auto_beta_range(const Model& model) {
   };
   for (std::size_t i = 0; i < n; ++i) {
     const auto ii = static_cast<index_type>(i);
-    const double lin = static_cast<double>(model.linear(ii));
+    const double lin = static_cast<double>(model.site_term(ii));
     see(lin < 0 ? -lin : lin);
     double pair_sq = 0;
     double pair_sum = 0;
@@ -144,7 +144,7 @@ BetaRange auto_beta_range(const Model& model) {
       sum_sq += mean * mean + pair_sq / 4;
     }
   }
-  BetaRange r;
+  BetaSpan r;
   if (n == 0 || smallest == 0 || sum_sq == 0) {
     r.beta_start = r.beta_end = 1;
     return r;
@@ -173,7 +173,7 @@ unsigned delta_shift(const Model& model) {
   std::uint64_t bits = 0;  // OR of every magnitude: its lowest set bit is the common power of 2
   for (std::size_t i = 0; i < model.num_spins(); ++i) {
     const auto ii = static_cast<index_type>(i);
-    bits |= magnitude_u64(model.linear(ii));
+    bits |= magnitude_u64(model.site_term(ii));
     model.for_each_neighbour(ii, [&bits](index_type, value_type v) { bits |= magnitude_u64(v); });
   }
   unsigned shift = Model::form == Form::ising ? 1 : 0;
@@ -193,7 +193,7 @@ std::uint64_t max_flip_delta(const Model& model) {
   std::uint64_t best = 0;
   for (std::size_t i = 0; i < model.num_spins(); ++i) {
     const auto ii = static_cast<index_type>(i);
-    std::uint64_t s = magnitude_u64(model.linear(ii));
+    std::uint64_t s = magnitude_u64(model.site_term(ii));
     model.for_each_neighbour(ii, [&s](index_type, value_type v) { add_bounded(s, magnitude_u64(v), integer_energy_limit); });
     if (s > best) best = s;
   }

@@ -1,5 +1,5 @@
-// spinwright — tabu search over one-flip moves: a one-call function tabu_search() and a
-// stepping object TabuSearch for embedding.
+// spinwright — tabu search over one-flip moves: a one-call function tabu_walk() and a
+// stepping object TabuWalker for embedding.
 //
 // Method: F. Glover, "Tabu search — Part I", ORSA J. Comput. 1(3), 190-206 (1989), and
 // "Tabu search — Part II", ORSA J. Comput. 2(1), 4-32 (1990). Each move flips the spin whose flip
@@ -115,14 +115,14 @@ class MinTree {
 }  // namespace detail
 
 template <class Model>
-class TabuSearch {
+class TabuWalker {
  public:
   using model_type = Model;
   using state_type = SpinState<Model>;
   using energy_type = typename Model::energy_type;
   using index_type = typename Model::index_type;
 
-  TabuSearch(const Model& model, const TabuParams& params, std::uint64_t seed, std::uint64_t restart = 0)
+  TabuWalker(const Model& model, const TabuParams& params, std::uint64_t seed, std::uint64_t restart = 0)
       : model_(&model),
         params_(params),
         n_(model.num_spins()),
@@ -418,17 +418,17 @@ class TabuSearch {
 
 /// One tabu search run (restart `restart` of `seed`).
 template <class Model>
-Solution<typename Model::energy_type> tabu_search(const Model& model, const TabuParams& params, std::uint64_t seed,
+Solution<typename Model::energy_type> tabu_walk(const Model& model, const TabuParams& params, std::uint64_t seed,
                                                   std::uint64_t restart = 0, const Budget& budget = Budget{}) {
-  TabuSearch<Model> t(model, params, seed, restart);
+  TabuWalker<Model> t(model, params, seed, restart);
   return t.run(budget);
 }
 
 /// The same with an observer (on_improvement / on_progress, see control/control.hpp).
 template <class Model, class Observer>
-Solution<typename Model::energy_type> tabu_search(const Model& model, const TabuParams& params, std::uint64_t seed,
+Solution<typename Model::energy_type> tabu_walk(const Model& model, const TabuParams& params, std::uint64_t seed,
                                                   std::uint64_t restart, const Budget& budget, Observer& observer) {
-  TabuSearch<Model> t(model, params, seed, restart);
+  TabuWalker<Model> t(model, params, seed, restart);
   return t.run(budget, observer);
 }
 

@@ -9,7 +9,7 @@
 // Swaps exchange which replica sits on which rung; no spins are copied.
 //
 // Ladder: geometric (default) or linear between beta_min and beta_max, or a user list.
-// beta_min / beta_max default to the automatic range of the annealing kernels (auto_beta_range:
+// beta_min / beta_max default to the automatic range of the annealing kernels (estimate_beta_span:
 // a typical uphill flip accepted with probability 1/2 at the hot end, the smallest uphill step with
 // probability 1e-3 at the cold end). Adaptive option: a warm-up of adapt_rounds rounds of
 // adapt_sweeps sweeps each; during a round the energy of the replica on each rung is recorded, and
@@ -56,7 +56,7 @@ namespace spinwright {
 enum class LadderShape : std::uint8_t {
   geometric,  // beta_k = beta_min (beta_max / beta_min)^(k / (T - 1))
   linear,     // beta_k = beta_min + (beta_max - beta_min) k / (T - 1)
-  custom,     // Ladder::betas, `temperatures` increasing values
+  listed,     // Ladder::betas: a list of `temperatures` increasing values
 };
 
 struct Ladder {
@@ -64,7 +64,7 @@ struct Ladder {
   std::size_t temperatures = 0;  // number of rungs; 0: automatic, clamp(sqrt(N) + 4, 4, 32)
   double beta_min = 0;           // both 0: automatic range from the model
   double beta_max = 0;
-  const double* betas = nullptr;  // custom ladder (increasing), read at construction
+  const double* betas = nullptr;  // listed ladder (increasing), read at construction
   bool adaptive = false;          // even out swap acceptance during a warm-up
   std::uint64_t adapt_rounds = 10;
   std::uint64_t adapt_sweeps = 50;
@@ -117,13 +117,13 @@ class Tempering {
     temps_ = t;
     sets_ = params.houdayer ? 2 : 1;
     betas_.assign(temps_, 1.0);
-    if (lad.shape == LadderShape::custom && lad.betas != nullptr) {
+    if (lad.shape == LadderShape::listed && lad.betas != nullptr) {
       for (std::size_t k = 0; k < temps_; ++k) betas_[k] = lad.betas[k];
     } else {
       double b0 = lad.beta_min;
       double b1 = lad.beta_max;
       if (b0 == 0 && b1 == 0) {
-        const BetaRange r = auto_beta_range(model);
+        const BetaSpan r = estimate_beta_span(model);
         b0 = r.beta_start;
         b1 = r.beta_end;
       }

@@ -123,13 +123,13 @@ class TermBuilder {
     std::vector<energy_type> lin(n, energy_type{0});
     for (const auto& term : linears_) {
       if (!checked_add(lin[term.i], static_cast<energy_type>(term.v))) {
-        return Status::error(StatusCode::value_out_of_range, "the linear terms given for this spin sum beyond the accumulator (int64_t or double); use smaller terms").at_term(no_term, term.i, term.i);
+        return Status::error(StatusCode::value_out_of_range, "the site terms given for this spin sum beyond the accumulator (int64_t or double); use smaller terms").at_term(no_term, term.i, term.i);
       }
     }
     std::vector<Value> linear(n);
     for (std::size_t i = 0; i < n; ++i) {
       if (!fits_value<Value>(lin[i])) {
-        return Status::error(StatusCode::value_out_of_range, "the linear terms given for this spin sum to a value outside the value type; use a wider Value (int64_t, double) or smaller terms").at_term(no_term, i, i);
+        return Status::error(StatusCode::value_out_of_range, "the site terms given for this spin sum to a value outside the value type; use a wider Value (int64_t, double) or smaller terms").at_term(no_term, i, i);
       }
       linear[i] = static_cast<Value>(lin[i]);
     }

@@ -41,7 +41,7 @@ Result<IsingModel<double, Index>> ising_from(const QuboModel<Value, Index>& q) {
   std::vector<double> h(n, 0.0);
   for (std::size_t i = 0; i < n; ++i) {
     const auto ii = static_cast<Index>(i);
-    const double qii = static_cast<double>(q.linear(ii));
+    const double qii = static_cast<double>(q.site_term(ii));
     h[i] -= qii / 2;
     c += qii / 2;
     q.for_each_neighbour(ii, [&](Index j, Value v) {
@@ -68,7 +68,7 @@ Result<QuboModel<Value, Index>> qubo_from(const IsingModel<Value, Index>& m) {
   bool fits = true;
   for (std::size_t i = 0; i < n; ++i) {
     const auto ii = static_cast<Index>(i);
-    const auto hi = static_cast<energy_type>(m.linear(ii));
+    const auto hi = static_cast<energy_type>(m.site_term(ii));
     energy_type qii = -2 * hi;
     fits = fits && detail::checked_add(c, hi);
     m.for_each_neighbour(ii, [&](Index j, Value v) {

@@ -1,5 +1,5 @@
 // spinwright — dense models for fully connected problems: DenseIsingModel, DenseQuboModel.
-// A full symmetric N x N matrix with a zero diagonal, stored row-major, plus the linear terms
+// A full symmetric N x N matrix with a zero diagonal, stored row-major, plus the site terms
 // and the offset. Every pair exists, so set_pair() can write any i != j.
 #ifndef SPINWRIGHT_MODEL_DENSE_MODEL_HPP
 #define SPINWRIGHT_MODEL_DENSE_MODEL_HPP
@@ -51,7 +51,7 @@ class DenseModel {
     if (!made) return made.status();
     DenseModel& m = made.value();
     for (std::size_t i = 0; i < m.n_; ++i) {
-      m.linear_[i] = sparse.linear(static_cast<Index>(i));
+      m.linear_[i] = sparse.site_term(static_cast<Index>(i));
       sparse.for_each_neighbour(static_cast<Index>(i), [&](Index j, Value v) { m.matrix_[i * m.n_ + j] = v; });
     }
     m.offset_ = sparse.offset();
@@ -73,7 +73,7 @@ class DenseModel {
     return count;
   }
   energy_type offset() const noexcept { return offset_; }
-  Value linear(index_type i) const noexcept { return linear_[i]; }
+  Value site_term(index_type i) const noexcept { return linear_[i]; }
   template <Form G = F, std::enable_if_t<G == Form::ising, int> = 0>
   Value field(index_type i) const noexcept { return linear_[i]; }
   template <Form G = F, std::enable_if_t<G == Form::qubo, int> = 0>
@@ -125,7 +125,7 @@ class DenseModel {
     };
     s.min_degree = n_;
     for (std::size_t i = 0; i < n_; ++i) {
-      if (linear_[i] != Value{0}) ++s.num_linear;
+      if (linear_[i] != Value{0}) ++s.num_site_terms;
       see(linear_[i]);
       std::size_t d = 0;
       for (std::size_t j = 0; j < n_; ++j) {
@@ -145,8 +145,8 @@ class DenseModel {
 
   double energy_bound() const noexcept { return range_.bound(); }
 
-  Status set_linear(index_type i, Value v) noexcept {
-    if (i >= n_) return Status::error(StatusCode::index_out_of_range, "edit of a linear term at an index >= num_spins() (valid: 0 .. num_spins() - 1)").at_term(no_term, i, i);
+  Status set_site_term(index_type i, Value v) noexcept {
+    if (i >= n_) return Status::error(StatusCode::index_out_of_range, "edit of a site term at an index >= num_spins() (valid: 0 .. num_spins() - 1)").at_term(no_term, i, i);
     if (!detail::is_finite(v)) return Status::error(StatusCode::non_finite_value, "edited value is NaN or infinite; only finite values are allowed").at_term(no_term, i, i);
     const Status st = rebound(linear_[i], v);
     if (!st) return Status(st).at_term(no_term, i, i);

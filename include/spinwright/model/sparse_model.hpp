@@ -1,6 +1,6 @@
 // spinwright — immutable-structure sparse models: IsingModel and QuboModel.
 // Compressed rows with both directions of every pair stored and each neighbour list sorted.
-// Coefficients of existing terms can be edited in place (set_linear / set_pair); the
+// Coefficients of existing terms can be edited in place (set_site_term / set_pair); the
 // sparsity pattern cannot change after build().
 #ifndef SPINWRIGHT_MODEL_SPARSE_MODEL_HPP
 #define SPINWRIGHT_MODEL_SPARSE_MODEL_HPP
@@ -25,7 +25,7 @@ struct ModelAccess;
 struct ModelSummary {
   std::size_t num_spins = 0;
   std::size_t num_pairs = 0;
-  std::size_t num_linear = 0;     // non-zero fields (Ising) or unary terms (QUBO)
+  std::size_t num_site_terms = 0;     // non-zero fields (Ising) or unary terms (QUBO)
   std::size_t min_degree = 0;
   std::size_t max_degree = 0;
   double largest_magnitude = 0;   // over non-zero linear and pair coefficients
@@ -52,14 +52,14 @@ class SparseModel {
   energy_type offset() const noexcept { return offset_; }
 
   // h_i for an Ising model, Q_ii for a QUBO model.
-  Value linear(Index i) const noexcept {
+  Value site_term(Index i) const noexcept {
     SPINWRIGHT_ASSERT(i < num_spins(), "spin index out of range");
     return linear_[i];
   }
   template <Form G = F, std::enable_if_t<G == Form::ising, int> = 0>
-  Value field(Index i) const noexcept { return linear(i); }
+  Value field(Index i) const noexcept { return site_term(i); }
   template <Form G = F, std::enable_if_t<G == Form::qubo, int> = 0>
-  Value unary(Index i) const noexcept { return linear(i); }
+  Value unary(Index i) const noexcept { return site_term(i); }
 
   std::size_t degree(Index i) const noexcept { return row_[i + 1] - row_[i]; }
   Span<Index> neighbours(Index i) const noexcept {
@@ -147,7 +147,7 @@ class SparseModel {
       first = false;
     };
     for (std::size_t i = 0; i < num_spins(); ++i) {
-      if (linear_[i] != Value{0}) ++s.num_linear;
+      if (linear_[i] != Value{0}) ++s.num_site_terms;
       see(linear_[i]);
       const std::size_t d = degree(static_cast<Index>(i));
       if (i == 0 || d < s.min_degree) s.min_degree = d;
@@ -164,9 +164,9 @@ class SparseModel {
   // In-place edits of existing terms; the pattern never changes (a pair set to 0 stays stored,
   // and can be given a value again). Use the free functions in
   // state/spin_state.hpp to keep a state's local fields exact through an edit.
-  Status set_linear(Index i, Value v) noexcept {
+  Status set_site_term(Index i, Value v) noexcept {
     if (i >= num_spins()) {
-      return Status::error(StatusCode::index_out_of_range, "edit of a linear term at an index >= num_spins() (valid: 0 .. num_spins() - 1)").at_term(no_term, i, i);
+      return Status::error(StatusCode::index_out_of_range, "edit of a site term at an index >= num_spins() (valid: 0 .. num_spins() - 1)").at_term(no_term, i, i);
     }
     if (!detail::is_finite(v)) {
       return Status::error(StatusCode::non_finite_value, "edited value is NaN or infinite; only finite values are allowed").at_term(no_term, i, i);
@@ -206,7 +206,7 @@ class SparseModel {
   const std::vector<std::size_t>& row_starts() const noexcept { return row_; }
   const std::vector<Index>& neighbour_array() const noexcept { return neighbours_; }
   const std::vector<Value>& value_array() const noexcept { return values_; }
-  const std::vector<Value>& linear_array() const noexcept { return linear_; }
+  const std::vector<Value>& site_term_array() const noexcept { return linear_; }
 
  private:
   friend struct detail::ModelAccess;

@@ -41,7 +41,7 @@ class SparseModelView {
                                       const Index* neighbours, const Value* values, energy_type offset = 0) noexcept {
     if (n >= max_spins_v<Index>) return Status::error(StatusCode::index_out_of_range, "more spins than the index type can address");
     if (row_starts == nullptr || (n > 0 && linear == nullptr)) {
-      return Status::error(StatusCode::invalid_argument, "missing array (linear terms or row starts)");
+      return Status::error(StatusCode::invalid_argument, "missing array (site terms or row starts)");
     }
     if (row_starts[0] != 0) return Status::error(StatusCode::invalid_argument, "row_starts[0] must be 0");
     if (!detail::is_finite(offset)) return Status::error(StatusCode::non_finite_value, "offset is NaN or infinite");
@@ -59,13 +59,13 @@ class SparseModelView {
         return Status::error(StatusCode::invalid_argument, "row_starts must not decrease").at_term(no_term, i, i);
       }
       if (!detail::is_finite(linear[i])) {
-        return Status::error(StatusCode::non_finite_value, "linear term is NaN or infinite").at_term(no_term, i, i);
+        return Status::error(StatusCode::non_finite_value, "site term is NaN or infinite").at_term(no_term, i, i);
       }
       fits = range.add(linear[i]) && fits;
       for (std::size_t k = row_starts[i]; k < row_starts[i + 1]; ++k) {
         const Index j = neighbours[k];
         if (j >= n) return Status::error(StatusCode::index_out_of_range, "neighbour beyond the model").at_term(no_term, i, j);
-        if (j == i) return Status::error(StatusCode::invalid_argument, "self-pair in a row (fold it into the linear term or offset)").at_term(no_term, i, j);
+        if (j == i) return Status::error(StatusCode::invalid_argument, "self-pair in a row (fold it into the site term or offset)").at_term(no_term, i, j);
         if (k > row_starts[i] && neighbours[k - 1] >= j) {
           return Status::error(StatusCode::invalid_argument, "row not sorted by neighbour, or a neighbour repeated").at_term(no_term, i, j);
         }
@@ -89,7 +89,7 @@ class SparseModelView {
   std::size_t size() const noexcept { return n_; }
   std::size_t num_pairs() const noexcept { return row_ == nullptr ? 0 : row_[n_] / 2; }
   energy_type offset() const noexcept { return offset_; }
-  Value linear(Index i) const noexcept { return linear_[i]; }
+  Value site_term(Index i) const noexcept { return linear_[i]; }
   std::size_t degree(Index i) const noexcept { return row_[i + 1] - row_[i]; }
   Span<Index> neighbours(Index i) const noexcept { return {neighbours_ + row_[i], degree(i)}; }
   Span<Value> row_values(Index i) const noexcept { return {values_ + row_[i], degree(i)}; }
@@ -161,7 +161,7 @@ using QuboModelView = SparseModelView<Form::qubo, Value, Index>;
 // A view of an existing model's arrays (valid while the model lives and is not edited).
 template <Form F, class Value, class Index>
 SparseModelView<F, Value, Index> view_of(const SparseModel<F, Value, Index>& m) noexcept {
-  auto v = SparseModelView<F, Value, Index>::over(m.num_spins(), m.linear_array().data(), m.row_starts().data(),
+  auto v = SparseModelView<F, Value, Index>::over(m.num_spins(), m.site_term_array().data(), m.row_starts().data(),
                                                   m.neighbour_array().data(), m.value_array().data(), m.offset());
   SPINWRIGHT_ASSERT(v.ok(), "a built model always satisfies the view's checks");
   return v.ok() ? v.value() : SparseModelView<F, Value, Index>{};

@@ -1,7 +1,7 @@
 // spinwright — graph colouring with k colours as a QUBO.
 // Bit x_{v,c} (index v * k + c) says vertex v has colour c. Penalties, all with weight A:
-//   exactly one colour per vertex:  A (1 - sum_c x_{v,c})^2          (ConstraintKind::exactly_one)
-//   no monochromatic edge:          A x_{u,c} x_{v,c} per edge, colour (ConstraintKind::at_most_one)
+//   exactly one colour per vertex:  A (1 - sum_c x_{v,c})^2          (ConstraintKind::one_hot)
+//   no monochromatic edge:          A x_{u,c} x_{v,c} per edge, colour (ConstraintKind::pairwise_exclusion)
 // H = 0 exactly for a proper k-colouring, and H >= A otherwise (A. Lucas, "Ising formulations
 // of many NP problems", Front. Phys. 2:5, 2014, section 6.1 [section number from memory]). With no
 // objective, any A > 0 keeps infeasible states above feasible ones; the ground energy is A
@@ -65,12 +65,12 @@ class ColouringProblem {
     std::vector<std::uint64_t> group(colours);
     for (std::uint64_t v = 0; v < num_vertices; ++v) {
       for (std::uint32_t c = 0; c < colours; ++c) group[c] = v * colours + c;
-      auto r = add_exactly_one(b, set, group, weight, {"one colour per vertex", v});
+      auto r = add_one_hot(b, set, group, weight, {"one colour per vertex", v});
       if (!r) return r.status();
     }
     for (std::size_t k = 0; k < edges.size(); ++k) {
       for (std::uint32_t c = 0; c < colours; ++c) {
-        auto r = add_at_most_one(b, set, {edges[k].u * colours + c, edges[k].v * colours + c}, weight,
+        auto r = add_pairwise_exclusion(b, set, {edges[k].u * colours + c, edges[k].v * colours + c}, weight,
                                  {"edge endpoints share a colour", k});
         if (!r) return r.status();
       }

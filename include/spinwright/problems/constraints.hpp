@@ -22,22 +22,22 @@ namespace spinwright {
 
 /// Which penalty built the constraint.
 enum class ConstraintKind : std::uint8_t {
-  exactly_one,   // sum x = 1,        penalty A (1 - sum x)^2
-  exactly_k,     // sum x = k,        penalty A (k - sum x)^2
-  at_most_one,   // sum x <= 1,       penalty A sum_{i<j} x_i x_j
-  at_least_one,  // x_u + x_v >= 1,   penalty A (1 - x_u)(1 - x_v)  (two variables only)
-  equality,      // sum a x = b,      penalty A (sum a x - b)^2
-  inequality,    // sum a x <= b,     penalty A (sum a x + slack - b)^2, slack bits
+  one_hot,             // sum x = 1,        penalty A (1 - sum x)^2
+  k_hot,               // sum x = k,        penalty A (k - sum x)^2
+  pairwise_exclusion,  // sum x <= 1,       penalty A sum_{i<j} x_i x_j
+  pair_cover,          // x_u + x_v >= 1,   penalty A (1 - x_u)(1 - x_v)  (two variables only)
+  sum_equal,           // sum a x = b,      penalty A (sum a x - b)^2
+  sum_at_most,         // sum a x <= b,     penalty A (sum a x + slack - b)^2, slack bits
 };
 
 inline constexpr const char* to_string(ConstraintKind kind) noexcept {
   switch (kind) {
-    case ConstraintKind::exactly_one: return "exactly-one";
-    case ConstraintKind::exactly_k: return "exactly-k";
-    case ConstraintKind::at_most_one: return "at-most-one";
-    case ConstraintKind::at_least_one: return "at-least-one";
-    case ConstraintKind::equality: return "linear equality";
-    case ConstraintKind::inequality: return "linear inequality";
+    case ConstraintKind::one_hot: return "one-hot";
+    case ConstraintKind::k_hot: return "k-hot";
+    case ConstraintKind::pairwise_exclusion: return "pairwise exclusion";
+    case ConstraintKind::pair_cover: return "pair cover";
+    case ConstraintKind::sum_equal: return "weighted sum equal to a bound";
+    case ConstraintKind::sum_at_most: return "weighted sum at most a bound";
   }
   return "unknown";
 }
@@ -56,7 +56,7 @@ struct ConstraintLabel {
 /// (inequalities only) are `slack_begin .. slack_begin + slack_weights.size() - 1`, bit m
 /// carrying the value `slack_weights[m]`. `weight` is the penalty weight A as a double.
 struct Constraint {
-  ConstraintKind kind = ConstraintKind::equality;
+  ConstraintKind kind = ConstraintKind::sum_equal;
   Relation relation = Relation::equal;
   ConstraintLabel label{};
   std::vector<std::uint64_t> variables;
@@ -101,7 +101,7 @@ struct Feasibility {
   bool feasible = true;
   std::size_t violated_count = 0;
   std::size_t first = 0;  // position of the first violated constraint (meaningful if !feasible)
-  ConstraintKind kind = ConstraintKind::equality;
+  ConstraintKind kind = ConstraintKind::sum_equal;
   ConstraintLabel label{};
   std::int64_t lhs = 0;
   std::int64_t bound = 0;

@@ -1,7 +1,7 @@
 // spinwright — maximum (weighted) independent set and minimum (weighted) vertex cover as QUBOs.
 // Bit x_v says vertex v is chosen; vertex weights w_v > 0 (all 1 when none are given).
-//   independent set:  H = -sum_v w_v x_v + A sum_{(u,v)} x_u x_v        (at_most_one per edge)
-//   vertex cover:     H =  sum_v w_v x_v + A sum_{(u,v)} (1 - x_u)(1 - x_v) (at_least_one per edge)
+//   independent set:  H = -sum_v w_v x_v + A sum_{(u,v)} x_u x_v        (pairwise_exclusion per edge)
+//   vertex cover:     H =  sum_v w_v x_v + A sum_{(u,v)} (1 - x_u)(1 - x_v) (pair_cover per edge)
 // With A > max_v w_v every ground state is feasible: in the first, dropping one endpoint of
 // a violated edge changes H by w_u - A (#chosen neighbours) < 0; in the second, adding one
 // endpoint of an uncovered edge changes H by w_u - A (#uncovered edges at u) < 0. Source:
@@ -82,8 +82,8 @@ class VertexSetProblem {
     const bool cover = goal == VertexSetGoal::vertex_cover;
     for (std::uint64_t v = 0; v < num_vertices; ++v) b.add_unary(v, cover ? w[v] : static_cast<Value>(-w[v]));
     for (std::size_t k = 0; k < edges.size(); ++k) {
-      auto r = cover ? add_at_least_one(b, set, edges[k].u, edges[k].v, weight, {"edge left uncovered", k})
-                     : add_at_most_one(b, set, {edges[k].u, edges[k].v}, weight, {"edge inside the set", k});
+      auto r = cover ? add_pair_cover(b, set, edges[k].u, edges[k].v, weight, {"edge left uncovered", k})
+                     : add_pairwise_exclusion(b, set, {edges[k].u, edges[k].v}, weight, {"edge inside the set", k});
       if (!r) return r.status();
     }
     auto m = b.build();

@@ -74,7 +74,7 @@ class KnapsackProblem {
     ConstraintSet set(n);
     std::vector<std::uint64_t> items(n);
     for (std::size_t i = 0; i < n; ++i) items[i] = i;
-    auto r = add_linear_inequality(full, set, items, weights, capacity, weight, {"total weight within capacity", 0});
+    auto r = add_sum_at_most(full, set, items, weights, capacity, weight, {"total weight within capacity", 0});
     if (!r) return r.status();
     auto m = full.build();
     if (!m) return m.status();

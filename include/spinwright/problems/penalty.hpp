@@ -7,10 +7,10 @@
 // (constraint data are integers, so a violation is at least 1). It registers a Constraint in
 // a ConstraintSet, which later names the first violated constraint of any returned state.
 //
-//   exactly_one     A (1 - sum x)^2       = A (1 - sum x_i + 2 sum_{i<j} x_i x_j)
-//   exactly_k       A (k - sum x)^2       = A (k^2 + (1 - 2k) sum x_i + 2 sum_{i<j} x_i x_j)
-//   at_most_one     A sum_{i<j} x_i x_j   (0 for <= 1 bit set, A m(m-1)/2 for m bits)
-//   at_least_one    A (1 - x_u)(1 - x_v)  (two variables: A when both are 0)
+//   one_hot     A (1 - sum x)^2       = A (1 - sum x_i + 2 sum_{i<j} x_i x_j)
+//   k_hot       A (k - sum x)^2       = A (k^2 + (1 - 2k) sum x_i + 2 sum_{i<j} x_i x_j)
+//   pairwise_exclusion     A sum_{i<j} x_i x_j   (0 for <= 1 bit set, A m(m-1)/2 for m bits)
+//   pair_cover    A (1 - x_u)(1 - x_v)  (two variables: A when both are 0)
 //   equality        A (sum a x - b)^2     = A (b^2 + sum (a_i^2 - 2 b a_i) x_i + 2 sum_{i<j} a_i a_j x_i x_j)
 //   inequality      A (sum a x + sum w_m y_m - b)^2 with slack bits y_m (below)
 // (x_i^2 = x_i for bits; common practice, e.g. A. Lucas, "Ising formulations of many NP
@@ -224,34 +224,34 @@ inline std::vector<std::int64_t> slack_weights(std::int64_t max_slack) {
   return w;
 }
 
-/// exactly-one of a group: adds A (1 - sum x)^2 and registers {exactly_one, sum x = 1}.
+/// one-hot of a group: adds A (1 - sum x)^2 and registers {one_hot, sum x = 1}.
 /// Returns the position of the record. Errors: invalid_argument (weight <= 0 or not finite,
 /// empty group), index_out_of_range (a variable >= set.num_variables()), value_out_of_range.
 template <class Value, class Index>
-Result<std::size_t> add_exactly_one(QuboBuilder<Value, Index>& builder, ConstraintSet& set,
+Result<std::size_t> add_one_hot(QuboBuilder<Value, Index>& builder, ConstraintSet& set,
                                     const std::vector<std::uint64_t>& variables, Value weight,
                                     ConstraintLabel label = {}) {
   const Status st = detail::check_weight_and_vars(static_cast<double>(weight), variables, set);
   if (!st) return st;
-  if (variables.empty()) return Status::error(StatusCode::invalid_argument, "exactly-one of an empty group can never hold");
+  if (variables.empty()) return Status::error(StatusCode::invalid_argument, "one-hot of an empty group can never hold");
   std::vector<std::int64_t> ones(variables.size(), 1);
   detail::PenaltyTerms<Value> terms;
   const Status t = detail::square_terms(variables, ones, 1, weight, terms);
   if (!t) return t;
   const Status e = detail::emit(builder, terms);
   if (!e) return e;
-  return set.add(detail::make_record(ConstraintKind::exactly_one, Relation::equal, label, variables, std::move(ones), 1, weight));
+  return set.add(detail::make_record(ConstraintKind::one_hot, Relation::equal, label, variables, std::move(ones), 1, weight));
 }
 
-/// exactly-k of a group: adds A (k - sum x)^2 and registers {exactly_k, sum x = k}.
-/// Errors as add_exactly_one, and invalid_argument when k > group size.
+/// k-hot of a group: adds A (k - sum x)^2 and registers {k_hot, sum x = k}.
+/// Errors as add_one_hot, and invalid_argument when k > group size.
 template <class Value, class Index>
-Result<std::size_t> add_exactly_k(QuboBuilder<Value, Index>& builder, ConstraintSet& set,
+Result<std::size_t> add_k_hot(QuboBuilder<Value, Index>& builder, ConstraintSet& set,
                                   const std::vector<std::uint64_t>& variables, std::uint64_t k, Value weight,
                                   ConstraintLabel label = {}) {
   const Status st = detail::check_weight_and_vars(static_cast<double>(weight), variables, set);
   if (!st) return st;
-  if (k > variables.size()) return Status::error(StatusCode::invalid_argument, "exactly-k with k above the group size can never hold");
+  if (k > variables.size()) return Status::error(StatusCode::invalid_argument, "k-hot with k above the group size can never hold");
   std::vector<std::int64_t> ones(variables.size(), 1);
   const auto kk = static_cast<std::int64_t>(k);
   detail::PenaltyTerms<Value> terms;
@@ -259,12 +259,12 @@ Result<std::size_t> add_exactly_k(QuboBuilder<Value, Index>& builder, Constraint
   if (!t) return t;
   const Status e = detail::emit(builder, terms);
   if (!e) return e;
-  return set.add(detail::make_record(ConstraintKind::exactly_k, Relation::equal, label, variables, std::move(ones), kk, weight));
+  return set.add(detail::make_record(ConstraintKind::k_hot, Relation::equal, label, variables, std::move(ones), kk, weight));
 }
 
-/// at-most-one of a group: adds A sum_{i<j} x_i x_j and registers {at_most_one, sum x <= 1}.
+/// pairwise-exclusion of a group: adds A sum_{i<j} x_i x_j and registers {pairwise_exclusion, sum x <= 1}.
 template <class Value, class Index>
-Result<std::size_t> add_at_most_one(QuboBuilder<Value, Index>& builder, ConstraintSet& set,
+Result<std::size_t> add_pairwise_exclusion(QuboBuilder<Value, Index>& builder, ConstraintSet& set,
                                     const std::vector<std::uint64_t>& variables, Value weight,
                                     ConstraintLabel label = {}) {
   const Status st = detail::check_weight_and_vars(static_cast<double>(weight), variables, set);
@@ -273,23 +273,23 @@ Result<std::size_t> add_at_most_one(QuboBuilder<Value, Index>& builder, Constrai
     for (std::size_t l = k + 1; l < variables.size(); ++l) builder.add_pair(variables[k], variables[l], weight);
   }
   if (!builder.status()) return builder.status();
-  return set.add(detail::make_record(ConstraintKind::at_most_one, Relation::at_most, label, variables,
+  return set.add(detail::make_record(ConstraintKind::pairwise_exclusion, Relation::at_most, label, variables,
                                      std::vector<std::int64_t>(variables.size(), 1), 1, weight));
 }
 
-/// at-least-one of two distinct bits u, v: adds A (1 - x_u)(1 - x_v) = A (1 - x_u - x_v + x_u x_v)
-/// and registers {at_least_one, x_u + x_v >= 1}. Errors: invalid_argument also when u == v.
+/// pair-cover of two distinct bits u, v: adds A (1 - x_u)(1 - x_v) = A (1 - x_u - x_v + x_u x_v)
+/// and registers {pair_cover, x_u + x_v >= 1}. Errors: invalid_argument also when u == v.
 template <class Value, class Index>
-Result<std::size_t> add_at_least_one(QuboBuilder<Value, Index>& builder, ConstraintSet& set, std::uint64_t u,
+Result<std::size_t> add_pair_cover(QuboBuilder<Value, Index>& builder, ConstraintSet& set, std::uint64_t u,
                                      std::uint64_t v, Value weight, ConstraintLabel label = {}) {
   std::vector<std::uint64_t> vars{u, v};
   const Status st = detail::check_weight_and_vars(static_cast<double>(weight), vars, set);
   if (!st) return st;
-  if (u == v) return Status::error(StatusCode::invalid_argument, "at-least-one needs two distinct variables");
+  if (u == v) return Status::error(StatusCode::invalid_argument, "pair-cover needs two distinct variables");
   builder.add_unary(u, static_cast<Value>(-weight)).add_unary(v, static_cast<Value>(-weight)).add_pair(u, v, weight);
   builder.add_offset(static_cast<energy_t<Value>>(weight));
   if (!builder.status()) return builder.status();
-  return set.add(detail::make_record(ConstraintKind::at_least_one, Relation::at_least, label, std::move(vars),
+  return set.add(detail::make_record(ConstraintKind::pair_cover, Relation::at_least, label, std::move(vars),
                                      std::vector<std::int64_t>{1, 1}, 1, weight));
 }
 
@@ -297,7 +297,7 @@ Result<std::size_t> add_at_least_one(QuboBuilder<Value, Index>& builder, Constra
 /// Errors: as above, invalid_argument when the two lists differ in length, value_out_of_range
 /// when sum |a| + |b| > 2^53 or a penalty coefficient does not fit Value.
 template <class Value, class Index>
-Result<std::size_t> add_linear_equality(QuboBuilder<Value, Index>& builder, ConstraintSet& set,
+Result<std::size_t> add_sum_equal(QuboBuilder<Value, Index>& builder, ConstraintSet& set,
                                         const std::vector<std::uint64_t>& variables,
                                         const std::vector<std::int64_t>& coefficients, std::int64_t bound,
                                         Value weight, ConstraintLabel label = {}) {
@@ -311,16 +311,16 @@ Result<std::size_t> add_linear_equality(QuboBuilder<Value, Index>& builder, Cons
   if (!t) return t;
   const Status e = detail::emit(builder, terms);
   if (!e) return e;
-  return set.add(detail::make_record(ConstraintKind::equality, Relation::equal, label, variables, coefficients, bound, weight));
+  return set.add(detail::make_record(ConstraintKind::sum_equal, Relation::equal, label, variables, coefficients, bound, weight));
 }
 
 /// Linear inequality sum a x <= b (integer data) through slack bits: allocates
 /// slack_bit_count(a, b) new variables from `set` (numbered from set.num_variables()), adds
 /// A (sum a x + sum w_m y_m - b)^2 and registers it with its slack bits. The builder must
 /// accept the new indices (grow on demand, or be declared with enough room).
-/// Errors: as add_linear_equality, and invalid_argument when b < sum min(a_i, 0).
+/// Errors: as add_sum_equal, and invalid_argument when b < sum min(a_i, 0).
 template <class Value, class Index>
-Result<std::size_t> add_linear_inequality(QuboBuilder<Value, Index>& builder, ConstraintSet& set,
+Result<std::size_t> add_sum_at_most(QuboBuilder<Value, Index>& builder, ConstraintSet& set,
                                           const std::vector<std::uint64_t>& variables,
                                           const std::vector<std::int64_t>& coefficients, std::int64_t bound,
                                           Value weight, ConstraintLabel label = {}) {
@@ -347,7 +347,7 @@ Result<std::size_t> add_linear_inequality(QuboBuilder<Value, Index>& builder, Co
   const Status e = detail::emit(builder, terms);
   if (!e) return e;
   set.allocate_variables(weights.size());
-  Constraint c = detail::make_record(ConstraintKind::inequality, Relation::at_most, label, variables, coefficients, bound, weight);
+  Constraint c = detail::make_record(ConstraintKind::sum_at_most, Relation::at_most, label, variables, coefficients, bound, weight);
   c.slack_begin = first;
   c.slack_weights = std::move(weights);
   return set.add(std::move(c));
@@ -361,7 +361,7 @@ energy_t<Value> objective_span(const QuboModel<Value, Index>& objective) noexcep
   energy_type s{0};
   for (std::size_t i = 0; i < objective.num_spins(); ++i) {
     const auto ii = static_cast<Index>(i);
-    const Value u = objective.linear(ii);
+    const Value u = objective.site_term(ii);
     s += static_cast<energy_type>(u < 0 ? -u : u);
     objective.for_each_neighbour(ii, [&](Index j, Value v) {
       if (j > ii) s += static_cast<energy_type>(v < 0 ? -v : v);
@@ -378,7 +378,7 @@ energy_t<Value> objective_span(const IsingModel<Value, Index>& objective) noexce
   energy_type s{0};
   for (std::size_t i = 0; i < objective.num_spins(); ++i) {
     const auto ii = static_cast<Index>(i);
-    const Value h = objective.linear(ii);
+    const Value h = objective.site_term(ii);
     s += static_cast<energy_type>(h < 0 ? -h : h);
     objective.for_each_neighbour(ii, [&](Index j, Value v) {
       if (j > ii) s += static_cast<energy_type>(v < 0 ? -v : v);

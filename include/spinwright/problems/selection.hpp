@@ -3,7 +3,7 @@
 //   minimise  f(x) = lambda x^T C x - mu^T x   subject to  sum_i x_i = K,
 // with x^T C x = sum_i C_ii x_i + 2 sum_{i<j} C_ij x_i x_j (C symmetric, x_i^2 = x_i), so
 //   unary Q_ii = lambda C_ii - mu_i,  pair Q_ij = 2 lambda C_ij,
-// plus the exactly-k penalty A (K - sum x)^2 (problems/penalty.hpp). The default A is
+// plus the k-hot penalty A (K - sum x)^2 (problems/penalty.hpp). The default A is
 // suggest_penalty_weight(f), which makes every ground state select exactly K items and
 // minimise f among such selections (common practice for QUBO portfolio models, e.g.
 // Glover, Kochenberger, Du, 4OR 17, 2019, section on portfolio-type problems [from memory]).
@@ -104,7 +104,7 @@ class SelectionProblem {
     ConstraintSet set(n);
     std::vector<std::uint64_t> all(n);
     for (std::size_t i = 0; i < n; ++i) all[i] = i;
-    auto r = add_exactly_k(full, set, all, count, weight, {"choose exactly K items", count});
+    auto r = add_k_hot(full, set, all, count, weight, {"choose exactly K items", count});
     if (!r) return r.status();
     auto m = full.build();
     if (!m) return m.status();

@@ -9,7 +9,7 @@
 // drift measured after 10^8 flips.
 //
 // The state keeps a pointer to its model: the model must outlive it. Edit coefficients
-// through edit_linear / edit_pair / edit_offset below so the fields stay exact; any other
+// through edit_site_term / edit_pair / edit_offset below so the fields stay exact; any other
 // state over the same model must then be resync()ed.
 #ifndef SPINWRIGHT_STATE_SPIN_STATE_HPP
 #define SPINWRIGHT_STATE_SPIN_STATE_HPP
@@ -150,8 +150,8 @@ class SpinState {
   }
 
   // Energy change of exchanging two opposite spins (i.e. flipping both). O(log degree).
-  energy_type delta_exchange(index_type i, index_type j) const noexcept {
-    SPINWRIGHT_ASSERT(spins_[i] != spins_[j], "exchange needs two opposite spins");
+  energy_type delta_swap(index_type i, index_type j) const noexcept {
+    SPINWRIGHT_ASSERT(spins_[i] != spins_[j], "a count-keeping swap needs two opposite spins");
     const auto v = static_cast<energy_type>(model_->pair(i, j));
     const energy_type inside = v * spins_[i] * spins_[j];
     if constexpr (form == Form::ising) {
@@ -161,7 +161,7 @@ class SpinState {
     }
   }
 
-  void exchange(index_type i, index_type j) noexcept {
+  void apply_swap(index_type i, index_type j) noexcept {
     flip(i);
     flip(j);
   }
@@ -188,13 +188,13 @@ class SpinState {
     return c;
   }
 
-  // Low-level hooks for in-place coefficient edits, called by edit_linear / edit_pair /
+  // Low-level hooks for in-place coefficient edits, called by edit_site_term / edit_pair /
   // edit_offset after the model holds the new value; `change` is new minus old.
   // Integer models update in O(1) and stay exact. Floating models recompute the touched local
   // fields from the model (O(degree)) and the energy from the fields (O(N)): an incremental
   // update would keep the rounding of a removed dominant term (a coefficient 10^17 times the
   // others leaves its rounding in the sums after it is edited away).
-  void on_linear_change(index_type i, energy_type change) noexcept {
+  void on_site_term_change(index_type i, energy_type change) noexcept {
     if constexpr (std::is_integral_v<energy_type>) {
       fields_[i] += change;
       if constexpr (form == Form::ising) {
@@ -236,7 +236,7 @@ class SpinState {
 
  private:
   energy_type recompute_field(index_type i) const noexcept {
-    auto f = static_cast<energy_type>(model_->linear(i));
+    auto f = static_cast<energy_type>(model_->site_term(i));
     if constexpr (form == Form::ising) {
       model_->for_each_neighbour(i, [&](index_type j, value_type v) {
         if (j != i) f += static_cast<energy_type>(v) * spins_[j];
@@ -257,7 +257,7 @@ class SpinState {
     energy_type twice = 0;
     for (std::size_t i = 0; i < spins_.size(); ++i) {
       const auto ii = static_cast<index_type>(i);
-      const auto h = static_cast<energy_type>(model_->linear(ii));
+      const auto h = static_cast<energy_type>(model_->site_term(ii));
       if constexpr (form == Form::ising) {
         twice += spins_[i] * (h + fields_[i]);
       } else {
@@ -281,13 +281,13 @@ class SpinState {
 
 // In-place coefficient edits that keep a state exact. The model must be the state's model.
 template <class Model>
-Status edit_linear(Model& model, SpinState<Model>& state, typename Model::index_type i, typename Model::value_type v) {
+Status edit_site_term(Model& model, SpinState<Model>& state, typename Model::index_type i, typename Model::value_type v) {
   SPINWRIGHT_ASSERT(&state.model() == &model, "the state belongs to another model");
-  if (i >= model.num_spins()) return model.set_linear(i, v);
-  const auto old = static_cast<typename Model::energy_type>(model.linear(i));
-  const Status st = model.set_linear(i, v);
+  if (i >= model.num_spins()) return model.set_site_term(i, v);
+  const auto old = static_cast<typename Model::energy_type>(model.site_term(i));
+  const Status st = model.set_site_term(i, v);
   if (!st) return st;
-  state.on_linear_change(i, static_cast<typename Model::energy_type>(v) - old);
+  state.on_site_term_change(i, static_cast<typename Model::energy_type>(v) - old);
   return st;
 }
 

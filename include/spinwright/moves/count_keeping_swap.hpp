@@ -1,4 +1,4 @@
-// spinwright — Exchange: flip one +1 spin and one -1 spin together, so the number of +1
+// spinwright — CountKeepingSwap: flip one +1 spin and one -1 spin together, so the number of +1
 // spins (a cardinality: QUBO bits set = n - that number) never changes. Start from a state
 // with the wanted cardinality (a warm start); the move keeps it for the whole run.
 // Two index lists (+1 sites, -1 sites) make every proposal valid in O(1).
@@ -16,7 +16,7 @@
 namespace spinwright {
 
 template <class Model>
-class Exchange {
+class CountKeepingSwap {
  public:
   using state_type = SpinState<Model>;
   using index_type = typename Model::index_type;
@@ -28,10 +28,10 @@ class Exchange {
     std::uint32_t down_pos; // its place in the -1 list
   };
 
-  Exchange() = default;
+  CountKeepingSwap() = default;
 
   /// Lists for n spins carved from an arena (no heap); check valid().
-  Exchange(std::size_t n, Arena& arena) : up_(n, arena), down_(n, arena), pos_(n, arena) {}
+  CountKeepingSwap(std::size_t n, Arena& arena) : up_(n, arena), down_(n, arena), pos_(n, arena) {}
   static std::size_t bytes_needed(std::size_t n) noexcept {
     return 2 * arena_bytes<index_type>(n) + arena_bytes<std::uint32_t>(n);
   }
@@ -47,7 +47,7 @@ class Exchange {
       down_ = detail::Buffer<index_type>(n);
       pos_ = detail::Buffer<std::uint32_t>(n);
 #else
-      SPINWRIGHT_ASSERT(false, "Exchange lists were made for another number of spins");
+      SPINWRIGHT_ASSERT(false, "CountKeepingSwap lists were made for another number of spins");
       return;
 #endif
     }
@@ -76,10 +76,10 @@ class Exchange {
     return {up_[a], down_[b], a, b};
   }
 
-  energy_type delta(const state_type& s, const proposal_type& p) const noexcept { return s.delta_exchange(p.up, p.down); }
+  energy_type delta(const state_type& s, const proposal_type& p) const noexcept { return s.delta_swap(p.up, p.down); }
 
   void apply(state_type& s, const proposal_type& p, energy_type) noexcept {
-    s.exchange(p.up, p.down);
+    s.apply_swap(p.up, p.down);
     up_[p.up_pos] = p.down;
     down_[p.down_pos] = p.up;
     pos_[p.down] = p.up_pos;
