@@ -23,7 +23,9 @@ constexpr std::uint32_t bit(std::uint32_t w, std::uint32_t t) { return w * shift
 // Proposal: worker w leaves shift `from` (bit 1 -> 0) and joins shift `to` (bit 0 -> 1).
 class ShiftTransfer {
  public:
-  struct proposal_type { std::uint32_t worker, from, to; };
+  struct proposal_type {
+    std::uint32_t worker, from, to;
+  };
   void prepare(const SpinState<Model>& s) {  // read each worker's shift off the state (spin -1 = bit 1)
     shift_of_.assign(workers, 0);
     for (std::uint32_t w = 0; w < workers; ++w) {

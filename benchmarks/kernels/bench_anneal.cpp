@@ -65,7 +65,8 @@ double reference_ns(int g, int phase) {
   double elapsed = 0;
   std::uint64_t k = 0;
   while (elapsed < 0.5) {
-    const double beta = phase == cold ? range.beta_end : sched.beta_at(static_cast<double>(k % anneal_sweeps) / (anneal_sweeps - 1));
+    const double beta =
+        phase == cold ? range.beta_end : sched.beta_at(static_cast<double>(k % anneal_sweeps) / (anneal_sweeps - 1));
     sink += ref.sweep(beta);
     attempts += ref.size();
     ++k;

@@ -19,7 +19,7 @@
 
 #include <algorithm>  // std::sort, std::min
 #include <cstdint>
-#include <cstdlib>    // std::getenv, std::atof, std::atoi
+#include <cstdlib>  // std::getenv, std::atof, std::atoi
 #include <limits>
 #include <map>
 #include <string>
@@ -87,8 +87,8 @@ void bm_gset(benchmark::State& state, const char* name) {
     used.clear();
     per_seed.clear();
     for (int seed = 1; seed <= seeds; ++seed) {
-      const auto s = solve_auto(x.model, static_cast<std::uint64_t>(seed), 0,
-                                Budget{}.with_time_limit(seconds, cpu_clock()));
+      const auto s =
+          solve_auto(x.model, static_cast<std::uint64_t>(seed), 0, Budget{}.with_time_limit(seconds, cpu_clock()));
       const std::int64_t cut = cut_from_energy(x.weight, s.energy);
       cuts.push_back(static_cast<double>(cut));
       used.push_back(s.seconds);

@@ -85,12 +85,14 @@ Outcome run_one(int kernel, int inst, std::uint64_t seed) {
       if (s.reason == StopReason::target_reached || s.reason == StopReason::deadline) break;
     }
   } else if (kernel == tempering) {
-    const auto s = temper(x.model, TemperParams{}, seed, 0,
-                          Budget{}.with_sweeps(~std::uint64_t{0}).with_time_limit(cap, cpu_clock()).with_target(target));
+    const auto s =
+        temper(x.model, TemperParams{}, seed, 0,
+               Budget{}.with_sweeps(~std::uint64_t{0}).with_time_limit(cap, cpu_clock()).with_target(target));
     best = s.energy;
   } else {
-    const auto s = tabu_walk(x.model, TabuParams{}, seed, 0,
-                               Budget{}.with_sweeps(~std::uint64_t{0}).with_time_limit(cap, cpu_clock()).with_target(target));
+    const auto s =
+        tabu_walk(x.model, TabuParams{}, seed, 0,
+                  Budget{}.with_sweeps(~std::uint64_t{0}).with_time_limit(cap, cpu_clock()).with_target(target));
     best = s.energy;
   }
   out.seconds = thread_seconds(nullptr) - start;
@@ -116,8 +118,8 @@ void bm_time_to_target(benchmark::State& state) {
     }
   }
   std::sort(times.begin(), times.end());
-  const double median = times.size() % 2 == 1 ? times[times.size() / 2]
-                                              : 0.5 * (times[times.size() / 2 - 1] + times[times.size() / 2]);
+  const double median =
+      times.size() % 2 == 1 ? times[times.size() / 2] : 0.5 * (times[times.size() / 2 - 1] + times[times.size() / 2]);
   state.SetLabel(std::string(kernel_names[kernel]) + " " + instances[inst]);
   state.counters["median_cpu_s"] = median;
   state.counters["reached"] = reached;

@@ -82,8 +82,9 @@ void run(benchmark::State& st, Model model, std::uint64_t warm_sweeps) {
     for (int r = 0; r < 1000; ++r) {
       for (std::size_t e = 0; e < edits; ++e) {
         const auto& p = pairs[rng.below(static_cast<std::uint32_t>(pairs.size()))];
-        (void)model.set_pair(static_cast<typename Model::index_type>(p.first), static_cast<typename Model::index_type>(p.second),
-                             static_cast<typename Model::value_type>(static_cast<int>(rng.below(201)) - 100 + (r == 0)));
+        (void)model.set_pair(
+            static_cast<typename Model::index_type>(p.first), static_cast<typename Model::index_type>(p.second),
+            static_cast<typename Model::value_type>(static_cast<int>(rng.below(201)) - 100 + (r == 0)));
       }
       alloc_counter::start();
       const auto t0 = clock_type::now();

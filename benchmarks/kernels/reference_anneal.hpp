@@ -24,7 +24,9 @@ class PlainAnnealer {
     for (std::size_t i = 0; i < n; ++i) {
       const auto ii = static_cast<typename Model::index_type>(i);
       h_[i] = model.site_term(ii);
-      model.for_each_neighbour(ii, [&](typename Model::index_type j, Value v) { adj_[i].push_back({static_cast<std::uint32_t>(j), v}); });
+      model.for_each_neighbour(ii, [&](typename Model::index_type j, Value v) {
+        adj_[i].push_back({static_cast<std::uint32_t>(j), v});
+      });
       spins_[i] = (rng_() >> 63) ? 1 : -1;
     }
   }

@@ -164,8 +164,7 @@ Failure parse_count(const Args& args, const std::string& name, std::uint64_t min
   return {};
 }
 
-Failure parse_real(const Args& args, const std::string& name, bool positive, const std::string& command,
-                   double& out) {
+Failure parse_real(const Args& args, const std::string& name, bool positive, const std::string& command, double& out) {
   const std::string* text = args.value(name);
   if (text == nullptr) return {};
   double v = 0;

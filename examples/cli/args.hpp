@@ -14,8 +14,8 @@ namespace spinwright_cli {
 // Process exit codes (documented in docs/cli.md).
 enum ExitCode : int {
   exit_ok = 0,
-  exit_input = 1,        // unreadable or malformed input, a refused model, an unwritable output
-  exit_usage = 2,        // bad command line
+  exit_input = 1,          // unreadable or malformed input, a refused model, an unwritable output
+  exit_usage = 2,          // bad command line
   exit_interrupted = 130,  // Ctrl-C (128 + SIGINT)
 };
 
@@ -54,8 +54,7 @@ Failure parse_args(int argc, const char* const* argv, int first, const std::vect
 // Strict number parsing: the whole text must be the number.
 Failure parse_count(const Args& args, const std::string& name, std::uint64_t min, std::uint64_t max,
                     const std::string& command, std::uint64_t& out);
-Failure parse_real(const Args& args, const std::string& name, bool positive, const std::string& command,
-                   double& out);
+Failure parse_real(const Args& args, const std::string& name, bool positive, const std::string& command, double& out);
 bool parse_u64_text(const std::string& text, std::uint64_t& out);
 bool parse_double_text(const std::string& text, double& out);
 

@@ -85,9 +85,9 @@ Failure parse_kernels(const std::string& text, const LoadedModel& m, std::vector
 
 int run_bench(int argc, const char* const* argv) {
   Args args;
-  const int early = parse_or_exit(argc, argv, bench_options(), "bench", "FILE [--target ENERGY] [--restarts R] [options]",
-                                  "Success probability, residual energy and TTS99 of each kernel over R restarts.",
-                                  args);
+  const int early =
+      parse_or_exit(argc, argv, bench_options(), "bench", "FILE [--target ENERGY] [--restarts R] [options]",
+                    "Success probability, residual energy and TTS99 of each kernel over R restarts.", args);
   if (early >= 0) return early;
   const std::string cmd = "bench";
   Failure f = expect_positional(args, 1, cmd, "FILE");
@@ -103,7 +103,8 @@ int run_bench(int argc, const char* const* argv) {
   if ((f = parse_count(args, "threads", 0, 1024, cmd, threads)).failed()) return fail(f);
   base.threads = static_cast<unsigned>(threads);
   if ((f = parse_count(args, "seed", 0, ~std::uint64_t{0}, cmd, base.seed)).failed()) return fail(f);
-  if (args.has("time-limit") && (f = parse_real(args, "time-limit", true, cmd, base.time_limit)).failed()) return fail(f);
+  if (args.has("time-limit") && (f = parse_real(args, "time-limit", true, cmd, base.time_limit)).failed())
+    return fail(f);
   bool has_target = args.has("target");
   double target = 0;
   if (has_target && (f = parse_real(args, "target", false, cmd, target)).failed()) return fail(f);
@@ -193,11 +194,11 @@ int run_bench(int argc, const char* const* argv) {
     head.line("target", number_text(target) + (has_target ? "" : " (best energy found in this bench)"));
     head.line("seed", std::to_string(base.seed));
     if (interrupted_run) head.line("stopped", "interrupted (Ctrl-C); figures cover the restarts run so far");
-    TextTable table({"kernel", "restarts", "sweeps/restart", "best", "P(success)", "residual", "median time",
-                     "TTS99"});
+    TextTable table({"kernel", "restarts", "sweeps/restart", "best", "P(success)", "residual", "median time", "TTS99"});
     for (const auto& r : rows) {
       const auto& t = r.result.tally;
-      const double per = t.restarts() == 0 ? 0 : static_cast<double>(t.total_sweeps()) / static_cast<double>(t.restarts());
+      const double per =
+          t.restarts() == 0 ? 0 : static_cast<double>(t.total_sweeps()) / static_cast<double>(t.restarts());
       table.row({kernel_name(r.kernel), std::to_string(t.restarts()), short_number(per), number_text(t.best().energy),
                  probability_text(t.success_probability(target, tol)), number_text(t.residual_energy(target)),
                  seconds_text(t.median_seconds()), seconds_text(t.tts99(target, tol))});

@@ -56,8 +56,9 @@ Failure write_model(const std::string& path, const std::string& out_format, cons
   } else if constexpr (Model::form == spinwright::Form::ising) {
     st = spinwright::io::write_edge_list(path, model);
   } else {
-    return usage_failure("an edge list holds only max-cut graphs (Ising couplings); a QUBO model needs --out-format mtx",
-                         "write OUT as Matrix Market (e.g. name it OUT.mtx)");
+    return usage_failure(
+        "an edge list holds only max-cut graphs (Ising couplings); a QUBO model needs --out-format mtx",
+        "write OUT as Matrix Market (e.g. name it OUT.mtx)");
   }
   if (!st.ok()) {
     if (st.code == spinwright::StatusCode::invalid_argument) {
@@ -81,7 +82,8 @@ int run_convert(int argc, const char* const* argv) {
   if (f.failed()) return fail(f);
   const std::string* to = args.value("to");
   if (to == nullptr) {
-    return fail(usage_failure("'convert' needs --to ising or --to qubo", "usage: spinwright convert IN OUT --to ising|qubo"));
+    return fail(
+        usage_failure("'convert' needs --to ising or --to qubo", "usage: spinwright convert IN OUT --to ising|qubo"));
   }
   if (*to != "ising" && *to != "qubo") {
     return fail(usage_failure("option '--to' expects 'ising' or 'qubo', got '" + *to + "'",

@@ -11,7 +11,6 @@
 #include <spinwright/model/maxcut.hpp>
 #include <spinwright/parallel/exact_threads.hpp>
 
-
 namespace spinwright_cli {
 
 namespace {

@@ -94,12 +94,13 @@ int run_inspect(int argc, const char* const* argv) {
     if (m.graph) {
       t.line("weights", g.pairs == 0 ? "none" : range_text(g.pair_min, g.pair_max));
     } else {
-      t.line(linear_name, std::to_string(g.site_terms_nonzero) + " non-zero, " + range_text(g.site_term_min, g.site_term_max));
+      t.line(linear_name,
+             std::to_string(g.site_terms_nonzero) + " non-zero, " + range_text(g.site_term_min, g.site_term_max));
       t.line(range_name, g.pairs == 0 ? "none" : range_text(g.pair_min, g.pair_max));
     }
     t.line("offset", number_text(g.offset));
-    t.line("components", std::to_string(g.components) + " (largest " + std::to_string(g.largest_component) +
-                             " " + unit + (g.largest_component == 1 ? ")" : "s)"));
+    t.line("components", std::to_string(g.components) + " (largest " + std::to_string(g.largest_component) + " " +
+                             unit + (g.largest_component == 1 ? ")" : "s)"));
     t.line("memory", bytes_text(g.model_bytes) + " model + " + bytes_text(g.state_bytes) + " per restart");
     t.line("auto kernel", std::string(kernel_name(chosen.kernel)) +
                               (chosen.sweeps > 0 ? ", " + std::to_string(chosen.sweeps) + " sweeps per restart" : "") +

@@ -154,9 +154,10 @@ std::string solve_text(const LoadedModel& m, const SolveSettings& s, const RunRe
   t.line("file", m.path);
   t.line("model", m.description + ", " + std::to_string(m.num_spins()) + (m.graph ? " nodes, " : " variables, ") +
                       std::to_string(m.num_pairs()) + (m.graph ? " edges" : " pairs"));
-  t.line("kernel", std::string(kernel_name(s.run.kernel)) +
-                       (s.run.fill_time ? " (chosen automatically, filling the time limit)"
-                                        : s.kernel_auto ? " (chosen automatically)" : ""));
+  t.line("kernel",
+         std::string(kernel_name(s.run.kernel)) + (s.run.fill_time ? " (chosen automatically, filling the time limit)"
+                                                   : s.kernel_auto ? " (chosen automatically)"
+                                                                   : ""));
   if (r.exact) {
     t.line("threads", std::to_string(r.threads));
   } else {
@@ -170,12 +171,13 @@ std::string solve_text(const LoadedModel& m, const SolveSettings& s, const RunRe
   } else if (r.cut_short > 0 && s.run.time_limit < std::numeric_limits<double>::infinity()) {
     t.line("stopped", std::to_string(r.cut_short) + " restarts cut short by the time limit");
   }
-  t.line("energy", number_text(best.energy) + (r.exact ? " (ground state, " + std::to_string(r.ground_count) +
-                                                              (r.ground_count == 1 ? " ground state)" : " ground states)")
-                                                        : ""));
+  t.line("energy",
+         number_text(best.energy) + (r.exact ? " (ground state, " + std::to_string(r.ground_count) +
+                                                   (r.ground_count == 1 ? " ground state)" : " ground states)")
+                                             : ""));
   if (m.graph) {
-    t.line("cut", number_text(static_cast<double>(spinwright::cut_value(m.ising, best.spins.data()))) + " (total weight " +
-                      number_text(static_cast<double>(spinwright::total_weight(m.ising))) + ")");
+    t.line("cut", number_text(static_cast<double>(spinwright::cut_value(m.ising, best.spins.data()))) +
+                      " (total weight " + number_text(static_cast<double>(spinwright::total_weight(m.ising))) + ")");
   }
   const double scale = visit(m, [](const auto& model) { return model.energy_bound(); });
   if (!r.exact) {
@@ -191,8 +193,7 @@ std::string solve_text(const LoadedModel& m, const SolveSettings& s, const RunRe
                          seconds_text(r.tally.tts99(s.run.target, tol)));
   }
   if (!s.state_out.empty()) t.line("state written to", s.state_out);
-  t.line(m.form == spinwright::Form::qubo ? "bits" : "spins",
-         spins_text(best.spins, m.form == spinwright::Form::qubo));
+  t.line(m.form == spinwright::Form::qubo ? "bits" : "spins", spins_text(best.spins, m.form == spinwright::Form::qubo));
   return t.str();
 }
 

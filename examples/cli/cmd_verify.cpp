@@ -24,9 +24,9 @@ const std::vector<OptionSpec>& verify_options() {
 
 int run_verify(int argc, const char* const* argv) {
   Args args;
-  const int early = parse_or_exit(argc, argv, verify_options(), "verify", "FILE STATEFILE [options]",
-                                  "Recomputes the energy (and the cut, for graphs) of the assignment in STATEFILE.",
-                                  args);
+  const int early =
+      parse_or_exit(argc, argv, verify_options(), "verify", "FILE STATEFILE [options]",
+                    "Recomputes the energy (and the cut, for graphs) of the assignment in STATEFILE.", args);
   if (early >= 0) return early;
   Failure f = expect_positional(args, 2, "verify", "FILE STATEFILE");
   if (f.failed()) return fail(f);

@@ -37,8 +37,7 @@ Failure report_option(const Args& args, const std::string& command, bool& json) 
                        "run 'spinwright " + command + " --help' for the options");
 }
 
-Failure check_format_option(const Args& args, const std::string& name, const std::string& command,
-                            std::string& out) {
+Failure check_format_option(const Args& args, const std::string& name, const std::string& command, std::string& out) {
   out.clear();
   const std::string* v = args.value(name);
   if (v == nullptr) return {};

@@ -92,8 +92,9 @@ Failure load_model(const std::string& path, const std::string& forced, LoadedMod
     using Value = typename Model::value_type;
     if constexpr (std::is_integral_v<Value>) {
       if (model.energy_bound() >= 0x1.0p53) {
-        return input_failure(path + ": integer coefficients too large: the energy range (sum of |coefficients|) "
-                                    "reaches 2^53, beyond exact arithmetic in double precision");
+        return input_failure(path +
+                             ": integer coefficients too large: the energy range (sum of |coefficients|) "
+                             "reaches 2^53, beyond exact arithmetic in double precision");
       }
     }
     auto converted = to_double(model);

@@ -24,7 +24,7 @@ struct LoadedModel {
   std::string format;       // "edges" or "mtx"
   std::string description;  // for people, e.g. "edge list (max-cut graph)"
   spinwright::Form form = spinwright::Form::ising;
-  bool graph = false;       // an edge list: a max-cut graph, J = w, h = 0
+  bool graph = false;  // an edge list: a max-cut graph, J = w, h = 0
   Ising ising;
   Qubo qubo;
 
@@ -54,8 +54,7 @@ Failure load_state(const std::string& path, std::size_t n, std::vector<std::int8
 Failure save_state(const std::string& path, const std::vector<std::int8_t>& spins, bool as_bits);
 
 // The --format option: "", "edges" or "mtx"; anything else is a usage error.
-Failure check_format_option(const Args& args, const std::string& name, const std::string& command,
-                            std::string& out);
+Failure check_format_option(const Args& args, const std::string& name, const std::string& command, std::string& out);
 
 // Figures for `inspect` and for the automatic kernel choice.
 struct ModelFigures {
@@ -64,17 +63,17 @@ struct ModelFigures {
   std::size_t min_degree = 0;
   std::size_t max_degree = 0;
   double mean_degree = 0;
-  double density = 0;            // pairs / (N (N - 1) / 2)
+  double density = 0;  // pairs / (N (N - 1) / 2)
   std::size_t site_terms_nonzero = 0;
-  double site_term_min = 0;         // over all N site terms (fields or unary terms)
+  double site_term_min = 0;  // over all N site terms (fields or unary terms)
   double site_term_max = 0;
-  double pair_min = 0;           // over stored pairs (0 when none)
+  double pair_min = 0;  // over stored pairs (0 when none)
   double pair_max = 0;
   double offset = 0;
-  std::size_t components = 0;    // connected components of the pair graph (isolated nodes count)
+  std::size_t components = 0;  // connected components of the pair graph (isolated nodes count)
   std::size_t largest_component = 0;
-  double model_bytes = 0;        // the CSR model as stored
-  double state_bytes = 0;        // one SpinState (spins, local fields, marks) per restart
+  double model_bytes = 0;  // the CSR model as stored
+  double state_bytes = 0;  // one SpinState (spins, local fields, marks) per restart
 };
 ModelFigures figures_of(const LoadedModel& m);
 

@@ -56,8 +56,8 @@ int main(int argc, char** argv) {
   if (command == "verify") return run_verify(argc, args);
   if (command == "bench") return run_bench(argc, args);
   const std::string near = closest(command, names);
-  print_failure(usage_failure("unknown command '" + command + "'",
-                              near.empty() ? "commands are: solve, exact, inspect, convert, verify, bench"
-                                           : "did you mean '" + near + "'?"));
+  print_failure(usage_failure(
+      "unknown command '" + command + "'",
+      near.empty() ? "commands are: solve, exact, inspect, convert, verify, bench" : "did you mean '" + near + "'?"));
   return exit_usage;
 }

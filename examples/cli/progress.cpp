@@ -3,11 +3,11 @@
 
 #include <spinwright/control/steady_clock.hpp>
 
-#include <chrono>  // std::chrono::milliseconds
-#include <cmath>   // std::isfinite
-#include <csignal> // sigaction, SIGINT
-#include <cstdio>  // std::snprintf
-#include <string>  // std::string
+#include <chrono>   // std::chrono::milliseconds
+#include <cmath>    // std::isfinite
+#include <csignal>  // sigaction, SIGINT
+#include <cstdio>   // std::snprintf
+#include <string>   // std::string
 
 #include <unistd.h>  // isatty, write, STDERR_FILENO
 

@@ -21,11 +21,16 @@ namespace spinwright_cli {
 
 const char* kernel_name(Kernel k) {
   switch (k) {
-    case Kernel::anneal: return "anneal";
-    case Kernel::temper: return "temper";
-    case Kernel::tabu: return "tabu";
-    case Kernel::descent: return "descent";
-    case Kernel::exact: return "exact";
+    case Kernel::anneal:
+      return "anneal";
+    case Kernel::temper:
+      return "temper";
+    case Kernel::tabu:
+      return "tabu";
+    case Kernel::descent:
+      return "descent";
+    case Kernel::exact:
+      return "exact";
   }
   return "anneal";
 }
@@ -47,11 +52,16 @@ std::size_t exact_limit() { return spinwright::exact_default_limit; }
 namespace {
 Kernel from_kind(spinwright::KernelKind k) {
   switch (k) {
-    case spinwright::KernelKind::anneal: return Kernel::anneal;
-    case spinwright::KernelKind::temper: return Kernel::temper;
-    case spinwright::KernelKind::tabu: return Kernel::tabu;
-    case spinwright::KernelKind::descent: return Kernel::descent;
-    case spinwright::KernelKind::exact: return Kernel::exact;
+    case spinwright::KernelKind::anneal:
+      return Kernel::anneal;
+    case spinwright::KernelKind::temper:
+      return Kernel::temper;
+    case spinwright::KernelKind::tabu:
+      return Kernel::tabu;
+    case spinwright::KernelKind::descent:
+      return Kernel::descent;
+    case spinwright::KernelKind::exact:
+      return Kernel::exact;
   }
   return Kernel::anneal;
 }
@@ -105,8 +115,8 @@ struct ProgressObserver {
 };
 
 template <class Model>
-spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o, std::uint64_t r,
-                                         double run_start, std::atomic<std::uint64_t>& cut_short) {
+spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o, std::uint64_t r, double run_start,
+                                         std::atomic<std::uint64_t>& cut_short) {
   spinwright::Budget budget;
   budget.sweeps = o.sweeps;
   budget.stop = &interrupt_token();

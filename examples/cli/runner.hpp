@@ -42,7 +42,7 @@ std::size_t exact_limit();
 
 struct RunOptions {
   Kernel kernel = Kernel::anneal;
-  std::uint64_t sweeps = 0;    // per restart; 0: the kernel's default
+  std::uint64_t sweeps = 0;  // per restart; 0: the kernel's default
   std::uint64_t restarts = 1;
   unsigned threads = 1;
   std::uint64_t seed = 1;
@@ -59,11 +59,11 @@ struct RunOptions {
 
 struct RunResult {
   spinwright::Tally<double> tally;
-  double seconds = 0;           // wall time of the whole run (file reading excluded)
-  unsigned threads = 1;         // threads actually used
-  bool interrupted = false;     // Ctrl-C
-  std::uint64_t cut_short = 0;  // restarts ended by the time limit or Ctrl-C
-  bool exact = false;           // the exact kernel ran: the best state is a ground state
+  double seconds = 0;              // wall time of the whole run (file reading excluded)
+  unsigned threads = 1;            // threads actually used
+  bool interrupted = false;        // Ctrl-C
+  std::uint64_t cut_short = 0;     // restarts ended by the time limit or Ctrl-C
+  bool exact = false;              // the exact kernel ran: the best state is a ground state
   std::uint64_t ground_count = 0;  // exact kernel: number of ground states
 };
 

@@ -25,7 +25,9 @@ struct Segment {
 
 // Ring main (neighbours share a segment), plus two sets of cross-links.
 constexpr auto make_segments() {
-  struct List { Segment s[3 * valves]; } list{};
+  struct List {
+    Segment s[3 * valves];
+  } list{};
   for (std::uint16_t i = 0; i < valves; ++i) {
     list.s[i] = {i, static_cast<std::uint16_t>((i + 1) % valves), 6};
     list.s[valves + i] = {i, static_cast<std::uint16_t>((i + 4) % valves), 4};

@@ -45,6 +45,11 @@ extern "C" void reset_handler() {
 
 // Initial stack pointer, reset, and the fault handlers (NMI, HardFault, MemManage, BusFault,
 // UsageFault) that end the run with an error.
-__attribute__((section(".vectors"), used)) void (*const vector_table[8])() = {
-    reinterpret_cast<void (*)()>(&_stack_top), reset_handler, default_handler, default_handler,
-    default_handler, default_handler, default_handler, nullptr};
+__attribute__((section(".vectors"), used)) void (*const vector_table[8])() = {reinterpret_cast<void (*)()>(&_stack_top),
+                                                                              reset_handler,
+                                                                              default_handler,
+                                                                              default_handler,
+                                                                              default_handler,
+                                                                              default_handler,
+                                                                              default_handler,
+                                                                              nullptr};

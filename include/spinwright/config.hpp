@@ -6,47 +6,47 @@
 #include <cstdlib>  // std::abort
 
 #ifndef SPINWRIGHT_ASSERTS
-#  if defined(NDEBUG)
-#    define SPINWRIGHT_ASSERTS 0
-#  else
-#    define SPINWRIGHT_ASSERTS 1
-#  endif
+#if defined(NDEBUG)
+#define SPINWRIGHT_ASSERTS 0
+#else
+#define SPINWRIGHT_ASSERTS 1
+#endif
 #endif
 
 #ifndef SPINWRIGHT_NO_HEAP
-#  define SPINWRIGHT_NO_HEAP 0
+#define SPINWRIGHT_NO_HEAP 0
 #endif
 
 #if defined(__cpp_exceptions) || defined(__EXCEPTIONS) || defined(_CPPUNWIND)
-#  define SPINWRIGHT_HAS_EXCEPTIONS 1
+#define SPINWRIGHT_HAS_EXCEPTIONS 1
 #else
-#  define SPINWRIGHT_HAS_EXCEPTIONS 0
+#define SPINWRIGHT_HAS_EXCEPTIONS 0
 #endif
 
 #if defined(__cpp_rtti) || defined(__GXX_RTTI) || defined(_CPPRTTI)
-#  define SPINWRIGHT_HAS_RTTI 1
+#define SPINWRIGHT_HAS_RTTI 1
 #else
-#  define SPINWRIGHT_HAS_RTTI 0
+#define SPINWRIGHT_HAS_RTTI 0
 #endif
 
 // A user may define SPINWRIGHT_ASSERT_HANDLER(file, line, message) to log before the abort.
 #if SPINWRIGHT_ASSERTS
-#  if defined(SPINWRIGHT_ASSERT_HANDLER)
-#    define SPINWRIGHT_ASSERT(cond, msg)                              \
-       do {                                                           \
-         if (!(cond)) {                                               \
-           SPINWRIGHT_ASSERT_HANDLER(__FILE__, __LINE__, msg);        \
-           std::abort();                                              \
-         }                                                            \
-       } while (false)
-#  else
-#    define SPINWRIGHT_ASSERT(cond, msg) \
-       do {                              \
-         if (!(cond)) std::abort();      \
-       } while (false)
-#  endif
+#if defined(SPINWRIGHT_ASSERT_HANDLER)
+#define SPINWRIGHT_ASSERT(cond, msg)                      \
+  do {                                                    \
+    if (!(cond)) {                                        \
+      SPINWRIGHT_ASSERT_HANDLER(__FILE__, __LINE__, msg); \
+      std::abort();                                       \
+    }                                                     \
+  } while (false)
 #else
-#  define SPINWRIGHT_ASSERT(cond, msg) static_cast<void>(0)
+#define SPINWRIGHT_ASSERT(cond, msg) \
+  do {                               \
+    if (!(cond)) std::abort();       \
+  } while (false)
+#endif
+#else
+#define SPINWRIGHT_ASSERT(cond, msg) static_cast<void>(0)
 #endif
 
 namespace spinwright::config {

@@ -4,42 +4,55 @@
 
 #include "config.hpp"
 
-#include <cstdint>   // std::uint8_t, std::uint64_t
-#include <utility>   // std::move
+#include <cstdint>  // std::uint8_t, std::uint64_t
+#include <utility>  // std::move
 
 namespace spinwright {
 
 enum class StatusCode : std::uint8_t {
   ok,
-  index_out_of_range,   // a spin index beyond the model or beyond the index type
-  non_finite_value,     // NaN or infinity offered as a coefficient
-  value_out_of_range,   // a coefficient that does not fit the value type (after merging)
-  energy_overflow,      // an integer model whose energy range could overflow the accumulator
-  missing_term,         // an in-place edit of a coupling the model does not have
-  size_limit,           // a size beyond a documented limit (exact enumeration, dense models)
-  parse_error,          // malformed input text
-  io_error,             // a file that cannot be opened, read or written
-  invalid_argument,     // a parameter outside its documented range
-  unsupported,          // a valid but unsupported variant (e.g. complex Matrix Market)
-  capacity_exceeded,    // a caller-supplied buffer is too small
-  stopped,              // a StopToken ended an operation that has no partial answer (exact enumeration)
+  index_out_of_range,  // a spin index beyond the model or beyond the index type
+  non_finite_value,    // NaN or infinity offered as a coefficient
+  value_out_of_range,  // a coefficient that does not fit the value type (after merging)
+  energy_overflow,     // an integer model whose energy range could overflow the accumulator
+  missing_term,        // an in-place edit of a coupling the model does not have
+  size_limit,          // a size beyond a documented limit (exact enumeration, dense models)
+  parse_error,         // malformed input text
+  io_error,            // a file that cannot be opened, read or written
+  invalid_argument,    // a parameter outside its documented range
+  unsupported,         // a valid but unsupported variant (e.g. complex Matrix Market)
+  capacity_exceeded,   // a caller-supplied buffer is too small
+  stopped,             // a StopToken ended an operation that has no partial answer (exact enumeration)
 };
 
 inline constexpr const char* to_string(StatusCode code) noexcept {
   switch (code) {
-    case StatusCode::ok: return "ok";
-    case StatusCode::index_out_of_range: return "index out of range";
-    case StatusCode::non_finite_value: return "non-finite value";
-    case StatusCode::value_out_of_range: return "value out of range";
-    case StatusCode::energy_overflow: return "energy overflow";
-    case StatusCode::missing_term: return "missing term";
-    case StatusCode::size_limit: return "size limit";
-    case StatusCode::parse_error: return "parse error";
-    case StatusCode::io_error: return "i/o error";
-    case StatusCode::invalid_argument: return "invalid argument";
-    case StatusCode::unsupported: return "unsupported";
-    case StatusCode::capacity_exceeded: return "capacity exceeded";
-    case StatusCode::stopped: return "stopped";
+    case StatusCode::ok:
+      return "ok";
+    case StatusCode::index_out_of_range:
+      return "index out of range";
+    case StatusCode::non_finite_value:
+      return "non-finite value";
+    case StatusCode::value_out_of_range:
+      return "value out of range";
+    case StatusCode::energy_overflow:
+      return "energy overflow";
+    case StatusCode::missing_term:
+      return "missing term";
+    case StatusCode::size_limit:
+      return "size limit";
+    case StatusCode::parse_error:
+      return "parse error";
+    case StatusCode::io_error:
+      return "i/o error";
+    case StatusCode::invalid_argument:
+      return "invalid argument";
+    case StatusCode::unsupported:
+      return "unsupported";
+    case StatusCode::capacity_exceeded:
+      return "capacity exceeded";
+    case StatusCode::stopped:
+      return "stopped";
   }
   return "unknown";
 }

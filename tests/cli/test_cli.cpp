@@ -242,8 +242,8 @@ TEST_CASE("cli: solve --report json holds the documented keys, and its cut and e
   CHECK(r.code == 0);
   CHECK(r.err.empty());
   const Json j = parse_ok(r);
-  for (const char* key : {"energy", "cut", "spins", "seconds", "sweeps", "restarts", "threads", "kernel", "seed", "tally",
-                          "nodes", "pairs", "format", "form", "interrupted"}) {
+  for (const char* key : {"energy", "cut", "spins", "seconds", "sweeps", "restarts", "threads", "kernel", "seed",
+                          "tally", "nodes", "pairs", "format", "form", "interrupted"}) {
     CHECK_MESSAGE(j.has(key), key);
   }
   CHECK_FALSE(j.has("bits"));  // Ising input: spins only
@@ -373,8 +373,10 @@ TEST_CASE("cli: the same seed gives the same answer for any thread count") {
     }
   }
   // A different seed is a different run (the spins differ for this model and these seeds).
-  const RunOutput a = run(dir, {"solve", path, "--kernel", "descent", "--restarts", "1", "--seed", "1", "--report", "json"});
-  const RunOutput b = run(dir, {"solve", path, "--kernel", "descent", "--restarts", "1", "--seed", "2", "--report", "json"});
+  const RunOutput a =
+      run(dir, {"solve", path, "--kernel", "descent", "--restarts", "1", "--seed", "1", "--report", "json"});
+  const RunOutput b =
+      run(dir, {"solve", path, "--kernel", "descent", "--restarts", "1", "--seed", "2", "--report", "json"});
   CHECK(spins_of(parse_ok(a)) != spins_of(parse_ok(b)));
 }
 
@@ -456,9 +458,9 @@ TEST_CASE("cli: exact gives ground energy, state and count, and refuses sizes be
   Graph p;
   p.n = 10;
   for (int k = 0; k < 5; ++k) {
-    p.edges.push_back({k + 1, (k + 1) % 5 + 1, 1});          // outer cycle
-    p.edges.push_back({k + 6, (k + 2) % 5 + 6, 1});          // inner pentagram
-    p.edges.push_back({k + 1, k + 6, 1});                    // spokes
+    p.edges.push_back({k + 1, (k + 1) % 5 + 1, 1});  // outer cycle
+    p.edges.push_back({k + 6, (k + 2) % 5 + 6, 1});  // inner pentagram
+    p.edges.push_back({k + 1, k + 6, 1});            // spokes
   }
   const RunOutput pr = run(dir, {"exact", dir.write("petersen.txt", p.edge_list()), "--report", "json"});
   REQUIRE(pr.code == 0);
@@ -563,8 +565,8 @@ TEST_CASE("cli: verify, warm starts and state files") {
   REQUIRE(v.code == 0);
   CHECK(parse_ok(v)["energy"].num == ej["energy"].num);
   // Descent from a ground state stays there (a ground state is a local minimum).
-  const RunOutput d = run(dir, {"solve", path, "--kernel", "descent", "--restarts", "1", "--warm-start", ground,
-                                "--report", "json"});
+  const RunOutput d =
+      run(dir, {"solve", path, "--kernel", "descent", "--restarts", "1", "--warm-start", ground, "--report", "json"});
   REQUIRE(d.code == 0);
   const Json dj = parse_ok(d);
   CHECK(dj["energy"].num == ej["energy"].num);
@@ -601,8 +603,8 @@ TEST_CASE("cli: bench reports success probability, residual energy and TTS99 per
   CHECK(descent["success_probability"].num <= 1.0);
   CHECK(descent["residual_energy"].num >= 0.0);
   // An unreachable target: probability 0 and an infinite TTS99, written as null.
-  const RunOutput never = run(dir, {"bench", path, "--target", "-1000", "--restarts", "3", "--kernel", "descent",
-                                    "--report", "json"});
+  const RunOutput never =
+      run(dir, {"bench", path, "--target", "-1000", "--restarts", "3", "--kernel", "descent", "--report", "json"});
   REQUIRE(never.code == 0);
   const Json nj = parse_ok(never);
   CHECK(nj["kernels"].items[0]["success_probability"].num == 0.0);
@@ -618,10 +620,10 @@ TEST_CASE("cli: Ctrl-C stops a long run, prints the best state so far and exits 
   REQUIRE(dir.ok());
   const Graph g = random_graph(3000, 9000, -1, 1, 99);
   const std::string path = dir.write("big.txt", g.edge_list());
-  const RunOutput r = cli_test::run_process(
-      exe, {"solve", path, "--kernel", "anneal", "--sweeps", "1000000000", "--restarts", "2", "--threads", "2",
-            "--report", "json"},
-      dir, 0.7, 60);
+  const RunOutput r = cli_test::run_process(exe,
+                                            {"solve", path, "--kernel", "anneal", "--sweeps", "1000000000",
+                                             "--restarts", "2", "--threads", "2", "--report", "json"},
+                                            dir, 0.7, 60);
   CHECK_FALSE(r.hung);
   CHECK(r.code == 130);
   const Json j = parse_ok(r);
@@ -665,8 +667,9 @@ TEST_CASE("cli: a time limit ends a run that its sweep budget would not; no prog
   REQUIRE(dir.ok());
   const std::string path = dir.write("g.txt", random_graph(500, 1500, -1, 1, 4).edge_list());
   // Longer than the second after which a terminal would show the progress line.
-  const RunOutput r = cli_test::run_process(exe, {"solve", path, "--kernel", "anneal", "--sweeps", "1000000000",
-                                                  "--restarts", "2", "--time-limit", "1.3", "--report", "json"},
+  const RunOutput r = cli_test::run_process(exe,
+                                            {"solve", path, "--kernel", "anneal", "--sweeps", "1000000000",
+                                             "--restarts", "2", "--time-limit", "1.3", "--report", "json"},
                                             dir, 0, 60);
   CHECK_FALSE(r.hung);
   CHECK(r.code == 0);
@@ -682,22 +685,23 @@ TEST_CASE("cli: auto with a time limit and no sweep count fills the limit (kerne
   REQUIRE(dir.ok());
   const Graph g = random_graph(300, 900, -2, 3, 6);
   const std::string path = dir.write("g.txt", g.edge_list());
-  const RunOutput r = cli_test::run_process(exe, {"solve", path, "--time-limit", "0.4", "--threads", "2", "--report", "json"},
-                                            dir, 0, 60);
+  const RunOutput r = cli_test::run_process(
+      exe, {"solve", path, "--time-limit", "0.4", "--threads", "2", "--report", "json"}, dir, 0, 60);
   CHECK_FALSE(r.hung);
   CHECK(r.code == 0);
   const Json j = parse_ok(r);
   CHECK(j["time_filling"].b);
   CHECK(j["kernel_requested"].text == "auto");
   CHECK((j["kernel"].text == "anneal" || j["kernel"].text == "temper"));
-  CHECK(j["restarts"].num == 2);  // one restart per thread by default
+  CHECK(j["restarts"].num == 2);   // one restart per thread by default
   CHECK(j["cut_short"].num == 0);  // ending at the deadline is this mode's normal end
   const std::vector<int> s = spins_of(j);
   REQUIRE(s.size() == 300);
   CHECK(static_cast<std::int64_t>(j["energy"].num) == g.energy(s));
   CHECK(static_cast<std::int64_t>(j["cut"].num) == g.cut(s));
   // A sweep count keeps the fixed runs of the rule.
-  const RunOutput fixed = run(dir, {"solve", path, "--time-limit", "30", "--sweeps", "50", "--restarts", "3", "--report", "json"});
+  const RunOutput fixed =
+      run(dir, {"solve", path, "--time-limit", "30", "--sweeps", "50", "--restarts", "3", "--report", "json"});
   CHECK(fixed.code == 0);
   const Json k = parse_ok(fixed);
   CHECK_FALSE(k["time_filling"].b);
@@ -727,8 +731,8 @@ TEST_CASE("cli: on a terminal a long run shows the progress line on stderr, unle
     REQUIRE(::openpty(&master, &slave, nullptr, nullptr, nullptr) == 0);
     ::fcntl(master, F_SETFL, ::fcntl(master, F_GETFL) | O_NONBLOCK);
     ::fcntl(master, F_SETFD, FD_CLOEXEC);
-    std::vector<std::string> args = {"solve", path, "--kernel", "anneal", "--sweeps", "1000000000",
-                                     "--restarts", "2", "--time-limit", "1.6"};
+    std::vector<std::string> args = {"solve",      path,         "--kernel", "anneal",       "--sweeps",
+                                     "1000000000", "--restarts", "2",        "--time-limit", "1.6"};
     if (quiet) args.push_back("--quiet");
     const RunOutput r = cli_test::run_process(exe, args, dir, 0, 60, slave);
     ::close(slave);
@@ -743,8 +747,8 @@ TEST_CASE("cli: on a terminal a long run shows the progress line on stderr, unle
     } else {
       CHECK(tty.find("elapsed") != std::string::npos);
       CHECK(tty.find("restarts") != std::string::npos);
-      CHECK(tty.find('\r') != std::string::npos);           // redrawn in place
-      CHECK(tty.find('\n') == std::string::npos);           // a single line, never scrolled
+      CHECK(tty.find('\r') != std::string::npos);  // redrawn in place
+      CHECK(tty.find('\n') == std::string::npos);  // a single line, never scrolled
     }
   }
 }

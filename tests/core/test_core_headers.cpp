@@ -7,9 +7,9 @@
 #include <spinwright/spinwright.hpp>
 
 #if defined(__GLIBCXX__)
-#  if defined(_GLIBCXX_IOSTREAM) || defined(_GLIBCXX_FSTREAM) || defined(_GLIBCXX_THREAD) || defined(_GLIBCXX_CHRONO)
-#    error "a core header pulled in <iostream>, <fstream>, <thread> or <chrono>"
-#  endif
+#if defined(_GLIBCXX_IOSTREAM) || defined(_GLIBCXX_FSTREAM) || defined(_GLIBCXX_THREAD) || defined(_GLIBCXX_CHRONO)
+#error "a core header pulled in <iostream>, <fstream>, <thread> or <chrono>"
+#endif
 #endif
 
 #include <doctest/doctest.h>

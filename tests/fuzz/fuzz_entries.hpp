@@ -88,8 +88,12 @@ Value decode_value(ByteReader& r) {
                                lim::max() / 4,   lim::max() / 8,    lim::epsilon(),  Value(1) / Value(3)};
         Value v = table[r.byte() % 16];
         if constexpr (std::is_same_v<Value, double>) {
-          const double more[] = {spinwright::float_energy_limit, -spinwright::float_energy_limit,
-                                 spinwright::float_energy_limit / 2, 3.4028234663852886e38, 1e300, -1e300};
+          const double more[] = {spinwright::float_energy_limit,
+                                 -spinwright::float_energy_limit,
+                                 spinwright::float_energy_limit / 2,
+                                 3.4028234663852886e38,
+                                 1e300,
+                                 -1e300};
           const std::uint8_t k = r.byte();
           if (k < 6) v = more[k];
         }
@@ -98,10 +102,20 @@ Value decode_value(ByteReader& r) {
         const auto L = static_cast<std::int64_t>(spinwright::integer_energy_limit);
         const std::int64_t table[] = {std::numeric_limits<std::int64_t>::min(),
                                       std::numeric_limits<std::int64_t>::max(),
-                                      L, L + 1, -L, -L - 1, L / 2, L / 2 + 1, L / 3, -(L / 2),
-                                      (std::int64_t{1} << 53) + 1, std::numeric_limits<std::int64_t>::min() + 1,
-                                      std::numeric_limits<std::int32_t>::min(), std::numeric_limits<std::int32_t>::max(),
-                                      std::numeric_limits<std::int32_t>::max() / 2 + 1, L - 255};
+                                      L,
+                                      L + 1,
+                                      -L,
+                                      -L - 1,
+                                      L / 2,
+                                      L / 2 + 1,
+                                      L / 3,
+                                      -(L / 2),
+                                      (std::int64_t{1} << 53) + 1,
+                                      std::numeric_limits<std::int64_t>::min() + 1,
+                                      std::numeric_limits<std::int32_t>::min(),
+                                      std::numeric_limits<std::int32_t>::max(),
+                                      std::numeric_limits<std::int32_t>::max() / 2 + 1,
+                                      L - 255};
         const std::int64_t v = table[r.byte() % 16];
         if constexpr (std::is_same_v<Value, std::int32_t>) {
           if (v < lim::min() || v > lim::max()) return static_cast<Value>(v % 100000 + small);
@@ -140,14 +154,22 @@ std::uint64_t decode_index(ByteReader& r, bool grows, std::uint64_t declared) {
   if (tag < 232) return tag % 12;
   const std::uint64_t top = spinwright::max_spins_v<Index>;
   switch (tag % 8) {
-    case 0: return ((grows && top > 65535) || r.byte() != 0x5a) ? top : top - 1;
-    case 1: return top;
-    case 2: return top + 1;
-    case 3: return ~std::uint64_t{0};
-    case 4: return std::uint64_t{1} << 32;
-    case 5: return declared;
-    case 6: return declared == 0 ? 0 : declared - 1;
-    default: return 12 + r.byte() % 64;
+    case 0:
+      return ((grows && top > 65535) || r.byte() != 0x5a) ? top : top - 1;
+    case 1:
+      return top;
+    case 2:
+      return top + 1;
+    case 3:
+      return ~std::uint64_t{0};
+    case 4:
+      return std::uint64_t{1} << 32;
+    case 5:
+      return declared;
+    case 6:
+      return declared == 0 ? 0 : declared - 1;
+    default:
+      return 12 + r.byte() % 64;
   }
 }
 
@@ -156,8 +178,8 @@ template <class Value>
 struct RawTerm {
   enum Kind : std::uint8_t { linear, pair, offset } kind;
   std::uint64_t i, j;
-  Value v;                          // linear and pair
-  spinwright::energy_t<Value> c;    // offset
+  Value v;                        // linear and pair
+  spinwright::energy_t<Value> c;  // offset
 };
 
 template <class Value>
@@ -248,12 +270,18 @@ Failure check_structure(const Model& m, bool edited = false) {
     Failure f = nullptr;
     m.for_each_neighbour(ii, [&](Index j, Value v) {
       if (f) return;
-      if (j >= n) f = "neighbour index beyond the model";
-      else if (j == ii) f = "self pair stored in a row";
-      else if (!first && j <= last) f = "row not strictly sorted";
-      else if (v == Value{0} && !edited) f = "zero pair stored";
-      else if (!finite_value(v)) f = "non-finite pair stored";
-      else if (m.pair(j, ii) != v) f = "pair storage not symmetric";
+      if (j >= n)
+        f = "neighbour index beyond the model";
+      else if (j == ii)
+        f = "self pair stored in a row";
+      else if (!first && j <= last)
+        f = "row not strictly sorted";
+      else if (v == Value{0} && !edited)
+        f = "zero pair stored";
+      else if (!finite_value(v))
+        f = "non-finite pair stored";
+      else if (m.pair(j, ii) != v)
+        f = "pair storage not symmetric";
       first = false;
       last = j;
     });
@@ -263,7 +291,8 @@ Failure check_structure(const Model& m, bool edited = false) {
   if constexpr (std::is_integral_v<Value>) {
     const Wide sum = abs_sum<Wide>(m);
     if (sum > static_cast<Wide>(spinwright::integer_energy_limit)) return "integer model beyond integer_energy_limit";
-    if (m.energy_bound() != static_cast<double>(static_cast<std::uint64_t>(sum))) return "energy_bound differs from the sum of magnitudes";
+    if (m.energy_bound() != static_cast<double>(static_cast<std::uint64_t>(sum)))
+      return "energy_bound differs from the sum of magnitudes";
   } else {
     const double b = m.energy_bound();
     if (!finite_value(b) || b > spinwright::float_energy_limit) return "floating model beyond float_energy_limit";
@@ -293,10 +322,12 @@ Failure check_state(const spinwright::SpinState<Model>& st) {
     if (!finite_value(st.energy())) return "non-finite energy in a state";
     for (std::size_t i = 0; i < st.size(); ++i) {
       const auto idx = static_cast<typename Model::index_type>(i);
-      if (!finite_value(st.local_field(idx)) || !finite_value(st.delta(idx))) return "non-finite field or delta in a state";
+      if (!finite_value(st.local_field(idx)) || !finite_value(st.delta(idx)))
+        return "non-finite field or delta in a state";
     }
     const double scale = st.model().energy_bound() + 1e-300;
-    if (c.max_field_error > 1e-6 * scale || c.energy_error > 1e-6 * scale) return "floating state drifted far from the model";
+    if (c.max_field_error > 1e-6 * scale || c.energy_error > 1e-6 * scale)
+      return "floating state drifted far from the model";
   }
   return nullptr;
 }
@@ -331,8 +362,8 @@ Failure builder_case(ByteReader& r, bool fixed, std::uint64_t declared, std::uin
     bad_code = StatusCode::index_out_of_range;  // the declared size itself
   }
   std::uint64_t n = fixed ? declared : 0;
-  Wide offset_wide = 0;             // integer running offset
-  Energy offset_run{0};             // floating running offset (same order as the builder)
+  Wide offset_wide = 0;  // integer running offset
+  Energy offset_run{0};  // floating running offset (same order as the builder)
 
   const std::size_t max_terms = 48;
   for (std::size_t t = 0; t < max_terms && !r.empty(); ++t) {
@@ -438,7 +469,9 @@ Failure builder_case(ByteReader& r, bool fixed, std::uint64_t declared, std::uin
     if (linear_like) {
       if constexpr (integral) {
         lin_w[t.i] += t.v;
-        if (lin_w[t.i] > std::numeric_limits<std::int64_t>::max() || lin_w[t.i] < std::numeric_limits<std::int64_t>::min()) maybe = true;
+        if (lin_w[t.i] > std::numeric_limits<std::int64_t>::max() ||
+            lin_w[t.i] < std::numeric_limits<std::int64_t>::min())
+          maybe = true;
       } else {
         lin_f[t.i] += static_cast<Energy>(t.v);
         if (!finite_value(lin_f[t.i])) must_refuse = true;
@@ -553,7 +586,8 @@ Failure builder_case(ByteReader& r, bool fixed, std::uint64_t declared, std::uin
     if constexpr (integral) {
       Wide want = 0;
       for (const Term& t : terms) want += raw_contribution<F, Wide>(t, spins.data());
-      if (static_cast<Wide>(m.energy(spins.data())) != want) return "integer energy differs from the raw-term recomputation";
+      if (static_cast<Wide>(m.energy(spins.data())) != want)
+        return "integer energy differs from the raw-term recomputation";
       if (magnitude(want) > bound_w) return "integer energy beyond its bound";
     } else {
       long double want = 0;
@@ -579,7 +613,8 @@ Failure builder_case(ByteReader& r, bool fixed, std::uint64_t declared, std::uin
             if (q->energy(spins.data()) != m.energy(spins.data())) return "qubo_from changed an integer energy";
           } else {
             const long double d = magnitude(static_cast<long double>(q->energy(spins.data())) - m.energy(spins.data()));
-            if (d > 1e-6L * (m.energy_bound() + q->energy_bound()) + 1e-300L) return "qubo_from changed a floating energy";
+            if (d > 1e-6L * (m.energy_bound() + q->energy_bound()) + 1e-300L)
+              return "qubo_from changed a floating energy";
           }
         }
       } else if constexpr (integral) {
@@ -613,12 +648,15 @@ Failure builder_case(ByteReader& r, bool fixed, std::uint64_t declared, std::uin
         for (int rep = 0; rep < 2; ++rep) {
           for (auto& s : spins) s = rng.coin() ? 1 : -1;
           if constexpr (integral) {
-            if (static_cast<long double>(is->energy(spins.data())) != static_cast<long double>(m.energy(spins.data()))) {
+            if (static_cast<long double>(is->energy(spins.data())) !=
+                static_cast<long double>(m.energy(spins.data()))) {
               return "ising_from changed an integer energy (must be exact below 2^50)";
             }
           } else {
-            const long double d = magnitude(static_cast<long double>(is->energy(spins.data())) - m.energy(spins.data()));
-            if (d > 1e-6L * (m.energy_bound() + is->energy_bound()) + 1e-300L) return "ising_from changed a floating energy";
+            const long double d =
+                magnitude(static_cast<long double>(is->energy(spins.data())) - m.energy(spins.data()));
+            if (d > 1e-6L * (m.energy_bound() + is->energy_bound()) + 1e-300L)
+              return "ising_from changed a floating energy";
           }
         }
       } else if (integral && m.energy_bound() < 0x1.0p49) {
@@ -716,7 +754,8 @@ Failure builder_case(ByteReader& r, bool fixed, std::uint64_t declared, std::uin
         if (integral && s.ok() != (proposed <= static_cast<Wide>(integer_energy_limit))) {
           return "edit_offset accepted or refused against the exact range";
         }
-        if (!s.ok() && (!(m.offset() == old) || m.energy_bound() != old_bound)) return "refused edit_offset changed the model";
+        if (!s.ok() && (!(m.offset() == old) || m.energy_bound() != old_bound))
+          return "refused edit_offset changed the model";
         break;
       }
       default:
@@ -742,23 +781,27 @@ inline Failure builder_entry(const std::uint8_t* data, std::size_t size) {
   const bool wide_index = (config & 8) != 0;
   switch ((config >> 1) & 3) {
     case 0:
-      if (ising) return wide_index ? builder_case<Form::ising, double, std::uint32_t>(r, fixed, declared, seed)
-                                   : builder_case<Form::ising, double, std::uint16_t>(r, fixed, declared, seed);
+      if (ising)
+        return wide_index ? builder_case<Form::ising, double, std::uint32_t>(r, fixed, declared, seed)
+                          : builder_case<Form::ising, double, std::uint16_t>(r, fixed, declared, seed);
       return wide_index ? builder_case<Form::qubo, double, std::uint32_t>(r, fixed, declared, seed)
                         : builder_case<Form::qubo, double, std::uint16_t>(r, fixed, declared, seed);
     case 1:
-      if (ising) return wide_index ? builder_case<Form::ising, float, std::uint32_t>(r, fixed, declared, seed)
-                                   : builder_case<Form::ising, float, std::uint16_t>(r, fixed, declared, seed);
+      if (ising)
+        return wide_index ? builder_case<Form::ising, float, std::uint32_t>(r, fixed, declared, seed)
+                          : builder_case<Form::ising, float, std::uint16_t>(r, fixed, declared, seed);
       return wide_index ? builder_case<Form::qubo, float, std::uint32_t>(r, fixed, declared, seed)
                         : builder_case<Form::qubo, float, std::uint16_t>(r, fixed, declared, seed);
     case 2:
-      if (ising) return wide_index ? builder_case<Form::ising, std::int32_t, std::uint32_t>(r, fixed, declared, seed)
-                                   : builder_case<Form::ising, std::int32_t, std::uint16_t>(r, fixed, declared, seed);
+      if (ising)
+        return wide_index ? builder_case<Form::ising, std::int32_t, std::uint32_t>(r, fixed, declared, seed)
+                          : builder_case<Form::ising, std::int32_t, std::uint16_t>(r, fixed, declared, seed);
       return wide_index ? builder_case<Form::qubo, std::int32_t, std::uint32_t>(r, fixed, declared, seed)
                         : builder_case<Form::qubo, std::int32_t, std::uint16_t>(r, fixed, declared, seed);
     default:
-      if (ising) return wide_index ? builder_case<Form::ising, std::int64_t, std::uint32_t>(r, fixed, declared, seed)
-                                   : builder_case<Form::ising, std::int64_t, std::uint16_t>(r, fixed, declared, seed);
+      if (ising)
+        return wide_index ? builder_case<Form::ising, std::int64_t, std::uint32_t>(r, fixed, declared, seed)
+                          : builder_case<Form::ising, std::int64_t, std::uint16_t>(r, fixed, declared, seed);
       return wide_index ? builder_case<Form::qubo, std::int64_t, std::uint32_t>(r, fixed, declared, seed)
                         : builder_case<Form::qubo, std::int64_t, std::uint16_t>(r, fixed, declared, seed);
   }
@@ -775,7 +818,8 @@ inline Failure check_io_refusal(const spinwright::io::IoStatus& st, std::string_
   if (st.ok()) return "reader refusal with an ok code";
   if (st.file != fuzz_file_name) return "reader refusal does not name the file";
   if (st.reason.empty()) return "reader refusal without a reason";
-  if (st.message != st.file + ":" + std::to_string(st.line) + ": " + st.reason) return "reader message not FILE:LINE: reason";
+  if (st.message != st.file + ":" + std::to_string(st.line) + ": " + st.reason)
+    return "reader message not FILE:LINE: reason";
   // The readers report "file ends ..." at the line after the last one.
   std::uint64_t lines = (!text.empty() && text.back() != '\n') ? 1 : 0;
   for (const char c : text) lines += c == '\n';
@@ -789,9 +833,11 @@ Failure same_model(const Model& a, const Model& b) {
   if (a.num_spins() != b.num_spins() || a.num_pairs() != b.num_pairs()) return "round trip changed the size";
   if (!(a.offset() == b.offset())) return "round trip changed the offset";
   for (std::size_t i = 0; i < a.num_spins(); ++i) {
-    if (!(a.site_term(static_cast<Index>(i)) == b.site_term(static_cast<Index>(i)))) return "round trip changed a site term";
+    if (!(a.site_term(static_cast<Index>(i)) == b.site_term(static_cast<Index>(i))))
+      return "round trip changed a site term";
   }
-  if (a.row_starts() != b.row_starts() || a.neighbour_array() != b.neighbour_array()) return "round trip changed the pattern";
+  if (a.row_starts() != b.row_starts() || a.neighbour_array() != b.neighbour_array())
+    return "round trip changed the pattern";
   for (std::size_t k = 0; k < a.value_array().size(); ++k) {
     if (!(a.value_array()[k] == b.value_array()[k])) return "round trip changed a pair";
   }
@@ -808,7 +854,8 @@ Failure check_read_model(const Model& m, std::uint64_t max_spins, std::uint64_t 
   spinwright::Xoshiro256 rng(seed);
   st.randomize(rng);
   if (Failure f = check_state(st)) return f;
-  for (int k = 0; k < 16; ++k) st.flip(static_cast<typename Model::index_type>(rng.below(static_cast<std::uint32_t>(m.num_spins()))));
+  for (int k = 0; k < 16; ++k)
+    st.flip(static_cast<typename Model::index_type>(rng.below(static_cast<std::uint32_t>(m.num_spins()))));
   return check_state(st);
 }
 
@@ -839,10 +886,18 @@ inline Failure edge_list_entry(const std::uint8_t* data, std::size_t size) {
   const std::uint64_t seed = hash_bytes(data, size);
   const bool wide = (data[0] & 4) != 0;
   switch (data[0] % 4) {
-    case 0: return wide ? edge_list_case<double, std::uint32_t>(text, opt, seed) : edge_list_case<double, std::uint16_t>(text, opt, seed);
-    case 1: return wide ? edge_list_case<float, std::uint32_t>(text, opt, seed) : edge_list_case<float, std::uint16_t>(text, opt, seed);
-    case 2: return wide ? edge_list_case<std::int32_t, std::uint32_t>(text, opt, seed) : edge_list_case<std::int32_t, std::uint16_t>(text, opt, seed);
-    default: return wide ? edge_list_case<std::int64_t, std::uint32_t>(text, opt, seed) : edge_list_case<std::int64_t, std::uint16_t>(text, opt, seed);
+    case 0:
+      return wide ? edge_list_case<double, std::uint32_t>(text, opt, seed)
+                  : edge_list_case<double, std::uint16_t>(text, opt, seed);
+    case 1:
+      return wide ? edge_list_case<float, std::uint32_t>(text, opt, seed)
+                  : edge_list_case<float, std::uint16_t>(text, opt, seed);
+    case 2:
+      return wide ? edge_list_case<std::int32_t, std::uint32_t>(text, opt, seed)
+                  : edge_list_case<std::int32_t, std::uint16_t>(text, opt, seed);
+    default:
+      return wide ? edge_list_case<std::int64_t, std::uint32_t>(text, opt, seed)
+                  : edge_list_case<std::int64_t, std::uint16_t>(text, opt, seed);
   }
 }
 
@@ -897,14 +952,30 @@ inline Failure matrix_market_entry(const std::uint8_t* data, std::size_t size) {
   }
   const bool wide = (c & 8) != 0;
   switch (c % 8) {
-    case 0: return wide ? matrix_market_case<IsingModel<double, std::uint32_t>>(text, opt, seed) : matrix_market_case<IsingModel<double, std::uint16_t>>(text, opt, seed);
-    case 1: return wide ? matrix_market_case<QuboModel<double, std::uint32_t>>(text, opt, seed) : matrix_market_case<QuboModel<double, std::uint16_t>>(text, opt, seed);
-    case 2: return wide ? matrix_market_case<IsingModel<float, std::uint32_t>>(text, opt, seed) : matrix_market_case<IsingModel<float, std::uint16_t>>(text, opt, seed);
-    case 3: return wide ? matrix_market_case<QuboModel<float, std::uint32_t>>(text, opt, seed) : matrix_market_case<QuboModel<float, std::uint16_t>>(text, opt, seed);
-    case 4: return wide ? matrix_market_case<IsingModel<std::int32_t, std::uint32_t>>(text, opt, seed) : matrix_market_case<IsingModel<std::int32_t, std::uint16_t>>(text, opt, seed);
-    case 5: return wide ? matrix_market_case<QuboModel<std::int32_t, std::uint32_t>>(text, opt, seed) : matrix_market_case<QuboModel<std::int32_t, std::uint16_t>>(text, opt, seed);
-    case 6: return wide ? matrix_market_case<IsingModel<std::int64_t, std::uint32_t>>(text, opt, seed) : matrix_market_case<IsingModel<std::int64_t, std::uint16_t>>(text, opt, seed);
-    default: return wide ? matrix_market_case<QuboModel<std::int64_t, std::uint32_t>>(text, opt, seed) : matrix_market_case<QuboModel<std::int64_t, std::uint16_t>>(text, opt, seed);
+    case 0:
+      return wide ? matrix_market_case<IsingModel<double, std::uint32_t>>(text, opt, seed)
+                  : matrix_market_case<IsingModel<double, std::uint16_t>>(text, opt, seed);
+    case 1:
+      return wide ? matrix_market_case<QuboModel<double, std::uint32_t>>(text, opt, seed)
+                  : matrix_market_case<QuboModel<double, std::uint16_t>>(text, opt, seed);
+    case 2:
+      return wide ? matrix_market_case<IsingModel<float, std::uint32_t>>(text, opt, seed)
+                  : matrix_market_case<IsingModel<float, std::uint16_t>>(text, opt, seed);
+    case 3:
+      return wide ? matrix_market_case<QuboModel<float, std::uint32_t>>(text, opt, seed)
+                  : matrix_market_case<QuboModel<float, std::uint16_t>>(text, opt, seed);
+    case 4:
+      return wide ? matrix_market_case<IsingModel<std::int32_t, std::uint32_t>>(text, opt, seed)
+                  : matrix_market_case<IsingModel<std::int32_t, std::uint16_t>>(text, opt, seed);
+    case 5:
+      return wide ? matrix_market_case<QuboModel<std::int32_t, std::uint32_t>>(text, opt, seed)
+                  : matrix_market_case<QuboModel<std::int32_t, std::uint16_t>>(text, opt, seed);
+    case 6:
+      return wide ? matrix_market_case<IsingModel<std::int64_t, std::uint32_t>>(text, opt, seed)
+                  : matrix_market_case<IsingModel<std::int64_t, std::uint16_t>>(text, opt, seed);
+    default:
+      return wide ? matrix_market_case<QuboModel<std::int64_t, std::uint32_t>>(text, opt, seed)
+                  : matrix_market_case<QuboModel<std::int64_t, std::uint16_t>>(text, opt, seed);
   }
 }
 
@@ -1008,8 +1079,10 @@ Failure view_case(ByteReader& r, std::uint64_t seed) {
         }
       }
       const long double lim = float_energy_limit;
-      if (sum > lim * (1 + 1e-9L)) valid = false;
-      else if (sum > lim * (1 - 1e-9L)) maybe = true;
+      if (sum > lim * (1 + 1e-9L))
+        valid = false;
+      else if (sum > lim * (1 - 1e-9L))
+        maybe = true;
     }
   }
   if (!made.ok()) {
@@ -1025,10 +1098,16 @@ Failure view_case(ByteReader& r, std::uint64_t seed) {
   // The same terms through a builder: same energies, same bound.
   std::conditional_t<F == Form::ising, IsingBuilder<Value, Index>, QuboBuilder<Value, Index>> b(n);
   for (std::size_t i = 0; i < n; ++i) {
-    if constexpr (F == Form::ising) b.add_field(i, lin[i]); else b.add_unary(i, lin[i]);
+    if constexpr (F == Form::ising)
+      b.add_field(i, lin[i]);
+    else
+      b.add_unary(i, lin[i]);
     for (std::size_t k = row[i]; k < row[i + 1]; ++k) {
       if (nbr[k] <= i) continue;
-      if constexpr (F == Form::ising) b.add_coupling(i, nbr[k], val[k]); else b.add_pair(i, nbr[k], val[k]);
+      if constexpr (F == Form::ising)
+        b.add_coupling(i, nbr[k], val[k]);
+      else
+        b.add_pair(i, nbr[k], val[k]);
     }
   }
   b.add_offset(offset);
@@ -1064,14 +1143,20 @@ inline Failure view_entry(const std::uint8_t* data, std::size_t size) {
   const std::uint64_t seed = hash_bytes(data, size);
   const bool ising = (c & 1) == 0;
   const bool wide = (c & 8) != 0;
-#define SPINWRIGHT_FUZZ_VIEW(V)                                                                                   \
-  return ising ? (wide ? view_case<Form::ising, V, std::uint32_t>(r, seed) : view_case<Form::ising, V, std::uint16_t>(r, seed)) \
-               : (wide ? view_case<Form::qubo, V, std::uint32_t>(r, seed) : view_case<Form::qubo, V, std::uint16_t>(r, seed))
+#define SPINWRIGHT_FUZZ_VIEW(V)                                             \
+  return ising ? (wide ? view_case<Form::ising, V, std::uint32_t>(r, seed)  \
+                       : view_case<Form::ising, V, std::uint16_t>(r, seed)) \
+               : (wide ? view_case<Form::qubo, V, std::uint32_t>(r, seed)   \
+                       : view_case<Form::qubo, V, std::uint16_t>(r, seed))
   switch ((c >> 1) & 3) {
-    case 0: SPINWRIGHT_FUZZ_VIEW(double);
-    case 1: SPINWRIGHT_FUZZ_VIEW(float);
-    case 2: SPINWRIGHT_FUZZ_VIEW(std::int32_t);
-    default: SPINWRIGHT_FUZZ_VIEW(std::int64_t);
+    case 0:
+      SPINWRIGHT_FUZZ_VIEW(double);
+    case 1:
+      SPINWRIGHT_FUZZ_VIEW(float);
+    case 2:
+      SPINWRIGHT_FUZZ_VIEW(std::int32_t);
+    default:
+      SPINWRIGHT_FUZZ_VIEW(std::int64_t);
   }
 #undef SPINWRIGHT_FUZZ_VIEW
 }

@@ -49,7 +49,9 @@ Model glass(std::uint32_t n, std::uint64_t seed) {
 // A budget that only the stop token can end: a sweep count and a deadline far away.
 sw::Budget far_budget(const sw::StopToken& token) {
   sw::Budget b;
-  b.with_sweeps(std::numeric_limits<std::uint64_t>::max() / 2).with_time_limit(1e9, sw::steady_clock()).with_stop(token);
+  b.with_sweeps(std::numeric_limits<std::uint64_t>::max() / 2)
+      .with_time_limit(1e9, sw::steady_clock())
+      .with_stop(token);
   return b;
 }
 
@@ -122,9 +124,8 @@ TEST_CASE("a stop from another thread ends annealing within one sweep, keeping t
   obs.meet = 25;
   sw::AnnealParams p;
   p.progress_every = 1;
-  const auto s = run_with_stop_from_other_thread(token, obs, [&](Rendezvous& o) {
-    return sw::anneal(m, p, 7, 0, far_budget(token), o);
-  });
+  const auto s = run_with_stop_from_other_thread(
+      token, obs, [&](Rendezvous& o) { return sw::anneal(m, p, 7, 0, far_budget(token), o); });
   REQUIRE(obs.met);
   CHECK(s.reason == sw::StopReason::stopped);
   CHECK(s.sweeps >= obs.meet);
@@ -139,9 +140,8 @@ TEST_CASE("a stop from another thread ends tempering within one sweep, keeping t
   obs.meet = 15;
   sw::TemperParams p;
   p.progress_every = 1;
-  const auto s = run_with_stop_from_other_thread(token, obs, [&](Rendezvous& o) {
-    return sw::temper(m, p, 8, 0, far_budget(token), o);
-  });
+  const auto s = run_with_stop_from_other_thread(
+      token, obs, [&](Rendezvous& o) { return sw::temper(m, p, 8, 0, far_budget(token), o); });
   REQUIRE(obs.met);
   CHECK(s.reason == sw::StopReason::stopped);
   CHECK(s.sweeps >= obs.meet);
@@ -156,9 +156,8 @@ TEST_CASE("a stop from another thread ends tabu search within one sweep, keeping
   obs.meet = 10;
   sw::TabuParams p;
   p.progress_every = 1;
-  const auto s = run_with_stop_from_other_thread(token, obs, [&](Rendezvous& o) {
-    return sw::tabu_walk(m, p, 9, 0, far_budget(token), o);
-  });
+  const auto s = run_with_stop_from_other_thread(
+      token, obs, [&](Rendezvous& o) { return sw::tabu_walk(m, p, 9, 0, far_budget(token), o); });
   REQUIRE(obs.met);
   CHECK(s.reason == sw::StopReason::stopped);
   CHECK(s.sweeps >= obs.meet);

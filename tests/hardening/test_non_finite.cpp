@@ -78,7 +78,9 @@ TEST_CASE_TEMPLATE("builders refuse NaN and infinity, naming the term", Value, d
   h.add_field(0, top).add_field(0, top);
   CHECK_FALSE(h.build().ok());
   sw::IsingBuilder<Value> c;
-  c.add_coupling(0, 0, top).add_offset(std::numeric_limits<double>::max()).add_offset(std::numeric_limits<double>::max());
+  c.add_coupling(0, 0, top)
+      .add_offset(std::numeric_limits<double>::max())
+      .add_offset(std::numeric_limits<double>::max());
   CHECK_FALSE(c.build().ok());
 }
 

@@ -19,8 +19,8 @@ TEST_CASE_TEMPLATE("edge list round trip is exact on random max-cut models", Val
                    float) {
   test_support::IoTempDir dir;
   for (std::uint64_t seed = 1; seed <= 6; ++seed) {
-    const auto m = test_support::random_model<Form::ising, Value>(seed, 40 + 10 * static_cast<std::uint32_t>(seed),
-                                                                   300, false, false, 1000000);
+    const auto m = test_support::random_model<Form::ising, Value>(seed, 40 + 10 * static_cast<std::uint32_t>(seed), 300,
+                                                                  false, false, 1000000);
     auto text = io::format_edge_list(m);
     REQUIRE(text.ok());
     auto back = parse_edge_list<Value>(text.value(), "mem");

@@ -79,13 +79,13 @@ TEST_CASE("value type: Matrix Market follows its field; edge lists give int64 fo
   auto f2 = io::parse_model_text("3 1\n1 2 12345678901234567890\n", "f.txt", integer);
   REQUIRE_FALSE(f2.ok());
   check_error(f2.status(), StatusCode::value_out_of_range, "f.txt", 2);
-  auto f3 = io::parse_model_text(
-      "%%MatrixMarket matrix coordinate integer general\n2 2 1\n1 2 12345678901234567890\n", "f3.mtx");
+  auto f3 = io::parse_model_text("%%MatrixMarket matrix coordinate integer general\n2 2 1\n1 2 12345678901234567890\n",
+                                 "f3.mtx");
   REQUIRE_FALSE(f3.ok());
   check_error(f3.status(), StatusCode::value_out_of_range, "f3.mtx", 3);
 
-  auto g = io::parse_model_text("%%MatrixMarket matrix coordinate integer general\n% spinwright form ising\n2 2 1\n1 1 7\n",
-                                "g.mtx");
+  auto g = io::parse_model_text(
+      "%%MatrixMarket matrix coordinate integer general\n% spinwright form ising\n2 2 1\n1 1 7\n", "g.mtx");
   REQUIRE(g.ok());
   CHECK(g->form == Form::ising);
   CHECK(g->ising_integer.field(0) == 7);
@@ -139,7 +139,9 @@ TEST_CASE("converting between formats through LoadedModel") {
   auto r = io::read_model_file(missing);
   REQUIRE_FALSE(r.ok());
   check_error(r.status(), StatusCode::io_error, missing, 0);
-  const std::string garbage = dir.write("garbage.bin", std::string("\x7f" "ELF\x01\x00\x00", 7));
+  const std::string garbage = dir.write("garbage.bin", std::string("\x7f"
+                                                                   "ELF\x01\x00\x00",
+                                                                   7));
   auto gr = io::read_model_file(garbage);
   REQUIRE_FALSE(gr.ok());
   check_error(gr.status(), StatusCode::parse_error, garbage, 1);

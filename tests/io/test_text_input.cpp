@@ -51,11 +51,12 @@ TEST_CASE("numbers: whole tokens only") {
   CHECK(n.d > 0);
   REQUIRE(parses("1e-400", n));  // underflow rounds to zero
   CHECK(n.d == 0.0);
-  REQUIRE(parses("0.000000000000000000000000000000000000000000000000000000000000000000000000000000000000000000"
-                 "0000000000000000000000000000000000000000000000000000000000000000000000000000000000000000000000"
-                 "0000000000000000000000000000000000000000000000000000000000000000000000000000000000000000000000"
-                 "00000000000000000000000000000000000000000000000000000001",
-                 n));
+  REQUIRE(
+      parses("0.000000000000000000000000000000000000000000000000000000000000000000000000000000000000000000"
+             "0000000000000000000000000000000000000000000000000000000000000000000000000000000000000000000000"
+             "0000000000000000000000000000000000000000000000000000000000000000000000000000000000000000000000"
+             "00000000000000000000000000000000000000000000000000000001",
+             n));
   CHECK(n.d == 0.0);
 
   for (const char* bad : {"", "+", "-", "+-1", "++1", "1-", "12abc", "0x10", "1,5", "1e", "e5", "abc", "1 2", "--1",
@@ -95,7 +96,8 @@ TEST_CASE("lines, tokens, quoting") {
   CHECK(r.last_line() == 4);
 
   // A UTF-8 byte order mark before the first line is skipped.
-  auto bom = io::parse_model_text("\xEF\xBB\xBF%%MatrixMarket matrix coordinate integer general\n1 1 1\n1 1 3\n", "bom.mtx");
+  auto bom =
+      io::parse_model_text("\xEF\xBB\xBF%%MatrixMarket matrix coordinate integer general\n1 1 1\n1 1 3\n", "bom.mtx");
   REQUIRE_MESSAGE(bom.ok(), bom.message());
   CHECK(bom->format == io::FileFormat::matrix_market);
   CHECK(bom->qubo_integer.unary(0) == 3);
@@ -136,10 +138,10 @@ TEST_CASE("messages a user reads") {
   auto c = io::parse_edge_list<std::int32_t>("3 1\n1 2 5000000000\n", "g.txt");
   CHECK(c.message() == "g.txt:2: integer '5000000000' does not fit the 32-bit integer value type");
   auto d = io::parse_matrix_market<QuboModel<double>>("%%MatrixMarket matrix array real general\n2 2\n", "m.mtx");
-  CHECK(d.message() ==
-        "m.mtx:1: dense 'array' storage is not supported; write the matrix in 'coordinate' format");
+  CHECK(d.message() == "m.mtx:1: dense 'array' storage is not supported; write the matrix in 'coordinate' format");
   auto e = io::parse_edge_list<double>("3 1\n1 2 12abc\n", "g.txt");
   CHECK(e.message() == "g.txt:2: weight: trailing characters after a number in '12abc'");
   auto f = io::parse_edge_list<std::int64_t>("1000000000000 5\n", "g.txt");
-  CHECK(f.message() == "g.txt:1: header declares 1000000000000 nodes, more than the limit of 67108864 (ReadOptions::max_spins)");
+  CHECK(f.message() ==
+        "g.txt:1: header declares 1000000000000 nodes, more than the limit of 67108864 (ReadOptions::max_spins)");
 }

@@ -27,7 +27,7 @@ void check_annealer(const Model& model, Move move, Acceptance rule, SiteOrder or
   std::vector<std::int8_t> warm(model.num_spins(), 1);
   for (std::size_t i = 0; i < warm.size(); i += 2) warm[i] = -1;
   alloc_counter::start();
-  a.step(100);          // hot to cold: acceptance tables refilled, best copied
+  a.step(100);  // hot to cold: acceptance tables refilled, best copied
   a.reset(6, 1);
   a.step(50);
   a.warm_start(warm.data(), 7, 2);
@@ -70,7 +70,9 @@ TEST_CASE("annealing step/reset/warm_start do not allocate") {
   const auto md = anneal_support::maxcut_model<double>(g);
   const auto mf = anneal_support::maxcut_model<float>(g);
   const auto ml = anneal_support::maxcut_model<std::int64_t>(g);
-  const auto dense = DenseIsingModel<std::int32_t>::from(anneal_support::maxcut_model<std::int32_t>(anneal_support::random_cubic(60, 2))).value();
+  const auto dense = DenseIsingModel<std::int32_t>::from(
+                         anneal_support::maxcut_model<std::int32_t>(anneal_support::random_cubic(60, 2)))
+                         .value();
   for (const Acceptance rule : {Acceptance::metropolis, Acceptance::heat_bath}) {
     for (const SiteOrder order : {SiteOrder::sequential, SiteOrder::random}) {
       check_annealer(mi, SingleFlip<IsingModel<std::int32_t>>(order), rule, order);

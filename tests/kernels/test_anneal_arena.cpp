@@ -45,8 +45,8 @@ TEST_CASE("arena-built moves and descent") {
   std::vector<std::int8_t> start(n, 1);
   for (std::size_t i = 0; i < n; i += 3) start[i] = -1;
   p.initial = start.data();
-  std::vector<unsigned char> memory(Annealer<Model, CountKeepingSwap<Model>>::bytes_needed(model, p) + CountKeepingSwap<Model>::bytes_needed(n) +
-                                    Descender<Model>::bytes_needed(model));
+  std::vector<unsigned char> memory(Annealer<Model, CountKeepingSwap<Model>>::bytes_needed(model, p) +
+                                    CountKeepingSwap<Model>::bytes_needed(n) + Descender<Model>::bytes_needed(model));
   Arena arena(memory.data(), memory.size());
   CountKeepingSwap<Model> ex(n, arena);
   REQUIRE(ex.valid());

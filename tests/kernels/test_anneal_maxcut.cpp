@@ -79,8 +79,9 @@ TEST_CASE("bqp250 instances: the proven optimum cut within a fixed sweep budget"
     const char* file;
     long long optimum;
   };
-  for (const Instance inst : {Instance{"bqp250-1.txt", 45607}, Instance{"bqp250-2.txt", 44810}, Instance{"bqp250-3.txt", 49037},
-                              Instance{"bqp250-4.txt", 41274}, Instance{"bqp250-5.txt", 47961}}) {
+  for (const Instance inst :
+       {Instance{"bqp250-1.txt", 45607}, Instance{"bqp250-2.txt", 44810}, Instance{"bqp250-3.txt", 49037},
+        Instance{"bqp250-4.txt", 41274}, Instance{"bqp250-5.txt", 47961}}) {
     CAPTURE(inst.file);
     const auto g = anneal_support::read_edge_list(std::string(SPINWRIGHT_DATA_DIR) + "/maxcut/" + inst.file);
     REQUIRE(g.ok);

@@ -204,7 +204,8 @@ TEST_CASE("heat-bath on the 32x32 periodic ferromagnet reproduces Onsager's ener
   // Integer heat-bath with each acceptance path forced (kernels/schedule.hpp).
   for (const double hazard_below : {0.0, 2.0}) {
     CAPTURE(hazard_below);
-    const Samples m = sample(int_model, 2.0, Acceptance::heat_bath, SiteOrder::sequential, 2000, 30000, 23, hazard_below);
+    const Samples m =
+        sample(int_model, 2.0, Acceptance::heat_bath, SiteOrder::sequential, 2000, 30000, 23, hazard_below);
     CHECK(std::abs(m.u.mean - onsager_u(2.0)) <= 4 * m.u.error);
     CHECK(std::abs(m.abs_m.mean - yang_m(2.0)) <= 4 * m.abs_m.error);
   }
@@ -231,8 +232,9 @@ TEST_CASE("the 1D ring reproduces its transfer-matrix energy") {
       Acceptance rule;
       SiteOrder order;
     };
-    for (const Variant v : {Variant{Acceptance::metropolis, SiteOrder::random}, Variant{Acceptance::heat_bath, SiteOrder::sequential},
-                            Variant{Acceptance::heat_bath, SiteOrder::random}}) {
+    for (const Variant v :
+         {Variant{Acceptance::metropolis, SiteOrder::random}, Variant{Acceptance::heat_bath, SiteOrder::sequential},
+          Variant{Acceptance::heat_bath, SiteOrder::random}}) {
       const Samples s = sample(di, 1.0, v.rule, v.order, 1000, 200000, 31);
       CAPTURE(s.u.mean);
       CAPTURE(s.u.error);

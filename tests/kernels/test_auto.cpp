@@ -71,7 +71,10 @@ TEST_CASE("solve_auto reaches the proven optimum of bqp250-1 and bqp250-3 withou
   // Beasley's OR-Library bqp250 instances (J. E. Beasley, J. Oper. Res. Soc. 41, 1990; optima
   // in Beasley 1998), in the shared max-cut form with one extra node: the max cut equals the
   // published optimum (45607 and 49037, shared/data/maxcut/reference.csv).
-  const struct { const char* file; std::int64_t cut; } cases[] = {{"bqp250-1.txt", 45607}, {"bqp250-3.txt", 49037}};
+  const struct {
+    const char* file;
+    std::int64_t cut;
+  } cases[] = {{"bqp250-1.txt", 45607}, {"bqp250-3.txt", 49037}};
   for (const auto& c : cases) {
     auto m = io::read_edge_list<std::int32_t>(std::string(SPINWRIGHT_DATA_DIR) + "/maxcut/" + c.file);
     REQUIRE(m.ok());
@@ -232,7 +235,7 @@ TEST_CASE("time-filling mode on a lattice: tempering with cluster moves, by the 
   const auto m = b.build().value();
   CHECK(choose_kernel(m).kernel == KernelKind::anneal);
   CHECK(auto_fill_kernel(m) == KernelKind::temper);
-  CHECK(auto_fill_kernel(ring(101, 1)) == KernelKind::anneal);   // degree 2
+  CHECK(auto_fill_kernel(ring(101, 1)) == KernelKind::anneal);          // degree 2
   CHECK(auto_fill_kernel(sparse_glass(300, 5)) == KernelKind::anneal);  // degrees spread beyond 6
   {
     Ticker t;

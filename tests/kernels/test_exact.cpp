@@ -155,7 +155,12 @@ TEST_CASE_TEMPLATE("QUBO worked example: unique minimum", Model, QuboModel<std::
                    DenseQuboModel<std::int64_t>, DenseQuboModel<float>) {
   using V = typename Model::value_type;
   QuboBuilder<V> qb(3);
-  qb.add_unary(0, V(-1)).add_unary(1, V(-2)).add_unary(2, V(1)).add_pair(0, 1, V(2)).add_pair(0, 2, V(-3)).add_pair(1, 2, V(1));
+  qb.add_unary(0, V(-1))
+      .add_unary(1, V(-2))
+      .add_unary(2, V(1))
+      .add_pair(0, 1, V(2))
+      .add_pair(0, 2, V(-3))
+      .add_pair(1, 2, V(1));
   auto sparse = qb.build().value();
   Model model;
   if constexpr (Model::is_dense) {
@@ -185,7 +190,8 @@ TEST_CASE("random models: levels and lowest-index ground state agree with a plai
     IsingBuilder<std::int32_t> b(n);
     const bool with_fields = trial % 2 == 0;
     for (std::uint32_t i = 0; i < n && with_fields; ++i) b.add_field(i, static_cast<std::int32_t>(rng.below(5)) - 2);
-    for (int k = 0; k < 3 * static_cast<int>(n); ++k) b.add_coupling(rng.below(n), rng.below(n), static_cast<std::int32_t>(rng.below(7)) - 3);
+    for (int k = 0; k < 3 * static_cast<int>(n); ++k)
+      b.add_coupling(rng.below(n), rng.below(n), static_cast<std::int32_t>(rng.below(7)) - 3);
     const auto model = b.build().value();
     ExactParams p;
     p.levels = 3;
@@ -228,7 +234,8 @@ TEST_CASE("random models: levels and lowest-index ground state agree with a plai
 TEST_CASE_TEMPLATE("thread count does not change the result", Value, std::int64_t, double, float) {
   Xoshiro256 rng(77);
   QuboBuilder<Value> b(20);
-  for (std::uint32_t i = 0; i < 20; ++i) b.add_unary(i, static_cast<Value>(static_cast<double>(rng.below(2001)) / 100.0 - 10.0));
+  for (std::uint32_t i = 0; i < 20; ++i)
+    b.add_unary(i, static_cast<Value>(static_cast<double>(rng.below(2001)) / 100.0 - 10.0));
   for (int k = 0; k < 60; ++k) {
     b.add_pair(rng.below(20), rng.below(20), static_cast<Value>(static_cast<double>(rng.below(2001)) / 100.0 - 10.0));
   }

@@ -202,7 +202,8 @@ TEST_CASE("bqp250 instances: tabu search reaches the proven optimum cut") {
     REQUIRE(ref > 0);
     const std::int64_t w = total_weight(m);
     TabuParams p;
-    const auto s = tabu_walk(m, p, 2026, 0, Budget{}.with_sweeps(1000).with_target(static_cast<double>(energy_from_cut(w, ref))));
+    const auto s =
+        tabu_walk(m, p, 2026, 0, Budget{}.with_sweeps(1000).with_target(static_cast<double>(energy_from_cut(w, ref))));
     CHECK(cut_value(m, s.spins.data()) == ref);
     CHECK(cut_from_energy(w, s.energy) == ref);
   }

@@ -111,8 +111,8 @@ TEST_CASE("4x4 torus: every rung reproduces the exact mean energy, uniform and h
 
 // Ground states of random models (Ising with fields, QUBO, sparse and dense) equal exact
 // enumeration's.
-TEST_CASE_TEMPLATE("random models: tempering reaches the exact ground energy", Value, std::int32_t, std::int64_t, double,
-                   float) {
+TEST_CASE_TEMPLATE("random models: tempering reaches the exact ground energy", Value, std::int32_t, std::int64_t,
+                   double, float) {
   Xoshiro256 rng(314);
   for (int trial = 0; trial < 6; ++trial) {
     const std::uint32_t n = 14 + rng.below(6);
@@ -312,7 +312,8 @@ TEST_CASE("bqp250 instances: tempering reaches the proven optimum cut") {
     REQUIRE(ref > 0);
     const std::int64_t w = total_weight(m);
     TemperParams p;
-    const auto s = temper(m, p, 2026, 0, Budget{}.with_sweeps(5000).with_target(static_cast<double>(energy_from_cut(w, ref))));
+    const auto s =
+        temper(m, p, 2026, 0, Budget{}.with_sweeps(5000).with_target(static_cast<double>(energy_from_cut(w, ref))));
     CHECK(cut_value(m, s.spins.data()) == ref);
     CHECK(cut_from_energy(w, s.energy) == ref);
   }

@@ -15,10 +15,10 @@ using namespace spinwright;
 
 TEST_CASE("IsingBuilder merges (i,j) with (j,i), folds s_i s_i into the offset, drops exact zeros") {
   IsingBuilder<std::int32_t> b;
-  b.add_coupling(0, 1, 3).add_coupling(1, 0, 4);  // one pair, J = 7
-  b.add_coupling(2, 2, 5);                        // s_2 s_2 = 1 -> offset 5
-  b.add_coupling(1, 2, 6).add_coupling(2, 1, -6); // cancels exactly -> dropped
-  b.add_field(3, 2).add_field(3, -2);             // cancels -> zero field, spin 3 still exists
+  b.add_coupling(0, 1, 3).add_coupling(1, 0, 4);   // one pair, J = 7
+  b.add_coupling(2, 2, 5);                         // s_2 s_2 = 1 -> offset 5
+  b.add_coupling(1, 2, 6).add_coupling(2, 1, -6);  // cancels exactly -> dropped
+  b.add_field(3, 2).add_field(3, -2);              // cancels -> zero field, spin 3 still exists
   b.add_offset(-1);
   auto m = b.build();
   REQUIRE(m.ok());
@@ -86,7 +86,7 @@ TEST_CASE("Builders refuse non-finite values and name the offending term") {
   b.add_field(0, 1.0);
   b.add_coupling(0, 1, 2.0);
   b.add_coupling(3, 4, std::numeric_limits<double>::quiet_NaN());  // term 2
-  b.add_coupling(0, 2, std::numeric_limits<double>::infinity());    // later terms do not replace the first error
+  b.add_coupling(0, 2, std::numeric_limits<double>::infinity());   // later terms do not replace the first error
   auto m = b.build();
   REQUIRE_FALSE(m.ok());
   CHECK(m.status().code == StatusCode::non_finite_value);

@@ -50,7 +50,8 @@ TEST_CASE("Ising to QUBO and back: equal energies on every assignment of random 
     const std::uint32_t n = 2 + rng.below(9);
     IsingBuilder<std::int64_t> b(n);
     for (std::uint32_t i = 0; i < n; ++i) b.add_field(i, static_cast<std::int64_t>(rng.below(21)) - 10);
-    for (int k = 0; k < 20; ++k) b.add_coupling(rng.below(n), rng.below(n), static_cast<std::int64_t>(rng.below(41)) - 20);
+    for (int k = 0; k < 20; ++k)
+      b.add_coupling(rng.below(n), rng.below(n), static_cast<std::int64_t>(rng.below(41)) - 20);
     b.add_offset(static_cast<std::int64_t>(rng.below(100)) - 50);
     auto m = b.build();
     REQUIRE(m.ok());

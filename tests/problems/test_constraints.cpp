@@ -33,11 +33,11 @@ TEST_CASE("the check names the first violated constraint, for bits and spins") {
   // Variables 0..5; slack bits of the inequality follow.
   QuboBuilder<std::int64_t> b;
   ConstraintSet set(6);
-  REQUIRE(add_one_hot(b, set, {0, 1, 2}, std::int64_t{4}, {"one shift per nurse", 11}).ok());            // #0
-  REQUIRE(add_k_hot(b, set, {3, 4, 5}, 2, std::int64_t{4}, {"two on call", 12}).ok());                    // #1
+  REQUIRE(add_one_hot(b, set, {0, 1, 2}, std::int64_t{4}, {"one shift per nurse", 11}).ok());          // #0
+  REQUIRE(add_k_hot(b, set, {3, 4, 5}, 2, std::int64_t{4}, {"two on call", 12}).ok());                 // #1
   REQUIRE(add_sum_at_most(b, set, {0, 3, 4}, {3, 2, 2}, 4, std::int64_t{4}, {"hours cap", 13}).ok());  // #2
-  REQUIRE(add_pairwise_exclusion(b, set, {1, 5}, std::int64_t{4}, {"not both", 14}).ok());                           // #3
-  REQUIRE(add_sum_equal(b, set, {2, 5}, {1, -1}, 0, std::int64_t{4}, {"tied", 15}).ok());               // #4
+  REQUIRE(add_pairwise_exclusion(b, set, {1, 5}, std::int64_t{4}, {"not both", 14}).ok());             // #3
+  REQUIRE(add_sum_equal(b, set, {2, 5}, {1, -1}, 0, std::int64_t{4}, {"tied", 15}).ok());              // #4
   REQUIRE(set.size() == 5);
   CHECK(set[2].slack_begin == 6);
   CHECK(set.num_decision_variables() == 6);

@@ -41,7 +41,8 @@ TEST_CASE("independent set and vertex cover: Petersen graph 4 and 6, cycles, com
     std::int64_t alpha;
   };
   std::vector<Case> cases{{10, problems_test::petersen_graph(), 4}};
-  for (std::uint64_t n = 3; n <= 9; ++n) cases.push_back({n, problems_test::cycle_graph(n), static_cast<std::int64_t>(n / 2)});
+  for (std::uint64_t n = 3; n <= 9; ++n)
+    cases.push_back({n, problems_test::cycle_graph(n), static_cast<std::int64_t>(n / 2)});
   for (std::uint64_t n = 2; n <= 7; ++n) cases.push_back({n, problems_test::complete_graph(n), 1});
   for (const auto& c : cases) {
     auto mis = encode_independent_set<std::int32_t>(c.n, c.edges);
@@ -70,7 +71,8 @@ TEST_CASE("independent set and vertex cover: Petersen graph 4 and 6, cycles, com
   }
 }
 
-TEST_CASE_TEMPLATE("weighted independent set and vertex cover against enumeration of subsets", Value, std::int32_t, double) {
+TEST_CASE_TEMPLATE("weighted independent set and vertex cover against enumeration of subsets", Value, std::int32_t,
+                   double) {
   Xoshiro256 rng(8080);
   for (int trial = 0; trial < 15; ++trial) {
     const std::uint64_t n = 8;

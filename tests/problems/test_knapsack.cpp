@@ -58,7 +58,8 @@ TEST_CASE("knapsack: five-item illustration, capacity 15, optimum 15") {
   CHECK_FALSE(p->check(p->decode(s.data())).feasible);
 }
 
-TEST_CASE_TEMPLATE("knapsack: random instances, ground state = best packing over all subsets", Value, std::int64_t, std::int32_t, double) {
+TEST_CASE_TEMPLATE("knapsack: random instances, ground state = best packing over all subsets", Value, std::int64_t,
+                   std::int32_t, double) {
   Xoshiro256 rng(2718);
   for (int trial = 0; trial < 20; ++trial) {
     const std::size_t n = 3 + rng.below(5);

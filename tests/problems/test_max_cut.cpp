@@ -44,8 +44,10 @@ TEST_CASE("max-cut: published maximum cuts of K_n, C_n and the Petersen graph") 
     std::uint64_t optimal_states;  // 0: not checked
   };
   std::vector<Case> cases;
-  for (std::uint64_t n = 3; n <= 8; ++n) cases.push_back({n, problems_test::complete_graph(n), static_cast<std::int64_t>(n * n / 4), 0});
-  for (std::uint64_t n = 3; n <= 9; ++n) cases.push_back({n, problems_test::cycle_graph(n), static_cast<std::int64_t>(n % 2 == 0 ? n : n - 1), 0});
+  for (std::uint64_t n = 3; n <= 8; ++n)
+    cases.push_back({n, problems_test::complete_graph(n), static_cast<std::int64_t>(n * n / 4), 0});
+  for (std::uint64_t n = 3; n <= 9; ++n)
+    cases.push_back({n, problems_test::cycle_graph(n), static_cast<std::int64_t>(n % 2 == 0 ? n : n - 1), 0});
   cases.push_back({10, problems_test::petersen_graph(), 12, 10});
   for (const auto& c : cases) {
     auto p = MaxCutProblem<std::int32_t>::encode(c.n, unit(c.edges));

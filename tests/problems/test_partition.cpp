@@ -74,10 +74,12 @@ TEST_CASE("partition: {3,1,1,2,2,1} has 10 perfect ground states") {
   REQUIRE(ex.ok());
   CHECK(ex->energy == 0);
   CHECK(ex->ground_count == 10);
-  for (const auto& s : problems_test::ground_states(p->model()).states) CHECK(p->check(p->decode(s.data())).difference == 0);
+  for (const auto& s : problems_test::ground_states(p->model()).states)
+    CHECK(p->check(p->decode(s.data())).difference == 0);
 }
 
-TEST_CASE_TEMPLATE("partition: ground state decodes to the smallest residue over all subsets", Value, std::int32_t, std::int64_t, double) {
+TEST_CASE_TEMPLATE("partition: ground state decodes to the smallest residue over all subsets", Value, std::int32_t,
+                   std::int64_t, double) {
   Xoshiro256 rng(555);
   for (int trial = 0; trial < 20; ++trial) {
     std::vector<Value> numbers(3 + rng.below(8));

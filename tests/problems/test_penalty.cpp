@@ -38,7 +38,8 @@ std::uint64_t floor_log2(std::uint64_t v) {
 
 }  // namespace
 
-TEST_CASE_TEMPLATE("one-hot and k-hot: A (k - sum x)^2 on every assignment", Value, std::int32_t, std::int64_t, double) {
+TEST_CASE_TEMPLATE("one-hot and k-hot: A (k - sum x)^2 on every assignment", Value, std::int32_t, std::int64_t,
+                   double) {
   const Value a = Value{3};
   for (std::uint64_t m = 1; m <= 5; ++m) {
     for (std::uint64_t k = 0; k <= m; ++k) {
@@ -69,7 +70,8 @@ TEST_CASE_TEMPLATE("one-hot and k-hot: A (k - sum x)^2 on every assignment", Val
   }
 }
 
-TEST_CASE_TEMPLATE("pairwise-exclusion: A sum_{i<j} x_i x_j is 0 exactly on <= 1 bit set", Value, std::int32_t, double) {
+TEST_CASE_TEMPLATE("pairwise-exclusion: A sum_{i<j} x_i x_j is 0 exactly on <= 1 bit set", Value, std::int32_t,
+                   double) {
   const Value a = Value{5};
   for (std::uint64_t m = 1; m <= 6; ++m) {
     std::vector<std::uint64_t> group;
@@ -171,7 +173,8 @@ TEST_CASE("slack bits: powers of two with the last one capped, exactly 0..S") {
   }
 }
 
-TEST_CASE_TEMPLATE("weighted sum at most with slack: min over slack is A max(0, sum a x - b)^2", Value, std::int64_t, double) {
+TEST_CASE_TEMPLATE("weighted sum at most with slack: min over slack is A max(0, sum a x - b)^2", Value, std::int64_t,
+                   double) {
   Xoshiro256 rng(77);
   for (int trial = 0; trial < 40; ++trial) {
     const std::uint64_t n = 2 + rng.below(4);
@@ -245,10 +248,13 @@ TEST_CASE("penalty builders refuse bad input and add nothing") {
   // sum a x <= -3 with a = (1, -2): the left-hand side is at least -2.
   CHECK(add_sum_at_most(b, set, {0, 1}, {1, -2}, -3, std::int32_t{1}).status().code == StatusCode::invalid_argument);
   // Coefficients whose penalty terms do not fit int32: 2 * 1 * 50000 * 50000 > 2^31.
-  CHECK(add_sum_equal(b, set, {0, 1}, {50000, 50000}, 0, std::int32_t{1}).status().code == StatusCode::value_out_of_range);
-  CHECK(add_sum_equal(b, set, {0}, {constraint_data_limit}, 1, std::int32_t{1}).status().code == StatusCode::value_out_of_range);
+  CHECK(add_sum_equal(b, set, {0, 1}, {50000, 50000}, 0, std::int32_t{1}).status().code ==
+        StatusCode::value_out_of_range);
+  CHECK(add_sum_equal(b, set, {0}, {constraint_data_limit}, 1, std::int32_t{1}).status().code ==
+        StatusCode::value_out_of_range);
   QuboBuilder<double> bd(2);
-  CHECK(add_one_hot(bd, set, {0, 1}, std::numeric_limits<double>::quiet_NaN()).status().code == StatusCode::invalid_argument);
+  CHECK(add_one_hot(bd, set, {0, 1}, std::numeric_limits<double>::quiet_NaN()).status().code ==
+        StatusCode::invalid_argument);
   CHECK(b.num_terms() == terms);
   CHECK(set.size() == 0);
   CHECK(set.num_variables() == 4);
@@ -258,7 +264,8 @@ TEST_CASE("penalty builders refuse bad input and add nothing") {
 // Penalty-weight bound: with every weight >= suggest_penalty_weight(f), no infeasible state
 // has lower energy than the best feasible one, and the ground state decodes to the best
 // feasible x (checked against enumeration of the decision variables alone).
-TEST_CASE_TEMPLATE("suggested penalty weight: no infeasible state beats the best feasible one", Value, std::int32_t, double) {
+TEST_CASE_TEMPLATE("suggested penalty weight: no infeasible state beats the best feasible one", Value, std::int32_t,
+                   double) {
   Xoshiro256 rng(4242);
   for (int trial = 0; trial < 25; ++trial) {
     const std::uint64_t n = 6;
@@ -266,7 +273,8 @@ TEST_CASE_TEMPLATE("suggested penalty weight: no infeasible state beats the best
     // builder grows on demand, so that its copy accepts the slack bits.
     QuboBuilder<Value> obj;
     for (std::uint64_t i = 0; i < n; ++i) {
-      obj.add_unary(i, static_cast<Value>(static_cast<int>(rng.below(19)) - 9) / Value{std::is_integral_v<Value> ? 1 : 4});
+      obj.add_unary(i,
+                    static_cast<Value>(static_cast<int>(rng.below(19)) - 9) / Value{std::is_integral_v<Value> ? 1 : 4});
       for (std::uint64_t j = i + 1; j < n; ++j) {
         if (rng.below(2) == 0) obj.add_pair(i, j, static_cast<Value>(static_cast<int>(rng.below(19)) - 9));
       }
@@ -284,10 +292,13 @@ TEST_CASE_TEMPLATE("suggested penalty weight: no infeasible state beats the best
     ConstraintSet set(n);
     const std::vector<std::uint64_t> g1{0, 1, 2, 3};
     REQUIRE(add_k_hot(full, set, g1, std::uint64_t{x0[0]} + x0[1] + x0[2] + x0[3], *a).ok());
-    std::vector<std::int64_t> coef{static_cast<std::int64_t>(rng.below(7)) - 2, static_cast<std::int64_t>(rng.below(7)) - 2,
-                                   static_cast<std::int64_t>(rng.below(7)) - 2, static_cast<std::int64_t>(rng.below(7)) - 2};
+    std::vector<std::int64_t> coef{
+        static_cast<std::int64_t>(rng.below(7)) - 2, static_cast<std::int64_t>(rng.below(7)) - 2,
+        static_cast<std::int64_t>(rng.below(7)) - 2, static_cast<std::int64_t>(rng.below(7)) - 2};
     const std::vector<std::uint64_t> g2{2, 3, 4, 5};
-    REQUIRE(add_sum_at_most(full, set, g2, coef, lhs_of(g2, coef, x0.data()) + static_cast<std::int64_t>(rng.below(2)), *a).ok());
+    REQUIRE(
+        add_sum_at_most(full, set, g2, coef, lhs_of(g2, coef, x0.data()) + static_cast<std::int64_t>(rng.below(2)), *a)
+            .ok());
     if (x0[4] + x0[5] + x0[0] <= 1) REQUIRE(add_pairwise_exclusion(full, set, {0, 4, 5}, *a).ok());
     auto model = full.build();
     REQUIRE(model.ok());

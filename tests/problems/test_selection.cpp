@@ -43,7 +43,8 @@ typename Problem::energy_type best_selection(const Problem& p, std::uint64_t n, 
 TEST_CASE("selection: invented supplier scenario, ground state = best 3-subset") {
   const std::size_t n = 8;
   const std::vector<double> mu{0.9, 1.1, 1.0, 0.6, 0.8, 1.3, 1.2, 0.4};
-  const double loadings[8][2] = {{0.8, 0.1}, {0.9, 0.0}, {0.7, 0.2}, {0.1, 0.3}, {0.2, 0.2}, {0.3, 0.9}, {0.2, -0.8}, {0.0, 0.1}};
+  const double loadings[8][2] = {{0.8, 0.1}, {0.9, 0.0}, {0.7, 0.2},  {0.1, 0.3},
+                                 {0.2, 0.2}, {0.3, 0.9}, {0.2, -0.8}, {0.0, 0.1}};
   std::vector<double> cov(n * n);
   for (std::size_t i = 0; i < n; ++i) {
     for (std::size_t j = 0; j < n; ++j) {
@@ -76,7 +77,8 @@ TEST_CASE("selection: invented supplier scenario, ground state = best 3-subset")
   CHECK(p0->decode(e0->spins.data()).items == std::vector<std::uint64_t>{1, 5, 6});
 }
 
-TEST_CASE_TEMPLATE("selection: random integer and real instances, no infeasible state below the optimum", Value, std::int64_t, double) {
+TEST_CASE_TEMPLATE("selection: random integer and real instances, no infeasible state below the optimum", Value,
+                   std::int64_t, double) {
   Xoshiro256 rng(1234);
   for (int trial = 0; trial < 12; ++trial) {
     const std::size_t n = 7;
@@ -115,7 +117,8 @@ TEST_CASE_TEMPLATE("selection: random integer and real instances, no infeasible 
 
 TEST_CASE("selection: refused input") {
   CHECK(SelectionProblem<double>::encode({1, 2}, {1, 0, 0}, 1.0, 1).status().code == StatusCode::invalid_argument);
-  CHECK(SelectionProblem<double>::encode({1, 2}, {1, 0.5, 0.4, 1}, 1.0, 1).status().code == StatusCode::invalid_argument);
+  CHECK(SelectionProblem<double>::encode({1, 2}, {1, 0.5, 0.4, 1}, 1.0, 1).status().code ==
+        StatusCode::invalid_argument);
   CHECK(SelectionProblem<double>::encode({1, 2}, {1, 0, 0, 1}, 1.0, 3).status().code == StatusCode::invalid_argument);
   CHECK(SelectionProblem<double>::encode({1, 2}, {1, 0, 0, 1}, -1.0, 1).status().code == StatusCode::invalid_argument);
   CHECK(SelectionProblem<std::int32_t>::encode({1, 2}, {1, 2000000000, 2000000000, 1}, 1, 1).status().code ==

@@ -72,7 +72,10 @@ void exercise(const Model& m, std::uint64_t seed) {
     const std::uint32_t k = 1 + rng.below(n < 6 ? n : 6);
     while (group.size() < k) {
       const auto i = static_cast<I>(rng.below(n));
-      if (!in[i]) { in[i] = 1; group.push_back(i); }
+      if (!in[i]) {
+        in[i] = 1;
+        group.push_back(i);
+      }
     }
     std::vector<std::int8_t> t(st.spins(), st.spins() + n);
     const auto before = m.energy(t.data());
@@ -130,7 +133,9 @@ TEST_CASE_TEMPLATE("in-place edits keep local fields and energy exact", Model, I
   for (int step = 0; step < 400; ++step) {
     const auto i = static_cast<I>(rng.below(30));
     switch (rng.below(4)) {
-      case 0: REQUIRE(edit_site_term(m, st, i, static_cast<V>(static_cast<int>(rng.below(21)) - 10)).ok()); break;
+      case 0:
+        REQUIRE(edit_site_term(m, st, i, static_cast<V>(static_cast<int>(rng.below(21)) - 10)).ok());
+        break;
       case 1: {
         const auto nb = m.neighbours(i);
         if (nb.empty()) break;
@@ -139,8 +144,12 @@ TEST_CASE_TEMPLATE("in-place edits keep local fields and energy exact", Model, I
         CHECK(m.pair(j, i) == m.pair(i, j));
         break;
       }
-      case 2: REQUIRE(edit_offset(m, st, static_cast<typename Model::energy_type>(rng.below(9))).ok()); break;
-      default: st.flip(i); break;
+      case 2:
+        REQUIRE(edit_offset(m, st, static_cast<typename Model::energy_type>(rng.below(9))).ok());
+        break;
+      default:
+        st.flip(i);
+        break;
     }
     check_close<Model>(st.energy(), m.energy(st.spins()));
   }

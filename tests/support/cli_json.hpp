@@ -17,7 +17,7 @@ struct Json {
   enum class Kind { null, boolean, number, string, array, object } kind = Kind::null;
   bool b = false;
   double num = 0;
-  std::string text;    // string value, or the number's literal
+  std::string text;  // string value, or the number's literal
   std::vector<Json> items;
   std::map<std::string, Json> members;
 
@@ -27,9 +27,7 @@ struct Json {
     const auto it = members.find(k);
     return it == members.end() ? missing : it->second;
   }
-  bool is_integer_literal() const {
-    return kind == Kind::number && text.find_first_of(".eE") == std::string::npos;
-  }
+  bool is_integer_literal() const { return kind == Kind::number && text.find_first_of(".eE") == std::string::npos; }
 };
 
 class JsonParser {
@@ -63,21 +61,38 @@ class JsonParser {
         if (pos_ >= s_.size()) return false;
         const char e = s_[pos_++];
         switch (e) {
-          case '"': c = '"'; break;
-          case '\\': c = '\\'; break;
-          case '/': c = '/'; break;
-          case 'b': c = '\b'; break;
-          case 'f': c = '\f'; break;
-          case 'n': c = '\n'; break;
-          case 'r': c = '\r'; break;
-          case 't': c = '\t'; break;
+          case '"':
+            c = '"';
+            break;
+          case '\\':
+            c = '\\';
+            break;
+          case '/':
+            c = '/';
+            break;
+          case 'b':
+            c = '\b';
+            break;
+          case 'f':
+            c = '\f';
+            break;
+          case 'n':
+            c = '\n';
+            break;
+          case 'r':
+            c = '\r';
+            break;
+          case 't':
+            c = '\t';
+            break;
           case 'u': {
             if (pos_ + 4 > s_.size()) return false;
             c = static_cast<char>(std::stoi(s_.substr(pos_, 4), nullptr, 16));
             pos_ += 4;
             break;
           }
-          default: return false;
+          default:
+            return false;
         }
       }
       out += c;

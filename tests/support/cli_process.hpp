@@ -27,8 +27,8 @@ extern char** environ;
 namespace cli_test {
 
 struct RunOutput {
-  int code = -1;           // exit status, or 128 + signal
-  bool hung = false;       // killed after hang_seconds
+  int code = -1;      // exit status, or 128 + signal
+  bool hung = false;  // killed after hang_seconds
   std::string out;
   std::string err;
 };

@@ -35,7 +35,8 @@ GlpkAnswer glpk_qubo_minimum(const QuboModel& q) {
   std::vector<Pair> pairs;
   for (int i = 0; i < n; ++i) {
     q.for_each_neighbour(static_cast<index_type>(i), [&](index_type j, value_type v) {
-      if (static_cast<int>(j) > i && v != value_type{0}) pairs.push_back({i, static_cast<int>(j), static_cast<double>(v)});
+      if (static_cast<int>(j) > i && v != value_type{0})
+        pairs.push_back({i, static_cast<int>(j), static_cast<double>(v)});
     });
   }
   glp_term_out(GLP_OFF);
@@ -60,8 +61,8 @@ GlpkAnswer glpk_qubo_minimum(const QuboModel& q) {
     glp_set_col_bnds(lp, y, GLP_DB, 0.0, 1.0);
     glp_set_obj_coef(lp, y, pairs[k].v);
     const int r = 3 * static_cast<int>(k) + 1;
-    glp_set_row_bnds(lp, r, GLP_UP, 0.0, 0.0);  // y - x_i <= 0
-    glp_set_row_bnds(lp, r + 1, GLP_UP, 0.0, 0.0);  // y - x_j <= 0
+    glp_set_row_bnds(lp, r, GLP_UP, 0.0, 0.0);       // y - x_i <= 0
+    glp_set_row_bnds(lp, r + 1, GLP_UP, 0.0, 0.0);   // y - x_j <= 0
     glp_set_row_bnds(lp, r + 2, GLP_LO, -1.0, 0.0);  // y - x_i - x_j >= -1
     const int entries[7][2] = {{r, y}, {r, xi}, {r + 1, y}, {r + 1, xj}, {r + 2, y}, {r + 2, xi}, {r + 2, xj}};
     const double values[7] = {1, -1, 1, -1, 1, -1, -1};

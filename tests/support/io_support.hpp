@@ -74,7 +74,7 @@ Value random_value(spinwright::Xoshiro256& rng, std::int64_t range) {
 // A random sparse model with n spins, about `pairs` pairs, optional site terms and offset.
 template <spinwright::Form F, class Value, class Index = std::uint32_t>
 spinwright::SparseModel<F, Value, Index> random_model(std::uint64_t seed, std::uint32_t n, std::uint32_t pairs,
-                                                       bool linear, bool offset, std::int64_t range = 1000) {
+                                                      bool linear, bool offset, std::int64_t range = 1000) {
   spinwright::Xoshiro256 rng(seed);
   using Builder = std::conditional_t<F == spinwright::Form::ising, spinwright::IsingBuilder<Value, Index>,
                                      spinwright::QuboBuilder<Value, Index>>;

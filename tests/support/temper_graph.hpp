@@ -87,9 +87,7 @@ inline std::int64_t reference_cut(const std::string& csv_path, const std::string
   return -1;
 }
 
-inline std::string maxcut_path(const std::string& name) {
-  return std::string(SPINWRIGHT_DATA_DIR) + "/maxcut/" + name;
-}
+inline std::string maxcut_path(const std::string& name) { return std::string(SPINWRIGHT_DATA_DIR) + "/maxcut/" + name; }
 
 // A benchmark instance as the max-cut Ising model J = w, h = 0 (io/edge_list.hpp).
 template <class Value = std::int32_t>

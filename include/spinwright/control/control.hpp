@@ -7,11 +7,11 @@
 
 #include "../config.hpp"
 
-#include <atomic>   // std::atomic (lock-free bool on every supported target)
-#include <cstdint>  // std::uint64_t, std::uint8_t
-#include <limits>   // std::numeric_limits
+#include <atomic>       // std::atomic (lock-free bool on every supported target)
+#include <cstdint>      // std::uint64_t, std::uint8_t
+#include <limits>       // std::numeric_limits
 #include <type_traits>  // std::void_t, std::false_type
-#include <utility>  // std::declval
+#include <utility>      // std::declval
 
 namespace spinwright {
 
@@ -25,10 +25,14 @@ enum class StopReason : std::uint8_t {
 
 inline constexpr const char* to_string(StopReason r) noexcept {
   switch (r) {
-    case StopReason::budget_exhausted: return "budget_exhausted";
-    case StopReason::deadline: return "deadline";
-    case StopReason::target_reached: return "target_reached";
-    case StopReason::stopped: return "stopped";
+    case StopReason::budget_exhausted:
+      return "budget_exhausted";
+    case StopReason::deadline:
+      return "deadline";
+    case StopReason::target_reached:
+      return "target_reached";
+    case StopReason::stopped:
+      return "stopped";
   }
   return "unknown";
 }
@@ -64,10 +68,24 @@ struct Budget {
   bool has_target = false;
   double target = 0;  // stop when the best energy is <= target (energies as double)
 
-  Budget& with_sweeps(std::uint64_t n) noexcept { sweeps = n; return *this; }
-  Budget& with_time_limit(double s, Clock c) noexcept { seconds = s; clock = c; return *this; }
-  Budget& with_stop(const StopToken& token) noexcept { stop = &token; return *this; }
-  Budget& with_target(double energy) noexcept { has_target = true; target = energy; return *this; }
+  Budget& with_sweeps(std::uint64_t n) noexcept {
+    sweeps = n;
+    return *this;
+  }
+  Budget& with_time_limit(double s, Clock c) noexcept {
+    seconds = s;
+    clock = c;
+    return *this;
+  }
+  Budget& with_stop(const StopToken& token) noexcept {
+    stop = &token;
+    return *this;
+  }
+  Budget& with_target(double energy) noexcept {
+    has_target = true;
+    target = energy;
+    return *this;
+  }
 };
 
 // Observers: a user type with any of
@@ -111,9 +129,18 @@ class BudgetGuard {
 
   // `sweep_limit` is the kernel's own budget (the Budget's sweeps, or its default).
   bool should_stop(std::uint64_t sweeps_done, std::uint64_t sweep_limit, double best, StopReason& why) const noexcept {
-    if (budget_.has_target && best <= budget_.target) { why = StopReason::target_reached; return true; }
-    if (budget_.stop != nullptr && budget_.stop->stop_requested()) { why = StopReason::stopped; return true; }
-    if (sweeps_done >= sweep_limit) { why = StopReason::budget_exhausted; return true; }
+    if (budget_.has_target && best <= budget_.target) {
+      why = StopReason::target_reached;
+      return true;
+    }
+    if (budget_.stop != nullptr && budget_.stop->stop_requested()) {
+      why = StopReason::stopped;
+      return true;
+    }
+    if (sweeps_done >= sweep_limit) {
+      why = StopReason::budget_exhausted;
+      return true;
+    }
     if (budget_.clock.valid() && budget_.seconds != std::numeric_limits<double>::infinity() &&
         budget_.clock.read() - start_ >= budget_.seconds) {
       why = StopReason::deadline;

@@ -88,7 +88,9 @@ class Buffer {
   }
 
   Buffer(Buffer&& other) noexcept
-      : data_(std::exchange(other.data_, nullptr)), size_(std::exchange(other.size_, 0)), owned_(std::exchange(other.owned_, false)) {}
+      : data_(std::exchange(other.data_, nullptr)),
+        size_(std::exchange(other.size_, 0)),
+        owned_(std::exchange(other.owned_, false)) {}
   Buffer& operator=(Buffer&& other) noexcept {
     if (this != &other) {
       release();

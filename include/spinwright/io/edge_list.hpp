@@ -107,8 +107,8 @@ inline IoResult<TermList> scan_edge_list(std::string_view text, std::string_view
       }
       if (ends[e] > list.num_spins) {
         return IoStatus::error(StatusCode::index_out_of_range, name, line.number,
-                               "node number " + std::to_string(ends[e]) + " is beyond N = " +
-                                   std::to_string(list.num_spins) + " declared on line " +
+                               "node number " + std::to_string(ends[e]) +
+                                   " is beyond N = " + std::to_string(list.num_spins) + " declared on line " +
                                    std::to_string(list.header_line));
       }
     }
@@ -165,14 +165,16 @@ IoResult<std::string> format_edge_list(const IsingModel<Value, Index>& m, std::s
   const std::size_t n = m.num_spins();
   for (std::size_t i = 0; i < n; ++i) {
     if (m.field(static_cast<Index>(i)) != Value{0}) {
-      return IoStatus::error(StatusCode::invalid_argument, name, 0,
-                             "spin " + std::to_string(i + 1) +
-                                 " has a non-zero field; an edge list holds couplings only (write Matrix Market instead)");
+      return IoStatus::error(
+          StatusCode::invalid_argument, name, 0,
+          "spin " + std::to_string(i + 1) +
+              " has a non-zero field; an edge list holds couplings only (write Matrix Market instead)");
     }
   }
   if (m.offset() != energy_t<Value>{0}) {
-    return IoStatus::error(StatusCode::invalid_argument, name, 0,
-                           "the model has a non-zero offset; an edge list cannot hold it (write Matrix Market instead)");
+    return IoStatus::error(
+        StatusCode::invalid_argument, name, 0,
+        "the model has a non-zero offset; an edge list cannot hold it (write Matrix Market instead)");
   }
   std::string out;
   out.reserve(16 + m.num_pairs() * 16);

@@ -46,7 +46,7 @@ struct [[nodiscard]] IoStatus {
 template <class T>
 class [[nodiscard]] IoResult {
  public:
-  IoResult(T value) : value_(std::move(value)) {}        // NOLINT: implicit by design
+  IoResult(T value) : value_(std::move(value)) {}           // NOLINT: implicit by design
   IoResult(IoStatus status) : status_(std::move(status)) {  // NOLINT: implicit by design
     SPINWRIGHT_ASSERT(!status_.ok(), "IoResult built from an ok IoStatus without a value");
   }

@@ -89,8 +89,9 @@ inline IoResult<TermList> scan_matrix_market(std::string_view text, std::string_
   }
   const bool integer_field = field == "integer";
   if (field == "complex" || field == "pattern") {
-    return IoStatus::error(StatusCode::unsupported, name, 1,
-                           "field " + quote(tok[3]) + " is not supported; use 'real' or 'integer' (a model needs values)");
+    return IoStatus::error(
+        StatusCode::unsupported, name, 1,
+        "field " + quote(tok[3]) + " is not supported; use 'real' or 'integer' (a model needs values)");
   }
   if (!integer_field && field != "real") {
     return IoStatus::error(StatusCode::unsupported, name, 1, "unknown field " + quote(tok[3]));
@@ -119,21 +120,24 @@ inline IoResult<TermList> scan_matrix_market(std::string_view text, std::string_
       const std::size_t count = split_tokens(body, tok, 4);
       if (count == 0 || tok[0] != "spinwright") continue;  // an ordinary comment
       if (have_size) {
-        return IoStatus::error(StatusCode::parse_error, name, line.number,
-                               "'% spinwright' directives must come before the size line (line " +
-                                   std::to_string(list.header_line) + ")");
+        return IoStatus::error(
+            StatusCode::parse_error, name, line.number,
+            "'% spinwright' directives must come before the size line (line " + std::to_string(list.header_line) + ")");
       }
       if (count < 3) {
-        return IoStatus::error(StatusCode::parse_error, name, line.number,
-                               "incomplete directive: expected '% spinwright form ising|qubo' or '% spinwright offset <value>'");
+        return IoStatus::error(
+            StatusCode::parse_error, name, line.number,
+            "incomplete directive: expected '% spinwright form ising|qubo' or '% spinwright offset <value>'");
       }
       if (count > 3) {
-        return IoStatus::error(StatusCode::parse_error, name, line.number, "trailing text after the directive: " + quote(tok[3]));
+        return IoStatus::error(StatusCode::parse_error, name, line.number,
+                               "trailing text after the directive: " + quote(tok[3]));
       }
       if (tok[1] == "form") {
         if (list.form_line != 0) {
-          return IoStatus::error(StatusCode::parse_error, name, line.number,
-                                 "second 'spinwright form' directive (the first is on line " + std::to_string(list.form_line) + ")");
+          return IoStatus::error(
+              StatusCode::parse_error, name, line.number,
+              "second 'spinwright form' directive (the first is on line " + std::to_string(list.form_line) + ")");
         }
         if (tok[2] == "ising") {
           list.form = Form::ising;
@@ -146,8 +150,9 @@ inline IoResult<TermList> scan_matrix_market(std::string_view text, std::string_
         list.form_line = line.number;
       } else if (tok[1] == "offset") {
         if (list.has_offset) {
-          return IoStatus::error(StatusCode::parse_error, name, line.number,
-                                 "second 'spinwright offset' directive (the first is on line " + std::to_string(list.offset_line) + ")");
+          return IoStatus::error(
+              StatusCode::parse_error, name, line.number,
+              "second 'spinwright offset' directive (the first is on line " + std::to_string(list.offset_line) + ")");
         }
         const std::string why = parse_number(tok[2], list.offset, code);
         if (!why.empty()) return IoStatus::error(code, name, line.number, "offset: " + why);
@@ -182,9 +187,9 @@ inline IoResult<TermList> scan_matrix_market(std::string_view text, std::string_
       if (why.empty()) why = parse_count(tok[2], declared, code, "number of entries");
       if (!why.empty()) return IoStatus::error(code, name, line.number, "size line: " + why);
       if (rows != cols) {
-        return IoStatus::error(StatusCode::unsupported, name, line.number,
-                               "the matrix is " + std::to_string(rows) + " x " + std::to_string(cols) +
-                                   "; a model needs a square matrix");
+        return IoStatus::error(
+            StatusCode::unsupported, name, line.number,
+            "the matrix is " + std::to_string(rows) + " x " + std::to_string(cols) + "; a model needs a square matrix");
       }
       if (rows > options.max_spins) {
         return IoStatus::error(StatusCode::size_limit, name, line.number,
@@ -203,11 +208,13 @@ inline IoResult<TermList> scan_matrix_market(std::string_view text, std::string_
                                  std::to_string(declared) + " entries");
     }
     if (count < 3) {
-      return IoStatus::error(StatusCode::parse_error, name, line.number,
-                             "expected 'i j value', found " + std::to_string(count) + (count == 1 ? " field" : " fields"));
+      return IoStatus::error(
+          StatusCode::parse_error, name, line.number,
+          "expected 'i j value', found " + std::to_string(count) + (count == 1 ? " field" : " fields"));
     }
     if (count > 3) {
-      return IoStatus::error(StatusCode::parse_error, name, line.number, "trailing text after the value: " + quote(tok[3]));
+      return IoStatus::error(StatusCode::parse_error, name, line.number,
+                             "trailing text after the value: " + quote(tok[3]));
     }
     std::uint64_t ends[2] = {0, 0};
     for (int e = 0; e < 2; ++e) {
@@ -244,8 +251,9 @@ inline IoResult<TermList> scan_matrix_market(std::string_view text, std::string_
   }
   if (list.terms.size() < declared) {
     return IoStatus::error(StatusCode::parse_error, name, reader.last_line() + 1,
-                           "file ends after " + std::to_string(list.terms.size()) + " of the " + std::to_string(declared) +
-                               " entries declared on line " + std::to_string(list.header_line) + " (truncated file?)");
+                           "file ends after " + std::to_string(list.terms.size()) + " of the " +
+                               std::to_string(declared) + " entries declared on line " +
+                               std::to_string(list.header_line) + " (truncated file?)");
   }
   // Automatic value type: the banner's field decides.
   list.all_integer = integer_field;
@@ -266,8 +274,8 @@ IoResult<Model> parse_matrix_market(std::string_view text, std::string_view name
   if (list.form != Model::form) {
     const bool file_ising = list.form == Form::ising;
     return IoStatus::error(StatusCode::unsupported, name, list.form_line == 0 ? 1 : list.form_line,
-                           std::string("the file holds ") + (file_ising ? "an Ising" : "a QUBO") +
-                               " model" + (list.form_line == 0 ? " (the default when no '% spinwright form' line is given)" : "") +
+                           std::string("the file holds ") + (file_ising ? "an Ising" : "a QUBO") + " model" +
+                               (list.form_line == 0 ? " (the default when no '% spinwright form' line is given)" : "") +
                                " but " + (file_ising ? "a QUBO" : "an Ising") +
                                " model was requested; read it as its own form and convert (model/convert.hpp)");
   }

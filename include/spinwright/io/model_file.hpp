@@ -94,8 +94,8 @@ inline IoResult<LoadedModel> parse_model_text(std::string_view text, std::string
   if (!scanned.ok()) return scanned.status();
   const detail::TermList& list = scanned.value();
   loaded.form = list.form;
-  loaded.integer = options.value_kind == ValueKind::integer ||
-                   (options.value_kind == ValueKind::automatic && list.all_integer);
+  loaded.integer =
+      options.value_kind == ValueKind::integer || (options.value_kind == ValueKind::automatic && list.all_integer);
   IoStatus st;
   if (loaded.form == Form::ising) {
     st = loaded.integer ? detail::build_into(list, name, loaded.ising_integer)
@@ -117,14 +117,14 @@ inline IoResult<LoadedModel> read_model_file(const std::string& path, const Read
 
 /// Formats a loaded model in the given format. An edge list needs an Ising model without
 /// fields or offset (invalid_argument otherwise, line 0); Matrix Market holds any model.
-inline IoResult<std::string> format_model(const LoadedModel& m, FileFormat format,
-                                          std::string_view name = "<model>") {
+inline IoResult<std::string> format_model(const LoadedModel& m, FileFormat format, std::string_view name = "<model>") {
   if (format == FileFormat::matrix_market) {
     return m.visit([](const auto& model) { return format_matrix_market(model); });
   }
   if (m.form != Form::ising) {
-    return IoStatus::error(StatusCode::invalid_argument, name, 0,
-                           "an edge list holds max-cut (Ising) models only; convert the QUBO model or write Matrix Market");
+    return IoStatus::error(
+        StatusCode::invalid_argument, name, 0,
+        "an edge list holds max-cut (Ising) models only; convert the QUBO model or write Matrix Market");
   }
   return m.integer ? format_edge_list(m.ising_integer, name) : format_edge_list(m.ising_real, name);
 }

@@ -80,9 +80,9 @@ inline IoResult<std::vector<std::int8_t>> parse_state(std::string_view text, std
                              "more values than the " + std::to_string(expected_size) + " the model has");
     }
     if (spins.size() >= options.max_spins) {
-      return IoStatus::error(StatusCode::size_limit, name, line.number,
-                             "more values than the limit of " + std::to_string(options.max_spins) +
-                                 " (ReadOptions::max_spins)");
+      return IoStatus::error(
+          StatusCode::size_limit, name, line.number,
+          "more values than the limit of " + std::to_string(options.max_spins) + " (ReadOptions::max_spins)");
     }
     spins.push_back(spin);
   }
@@ -92,8 +92,9 @@ inline IoResult<std::vector<std::int8_t>> parse_state(std::string_view text, std
                                std::to_string(expected_size) + " values the model needs");
   }
   if (expected_size == any_size && spins.empty()) {
-    return IoStatus::error(StatusCode::parse_error, name, reader.last_line() + 1,
-                           reader.last_line() == 0 ? "empty file: expected one value per line" : "no values in the file");
+    return IoStatus::error(
+        StatusCode::parse_error, name, reader.last_line() + 1,
+        reader.last_line() == 0 ? "empty file: expected one value per line" : "no values in the file");
   }
   return spins;
 }

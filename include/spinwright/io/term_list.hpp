@@ -29,17 +29,17 @@ struct RawTerm {
   Number value;
   std::string_view token;  // points into the scanned text
   std::uint64_t line = 0;
-  bool mirrored = false;   // Matrix Market symmetric storage: stands for (i, j) and (j, i)
+  bool mirrored = false;  // Matrix Market symmetric storage: stands for (i, j) and (j, i)
 };
 
 /// What a scanner found, before any value type is chosen.
 struct TermList {
   Form form = Form::ising;
   std::uint64_t num_spins = 0;
-  std::uint64_t header_line = 0;     // line of the size header (for whole-model errors)
-  std::uint64_t form_line = 0;       // line that fixed the form (0 if defaulted)
-  bool diagonal_is_linear = false;   // Matrix Market: (i, i) is a field / unary term
-  bool all_integer = true;           // automatic value type is int64_t (see model_file.hpp)
+  std::uint64_t header_line = 0;    // line of the size header (for whole-model errors)
+  std::uint64_t form_line = 0;      // line that fixed the form (0 if defaulted)
+  bool diagonal_is_linear = false;  // Matrix Market: (i, i) is a field / unary term
+  bool all_integer = true;          // automatic value type is int64_t (see model_file.hpp)
   bool has_offset = false;
   Number offset;
   std::string_view offset_token;
@@ -47,9 +47,7 @@ struct TermList {
   std::vector<RawTerm> terms;
 };
 
-inline std::string index_type_name(std::size_t bytes) {
-  return bytes == 2 ? "uint16_t" : "uint32_t";
-}
+inline std::string index_type_name(std::size_t bytes) { return bytes == 2 ? "uint16_t" : "uint32_t"; }
 
 /// Builds a model of form F from a scanned term list; every error names a line.
 template <Form F, class Value, class Index>
@@ -58,8 +56,8 @@ IoResult<SparseModel<F, Value, Index>> build_terms(const TermList& list, std::st
   if (list.num_spins > max_spins_v<Index>) {
     return IoStatus::error(StatusCode::index_out_of_range, name, list.header_line,
                            std::to_string(list.num_spins) + " spins exceed what the index type " +
-                               index_type_name(sizeof(Index)) + " can address (" +
-                               std::to_string(max_spins_v<Index>) + ")");
+                               index_type_name(sizeof(Index)) + " can address (" + std::to_string(max_spins_v<Index>) +
+                               ")");
   }
   using Builder = std::conditional_t<F == Form::ising, IsingBuilder<Value, Index>, QuboBuilder<Value, Index>>;
   Builder b(list.num_spins);

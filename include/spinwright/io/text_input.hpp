@@ -130,9 +130,7 @@ class LineReader {
   std::uint64_t number_ = 0;
 };
 
-constexpr bool is_space(char c) noexcept {
-  return c == ' ' || c == '\t' || c == '\r' || c == '\v' || c == '\f';
-}
+constexpr bool is_space(char c) noexcept { return c == ' ' || c == '\t' || c == '\r' || c == '\v' || c == '\f'; }
 
 inline std::string_view trim(std::string_view s) noexcept {
   while (!s.empty() && is_space(s.front())) s.remove_prefix(1);

@@ -43,8 +43,8 @@
 namespace spinwright {
 
 struct AnnealParams {
-  std::uint64_t sweeps = 1000;           // schedule length (a Budget's sweeps override it in run())
-  Schedule schedule{};                   // default: geometric over the beta span from the model
+  std::uint64_t sweeps = 1000;  // schedule length (a Budget's sweeps override it in run())
+  Schedule schedule{};          // default: geometric over the beta span from the model
   Acceptance acceptance = Acceptance::metropolis;
   // Used by moves constructible from a SiteOrder (SingleFlip). Random is the default because
   // sequential Metropolis is not ergodic where zero-delta flips abound (rings, cycles: domain
@@ -237,7 +237,8 @@ class Annealer {
   }
 
   // The hazard path applies to the built-in move on integer models.
-  static constexpr bool hazard_capable = std::is_same_v<Move, SingleFlip<Model>> && Acceptor<energy_type>::has_hazard_path;
+  static constexpr bool hazard_capable =
+      std::is_same_v<Move, SingleFlip<Model>> && Acceptor<energy_type>::has_hazard_path;
   static bool uses_hazard(const AnnealParams& params) noexcept { return hazard_capable && params.hazard_below > 0; }
 
   static Move default_move(const AnnealParams& params) {

@@ -73,11 +73,16 @@ enum class KernelKind : std::uint8_t { anneal, temper, tabu, descent, exact };
 
 inline constexpr const char* to_string(KernelKind k) noexcept {
   switch (k) {
-    case KernelKind::anneal: return "anneal";
-    case KernelKind::temper: return "temper";
-    case KernelKind::tabu: return "tabu";
-    case KernelKind::descent: return "descent";
-    case KernelKind::exact: return "exact";
+    case KernelKind::anneal:
+      return "anneal";
+    case KernelKind::temper:
+      return "temper";
+    case KernelKind::tabu:
+      return "tabu";
+    case KernelKind::descent:
+      return "descent";
+    case KernelKind::exact:
+      return "exact";
   }
   return "unknown";
 }
@@ -319,7 +324,8 @@ Solution<typename Model::energy_type> solve_auto(const Model& model, std::uint64
     }
     default: {
       if (fill) {
-        if (auto_fill_kernel(model) == KernelKind::temper) return detail::auto_fill_temper(model, seed, restart, budget);
+        if (auto_fill_kernel(model) == KernelKind::temper)
+          return detail::auto_fill_temper(model, seed, restart, budget);
         return detail::auto_fill_anneal(model, seed, restart, budget, auto_fill_growth, SiteOrder::sequential,
                                         auto_fill_acceptance(model));
       }

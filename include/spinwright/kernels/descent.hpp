@@ -114,7 +114,8 @@ class Descender {
     while (!done_ && !guard.should_stop(passes_ - first, limit, static_cast<double>(state_.energy()), why)) {
       if (pass() != 0) notify_improvement(observer, passes_, static_cast<double>(state_.energy()));
     }
-    if (done_ && budget.has_target && static_cast<double>(state_.energy()) <= budget.target) why = StopReason::target_reached;
+    if (done_ && budget.has_target && static_cast<double>(state_.energy()) <= budget.target)
+      why = StopReason::target_reached;
     if (seconds != nullptr) *seconds = guard.elapsed();
     return why;
   }

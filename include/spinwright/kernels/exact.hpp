@@ -184,7 +184,8 @@ Result<ExactPlan> exact_plan(const Model& model, const ExactParams& params) {
     if (params.flip_symmetry && n > 0) {
       bool field_free = true;
       for (std::size_t i = 0; i < n; ++i) {
-        field_free = field_free && model.site_term(static_cast<typename Model::index_type>(i)) == typename Model::value_type{0};
+        field_free =
+            field_free && model.site_term(static_cast<typename Model::index_type>(i)) == typename Model::value_type{0};
       }
       plan.symmetric = field_free;
     }
@@ -257,8 +258,8 @@ ExactResult<typename Model::energy_type> exact_finish(const Model& model, const 
 }  // namespace detail
 
 /// Exact enumeration on the calling thread. Returns size_limit beyond the limits above,
-/// invalid_argument for levels == 0 or a negative tolerance, stopped when params.stop ended it. Allocates O(N + levels) at start.
-/// Model: any sparse or dense model (Ising or QUBO, every value type).
+/// invalid_argument for levels == 0 or a negative tolerance, stopped when params.stop ended it. Allocates O(N + levels)
+/// at start. Model: any sparse or dense model (Ising or QUBO, every value type).
 template <class Model>
 Result<ExactResult<typename Model::energy_type>> solve_exact(const Model& model, const ExactParams& params = {}) {
   using energy_type = typename Model::energy_type;

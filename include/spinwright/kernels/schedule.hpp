@@ -12,9 +12,9 @@
 //    beta * delta < -log(u), u uniform in (0, 1]; heat-bath accepts when
 //    beta * delta < log(1/u - 1). Before the logarithm, the bound
 //    exp(x) >= 1 + x + x^2/2 + x^3/6 (x >= 0) settles most draws by a multiplication, with
-//    a margin that keeps each decision identical to the exact comparison. When |beta * delta| exceeds 53 ln 2 the outcome is decided
-//    without a draw: no u of 53 bits could change it (u >= 2^-53). The decision to draw
-//    depends only on (beta, delta), so a seed fully determines a run.
+//    a margin that keeps each decision identical to the exact comparison. When |beta * delta| exceeds 53 ln 2 the
+//    outcome is decided without a draw: no u of 53 bits could change it (u >= 2^-53). The decision to draw depends only
+//    on (beta, delta), so a seed fully determines a run.
 //  * integer models, cold sweeps (the hazard path, kernels/hazard_sweep.hpp): one
 //    exponential draw E = -ln(u) serves a whole run of rejections. Attempt t, accepted with
 //    probability p_t, has hazard h_t = -ln(1 - p_t); the first attempt at which the summed
@@ -91,8 +91,10 @@ struct Schedule {
       case ScheduleShape::geometric:
         if (beta_start <= 0 || beta_end <= 0) return beta_start + (beta_end - beta_start) * fraction;
         return beta_start * std::pow(beta_end / beta_start, fraction);
-      case ScheduleShape::linear: return beta_start + (beta_end - beta_start) * fraction;
-      case ScheduleShape::callable: return function(fraction, context);
+      case ScheduleShape::linear:
+        return beta_start + (beta_end - beta_start) * fraction;
+      case ScheduleShape::callable:
+        return function(fraction, context);
     }
     return beta_end;
   }
@@ -194,7 +196,8 @@ std::uint64_t max_flip_delta(const Model& model) {
   for (std::size_t i = 0; i < model.num_spins(); ++i) {
     const auto ii = static_cast<index_type>(i);
     std::uint64_t s = magnitude_u64(model.site_term(ii));
-    model.for_each_neighbour(ii, [&s](index_type, value_type v) { add_bounded(s, magnitude_u64(v), integer_energy_limit); });
+    model.for_each_neighbour(
+        ii, [&s](index_type, value_type v) { add_bounded(s, magnitude_u64(v), integer_energy_limit); });
     if (s > best) best = s;
   }
   return Model::form == Form::ising ? 2 * best : best;
@@ -292,7 +295,7 @@ class Acceptor {
       const double step = static_cast<double>(std::uint64_t{1} << shift_);
       const double p = std::exp(-beta * step);  // acceptance ratio of one table step
       const std::size_t size = table_.size();
-      double pk = 1;                             // p^k
+      double pk = 1;  // p^k
       std::size_t k = 0;
       for (; k < size; ++k) {
         const double prob = rule_ == Acceptance::metropolis ? pk : pk / (1 + pk);
@@ -327,8 +330,9 @@ class Acceptor {
           return accept_rare<Rule>(beta, static_cast<double>(delta), rng);
         } else {
           if (delta == 0) return rng.coin();
-          const std::uint64_t k = (delta < 0 ? std::uint64_t{0} - static_cast<std::uint64_t>(delta)
-                                             : static_cast<std::uint64_t>(delta)) >> shift;
+          const std::uint64_t k =
+              (delta < 0 ? std::uint64_t{0} - static_cast<std::uint64_t>(delta) : static_cast<std::uint64_t>(delta)) >>
+              shift;
           if (k < used) {
             const std::uint64_t u = rng.next() >> 11;
             return delta > 0 ? u < table[k] : u >= table[k];
@@ -530,20 +534,20 @@ class Acceptor {
   Acceptance rule_ = Acceptance::metropolis;
   unsigned shift_ = 0;
   double beta_ = 0;
-  detail::Buffer<std::uint64_t> table_;  // integer models: 2^53 * acceptance of delta = k << shift
+  detail::Buffer<std::uint64_t> table_;   // integer models: 2^53 * acceptance of delta = k << shift
   detail::Buffer<std::uint64_t> hazard_;  // integer Metropolis: 2^52 * -ln(1 - acceptance), on demand
-  std::size_t used_ = 0;              // entries [0, used_) are non-zero
-  bool overflow_ = false;             // the table was too short for this beta
-  bool hazard_ready_ = false;         // hazard_ matches beta_
+  std::size_t used_ = 0;                  // entries [0, used_) are non-zero
+  bool overflow_ = false;                 // the table was too short for this beta
+  bool hazard_ready_ = false;             // hazard_ matches beta_
 };
 
 #if !SPINWRIGHT_NO_HEAP
 // The acceptor suited to a model (integer models get the threshold table; `hazard` adds the
 // hazard table for integer Metropolis).
 template <class Model>
-Acceptor<typename Model::energy_type> make_acceptor(const Model& model, Acceptance rule,
-                                                    std::size_t table_limit = Acceptor<typename Model::energy_type>::default_table_limit,
-                                                    bool hazard = false) {
+Acceptor<typename Model::energy_type> make_acceptor(
+    const Model& model, Acceptance rule,
+    std::size_t table_limit = Acceptor<typename Model::energy_type>::default_table_limit, bool hazard = false) {
   using energy_type = typename Model::energy_type;
   if constexpr (std::is_integral_v<energy_type>) {
     return Acceptor<energy_type>(rule, detail::delta_shift(model), detail::max_flip_delta(model), table_limit, hazard);
@@ -555,11 +559,12 @@ Acceptor<typename Model::energy_type> make_acceptor(const Model& model, Acceptan
 
 // The same with the tables carved from an arena; check valid().
 template <class Model>
-Acceptor<typename Model::energy_type> make_acceptor(const Model& model, Acceptance rule, std::size_t table_limit, Arena& arena,
-                                                    bool hazard = false) {
+Acceptor<typename Model::energy_type> make_acceptor(const Model& model, Acceptance rule, std::size_t table_limit,
+                                                    Arena& arena, bool hazard = false) {
   using energy_type = typename Model::energy_type;
   if constexpr (std::is_integral_v<energy_type>) {
-    return Acceptor<energy_type>(rule, detail::delta_shift(model), detail::max_flip_delta(model), table_limit, arena, hazard);
+    return Acceptor<energy_type>(rule, detail::delta_shift(model), detail::max_flip_delta(model), table_limit, arena,
+                                 hazard);
   } else {
     return Acceptor<energy_type>(rule, 0, 0, table_limit, arena);
   }
@@ -570,7 +575,8 @@ template <class Model>
 std::size_t acceptor_bytes(const Model& model, Acceptance rule, std::size_t table_limit, bool hazard = false) {
   using energy_type = typename Model::energy_type;
   if constexpr (std::is_integral_v<energy_type>) {
-    return Acceptor<energy_type>::bytes_needed(rule, detail::delta_shift(model), detail::max_flip_delta(model), table_limit, hazard);
+    return Acceptor<energy_type>::bytes_needed(rule, detail::delta_shift(model), detail::max_flip_delta(model),
+                                               table_limit, hazard);
   } else {
     return 0;
   }

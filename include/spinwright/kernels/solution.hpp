@@ -30,7 +30,7 @@ struct Solution {
   std::uint64_t accepted = 0;      // accepted moves
   double seconds = 0;              // elapsed on the run's clock (0 without a clock)
   StopReason reason = StopReason::budget_exhausted;
-  std::uint64_t restart = 0;       // restart index r of (seed, r)
+  std::uint64_t restart = 0;  // restart index r of (seed, r)
 
   // The bits of the best state, x = (1 - s) / 2.
   std::vector<std::uint8_t> bits() const {

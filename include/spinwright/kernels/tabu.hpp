@@ -18,8 +18,8 @@
 // O((deg(i) + 1) log N); when that exceeds the cost of rebuilding both trees bottom-up (O(N), as on
 // dense models) the trees are rebuilt instead. Spins sit on the leaves in a random order drawn
 // afresh at every cycle (start and perturbation), so ties between equal deltas (frequent with
-// small integer weights) are broken at random rather than always towards low indices. Releasing a spin from the tabu list (at most one per
-// move: the list is a FIFO of flip times) is two leaf updates, O(log N). A move therefore costs
+// small integer weights) are broken at random rather than always towards low indices. Releasing a spin from the tabu
+// list (at most one per move: the list is a FIFO of flip times) is two leaf updates, O(log N). A move therefore costs
 // O(min((deg + 1) log N, N)) on top of SpinState::flip's O(deg).
 //
 // One sweep is N moves (so a Budget's sweeps mean the same amount of flipping as for annealing).
@@ -37,22 +37,22 @@
 #include "../state/spin_state.hpp"
 #include "solution.hpp"
 
-#include <cstddef>   // std::size_t
-#include <cstdint>   // std::int8_t, std::uint32_t, std::uint64_t
-#include <cstring>   // std::memcpy
-#include <limits>    // std::numeric_limits
-#include <vector>    // std::vector (allocated at construction only)
+#include <cstddef>  // std::size_t
+#include <cstdint>  // std::int8_t, std::uint32_t, std::uint64_t
+#include <cstring>  // std::memcpy
+#include <limits>   // std::numeric_limits
+#include <vector>   // std::vector (allocated at construction only)
 
 namespace spinwright {
 
 struct TabuParams {
-  std::uint64_t sweeps = 1000;          // default budget of run(): sweeps of N moves each
-  std::size_t tenure = 0;               // 0: automatic, max(N / 10, min(N / 4, 10)), at least 1
-  std::size_t tenure_spread = 0;        // random extra tenure per cycle in [0, spread]; 0: automatic tenure / 2
-  std::uint64_t stagnation = 0;         // moves without a new best before a perturbation; 0: max(1000, 20 N)
-  double perturb_fraction = 0.1;        // fraction of spins flipped at a perturbation (at least 1 spin)
-  const std::int8_t* initial = nullptr; // warm start (n spins); random spins otherwise
-  std::uint64_t progress_every = 0;     // observers' on_progress period in sweeps (0: never)
+  std::uint64_t sweeps = 1000;           // default budget of run(): sweeps of N moves each
+  std::size_t tenure = 0;                // 0: automatic, max(N / 10, min(N / 4, 10)), at least 1
+  std::size_t tenure_spread = 0;         // random extra tenure per cycle in [0, spread]; 0: automatic tenure / 2
+  std::uint64_t stagnation = 0;          // moves without a new best before a perturbation; 0: max(1000, 20 N)
+  double perturb_fraction = 0.1;         // fraction of spins flipped at a perturbation (at least 1 spin)
+  const std::int8_t* initial = nullptr;  // warm start (n spins); random spins otherwise
+  std::uint64_t progress_every = 0;      // observers' on_progress period in sweeps (0: never)
 };
 
 namespace detail {
@@ -394,7 +394,7 @@ class TabuWalker {
   std::vector<index_type> order_;
   std::vector<std::uint32_t> leaf_of_;  // spin -> leaf of the trees
   std::vector<index_type> spin_at_;     // leaf -> spin (padding leaves hold 0 and +inf keys)
-  std::vector<index_type> ring_spin_;      // FIFO of flipped spins and their move numbers
+  std::vector<index_type> ring_spin_;   // FIFO of flipped spins and their move numbers
   std::vector<std::uint64_t> ring_stamp_;
   std::size_t ring_head_ = 0;
   std::size_t ring_size_ = 0;
@@ -419,7 +419,7 @@ class TabuWalker {
 /// One tabu search run (restart `restart` of `seed`).
 template <class Model>
 Solution<typename Model::energy_type> tabu_walk(const Model& model, const TabuParams& params, std::uint64_t seed,
-                                                  std::uint64_t restart = 0, const Budget& budget = Budget{}) {
+                                                std::uint64_t restart = 0, const Budget& budget = Budget{}) {
   TabuWalker<Model> t(model, params, seed, restart);
   return t.run(budget);
 }
@@ -427,7 +427,7 @@ Solution<typename Model::energy_type> tabu_walk(const Model& model, const TabuPa
 /// The same with an observer (on_improvement / on_progress, see control/control.hpp).
 template <class Model, class Observer>
 Solution<typename Model::energy_type> tabu_walk(const Model& model, const TabuParams& params, std::uint64_t seed,
-                                                  std::uint64_t restart, const Budget& budget, Observer& observer) {
+                                                std::uint64_t restart, const Budget& budget, Observer& observer) {
   TabuWalker<Model> t(model, params, seed, restart);
   return t.run(budget, observer);
 }

@@ -4,9 +4,9 @@
 // Method: K. Hukushima, K. Nemoto, "Exchange Monte Carlo method and application to spin glass
 // simulations", J. Phys. Soc. Jpn. 65, 1604-1608 (1996). One replica per rung of a ladder of
 // inverse temperatures beta_0 < ... < beta_{T-1}; one sweep = one Metropolis sweep (N sites drawn
-// at random by default, or in index order) on every replica, then a swap attempt between every neighbouring pair of rungs
-// (k, k+1) in increasing k, accepted with probability min(1, exp((beta_k - beta_{k+1}) (E_k - E_{k+1}))).
-// Swaps exchange which replica sits on which rung; no spins are copied.
+// at random by default, or in index order) on every replica, then a swap attempt between every neighbouring pair of
+// rungs (k, k+1) in increasing k, accepted with probability min(1, exp((beta_k - beta_{k+1}) (E_k - E_{k+1}))). Swaps
+// exchange which replica sits on which rung; no spins are copied.
 //
 // Ladder: geometric (default) or linear between beta_min and beta_max, or a user list.
 // beta_min / beta_max default to the automatic range of the annealing kernels (estimate_beta_span:
@@ -71,15 +71,15 @@ struct Ladder {
 };
 
 struct TemperParams {
-  std::uint64_t sweeps = 1000;            // default budget of run() (a Budget's sweeps override it)
+  std::uint64_t sweeps = 1000;  // default budget of run() (a Budget's sweeps override it)
   Ladder ladder{};
-  SiteOrder order = SiteOrder::random;    // sites of a Metropolis sweep (sequential order moves
-                                          // zero-cost domain walls in lockstep, e.g. on cycles)
-  bool houdayer = false;                  // two replicas per rung and cluster moves between them
-  double houdayer_beta_max = 0;           // cluster moves on rungs with beta <= this (0: every rung)
-  const std::int8_t* initial = nullptr;   // warm start for every replica (n spins); random otherwise
-  std::uint64_t progress_every = 0;       // observers' on_progress period in sweeps (0: never)
-  std::size_t table_limit = 4096;         // entries of each integer acceptance table
+  SiteOrder order = SiteOrder::random;   // sites of a Metropolis sweep (sequential order moves
+                                         // zero-cost domain walls in lockstep, e.g. on cycles)
+  bool houdayer = false;                 // two replicas per rung and cluster moves between them
+  double houdayer_beta_max = 0;          // cluster moves on rungs with beta <= this (0: every rung)
+  const std::int8_t* initial = nullptr;  // warm start for every replica (n spins); random otherwise
+  std::uint64_t progress_every = 0;      // observers' on_progress period in sweeps (0: never)
+  std::size_t table_limit = 4096;        // entries of each integer acceptance table
   // Integer models: a replica's sweep takes the hazard path (kernels/hazard_sweep.hpp) on the
   // same rule as annealing (AnnealParams::hazard_below: the replica's previous sweep accepted
   // less than this fraction, and the table is cheap to fill); 0 disables it, > 1 forces it.
@@ -91,10 +91,10 @@ struct TemperParams {
 template <class Energy>
 struct TemperSolution : Solution<Energy> {
   std::vector<double> betas;
-  std::vector<double> swap_acceptance;    // size T - 1 (both replica sets pooled with Houdayer moves)
-  std::uint64_t swap_attempts = 0;        // per pair, since the last ladder change
-  std::uint64_t cluster_moves = 0;        // Houdayer moves made
-  std::uint64_t cluster_sites = 0;        // sites flipped by them (in each replica)
+  std::vector<double> swap_acceptance;  // size T - 1 (both replica sets pooled with Houdayer moves)
+  std::uint64_t swap_attempts = 0;      // per pair, since the last ladder change
+  std::uint64_t cluster_moves = 0;      // Houdayer moves made
+  std::uint64_t cluster_sites = 0;      // sites flipped by them (in each replica)
 };
 
 template <class Model>
@@ -207,7 +207,9 @@ class Tempering {
     return run(budget, none);
   }
 
-  BestView<energy_type> best() const noexcept { return {best_spins_.data(), best_spins_.size(), best_energy_, best_sweep_}; }
+  BestView<energy_type> best() const noexcept {
+    return {best_spins_.data(), best_spins_.size(), best_energy_, best_sweep_};
+  }
 
   /// The best state, the ladder and the swap acceptances (allocates). The energy is recomputed
   /// from the model.
@@ -251,7 +253,9 @@ class Tempering {
   double beta(std::size_t k) const noexcept { return betas_[k]; }
   const std::vector<double>& betas() const noexcept { return betas_; }
   /// The replica on rung k of replica set `set` (0, or 1 with Houdayer moves).
-  const state_type& state(std::size_t k, std::size_t set = 0) const noexcept { return replicas_[slot_[set * temps_ + k]]; }
+  const state_type& state(std::size_t k, std::size_t set = 0) const noexcept {
+    return replicas_[slot_[set * temps_ + k]];
+  }
   /// The replica on the coldest rung.
   const state_type& state() const noexcept { return state(temps_ - 1); }
   const Model& model() const noexcept { return *model_; }
@@ -261,7 +265,7 @@ class Tempering {
  private:
   void start() {
     for (auto& a : acceptors_) a.retune(*model_);  // honour in-place coefficient edits (no allocation)
-    slot_.resize(temps_ * sets_);  // no-op after construction (same size)
+    slot_.resize(temps_ * sets_);                  // no-op after construction (same size)
     for (std::size_t s = 0; s < sets_; ++s)
       for (std::size_t k = 0; k < temps_; ++k) slot_[s * temps_ + k] = s * temps_ + k;
     for (std::size_t k = 0; k + 1 < temps_; ++k) swap_tried_[k] = swap_done_[k] = 0;
@@ -354,8 +358,8 @@ class Tempering {
   void swaps(std::size_t set, Xoshiro256& rng) {
     std::size_t* slot = slot_.data() + set * temps_;
     for (std::size_t k = 0; k + 1 < temps_; ++k) {
-      const double x = (betas_[k] - betas_[k + 1]) *
-                       (static_cast<double>(replicas_[slot[k]].energy()) - static_cast<double>(replicas_[slot[k + 1]].energy()));
+      const double x = (betas_[k] - betas_[k + 1]) * (static_cast<double>(replicas_[slot[k]].energy()) -
+                                                      static_cast<double>(replicas_[slot[k + 1]].energy()));
       ++swap_tried_[k];
       if (x >= 0 || rng.uniform() < std::exp(x)) {
         const std::size_t tmp = slot[k];

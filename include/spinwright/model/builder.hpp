@@ -64,7 +64,9 @@ class TermBuilder {
   // Fixed size: indices >= num_spins are refused.
   explicit TermBuilder(std::uint64_t num_spins) : fixed_(true), n_(num_spins) {
     if (num_spins > max_spins_v<Index>) {
-      fail(Status::error(StatusCode::index_out_of_range, "declared size exceeds what the index type can address (uint16_t: 65535 spins, uint32_t: 4294967295); use a wider Index"));
+      fail(Status::error(StatusCode::index_out_of_range,
+                         "declared size exceeds what the index type can address (uint16_t: 65535 spins, uint32_t: "
+                         "4294967295); use a wider Index"));
     }
   }
 
@@ -92,7 +94,10 @@ class TermBuilder {
     if (i == j) {
       if constexpr (F == Form::ising) {
         if (!checked_add(offset_, static_cast<energy_type>(v))) {
-          fail(Status::error(StatusCode::energy_overflow, "the offsets summed so far overflow the accumulator (int64_t for integer values, double otherwise); use smaller offsets").at_term(t, i, j));
+          fail(Status::error(StatusCode::energy_overflow,
+                             "the offsets summed so far overflow the accumulator (int64_t for integer values, double "
+                             "otherwise); use smaller offsets")
+                   .at_term(t, i, j));
         }
       } else {
         linears_.push_back({static_cast<Index>(i), static_cast<Index>(i), v});
@@ -107,11 +112,15 @@ class TermBuilder {
     const std::uint64_t t = terms_++;
     if (!status_.ok()) return;
     if (!is_finite(c)) {
-      fail(Status::error(StatusCode::non_finite_value, "offset is NaN or infinite; only finite values are allowed").at_term(t, 0, 0));
+      fail(Status::error(StatusCode::non_finite_value, "offset is NaN or infinite; only finite values are allowed")
+               .at_term(t, 0, 0));
       return;
     }
     if (!checked_add(offset_, c)) {
-      fail(Status::error(StatusCode::energy_overflow, "the offsets summed so far overflow the accumulator (int64_t for integer values, double otherwise); use smaller offsets").at_term(t, 0, 0));
+      fail(Status::error(StatusCode::energy_overflow,
+                         "the offsets summed so far overflow the accumulator (int64_t for integer values, double "
+                         "otherwise); use smaller offsets")
+               .at_term(t, 0, 0));
     }
   }
 
@@ -123,22 +132,27 @@ class TermBuilder {
     std::vector<energy_type> lin(n, energy_type{0});
     for (const auto& term : linears_) {
       if (!checked_add(lin[term.i], static_cast<energy_type>(term.v))) {
-        return Status::error(StatusCode::value_out_of_range, "the site terms given for this spin sum beyond the accumulator (int64_t or double); use smaller terms").at_term(no_term, term.i, term.i);
+        return Status::error(StatusCode::value_out_of_range,
+                             "the site terms given for this spin sum beyond the accumulator (int64_t or double); use "
+                             "smaller terms")
+            .at_term(no_term, term.i, term.i);
       }
     }
     std::vector<Value> linear(n);
     for (std::size_t i = 0; i < n; ++i) {
       if (!fits_value<Value>(lin[i])) {
-        return Status::error(StatusCode::value_out_of_range, "the site terms given for this spin sum to a value outside the value type; use a wider Value (int64_t, double) or smaller terms").at_term(no_term, i, i);
+        return Status::error(StatusCode::value_out_of_range,
+                             "the site terms given for this spin sum to a value outside the value type; use a wider "
+                             "Value (int64_t, double) or smaller terms")
+            .at_term(no_term, i, i);
       }
       linear[i] = static_cast<Value>(lin[i]);
     }
 
     // Pairs: sort by (i, j), merge duplicates in the wide type, drop exact zeros.
     std::vector<Triple> sorted = pairs_;
-    std::stable_sort(sorted.begin(), sorted.end(), [](const Triple& a, const Triple& b) {
-      return a.i != b.i ? a.i < b.i : a.j < b.j;
-    });
+    std::stable_sort(sorted.begin(), sorted.end(),
+                     [](const Triple& a, const Triple& b) { return a.i != b.i ? a.i < b.i : a.j < b.j; });
     std::vector<Triple> merged;
     merged.reserve(sorted.size());
     for (std::size_t k = 0; k < sorted.size();) {
@@ -146,12 +160,18 @@ class TermBuilder {
       energy_type sum{0};
       while (e < sorted.size() && sorted[e].i == sorted[k].i && sorted[e].j == sorted[k].j) {
         if (!checked_add(sum, static_cast<energy_type>(sorted[e].v))) {
-          return Status::error(StatusCode::value_out_of_range, "the terms given for this pair sum beyond the accumulator (int64_t or double); use smaller terms").at_term(no_term, sorted[k].i, sorted[k].j);
+          return Status::error(
+                     StatusCode::value_out_of_range,
+                     "the terms given for this pair sum beyond the accumulator (int64_t or double); use smaller terms")
+              .at_term(no_term, sorted[k].i, sorted[k].j);
         }
         ++e;
       }
       if (!fits_value<Value>(sum)) {
-        return Status::error(StatusCode::value_out_of_range, "the terms given for this pair sum to a value outside the value type; use a wider Value (int64_t, double) or smaller terms").at_term(no_term, sorted[k].i, sorted[k].j);
+        return Status::error(StatusCode::value_out_of_range,
+                             "the terms given for this pair sum to a value outside the value type; use a wider Value "
+                             "(int64_t, double) or smaller terms")
+            .at_term(no_term, sorted[k].i, sorted[k].j);
       }
       if (static_cast<Value>(sum) != Value{0}) merged.push_back({sorted[k].i, sorted[k].j, static_cast<Value>(sum)});
       k = e;
@@ -202,11 +222,17 @@ class TermBuilder {
 
   bool check_index(std::uint64_t t, std::uint64_t i, std::uint64_t other) {
     if (i >= max_spins_v<Index>) {
-      fail(Status::error(StatusCode::index_out_of_range, "spin index too large for the index type (uint16_t allows 0 .. 65534, uint32_t 0 .. 4294967294); use a wider Index").at_term(t, i, other));
+      fail(Status::error(StatusCode::index_out_of_range,
+                         "spin index too large for the index type (uint16_t allows 0 .. 65534, uint32_t 0 .. "
+                         "4294967294); use a wider Index")
+               .at_term(t, i, other));
       return false;
     }
     if (fixed_ && i >= n_) {
-      fail(Status::error(StatusCode::index_out_of_range, "spin index not below the size declared to the builder (valid: 0 .. size - 1); declare a larger size or let the builder grow").at_term(t, i, other));
+      fail(Status::error(StatusCode::index_out_of_range,
+                         "spin index not below the size declared to the builder (valid: 0 .. size - 1); declare a "
+                         "larger size or let the builder grow")
+               .at_term(t, i, other));
       return false;
     }
     if (!fixed_ && i + 1 > n_) n_ = i + 1;
@@ -215,7 +241,8 @@ class TermBuilder {
 
   bool check_value(std::uint64_t t, std::uint64_t i, std::uint64_t j, Value v) {
     if (!is_finite(v)) {
-      fail(Status::error(StatusCode::non_finite_value, "coefficient is NaN or infinite; only finite values are allowed").at_term(t, i, j));
+      fail(Status::error(StatusCode::non_finite_value, "coefficient is NaN or infinite; only finite values are allowed")
+               .at_term(t, i, j));
       return false;
     }
     return true;

@@ -91,7 +91,8 @@ Result<QuboModel<Value, Index>> qubo_from(const IsingModel<Value, Index>& m) {
     }
   }
   if (!fits) {
-    return Status::error(StatusCode::value_out_of_range, "QUBO coefficients of this Ising model do not fit the value type");
+    return Status::error(StatusCode::value_out_of_range,
+                         "QUBO coefficients of this Ising model do not fit the value type");
   }
   b.add_offset(c);
   return b.build();

@@ -75,12 +75,18 @@ class DenseModel {
   energy_type offset() const noexcept { return offset_; }
   Value site_term(index_type i) const noexcept { return linear_[i]; }
   template <Form G = F, std::enable_if_t<G == Form::ising, int> = 0>
-  Value field(index_type i) const noexcept { return linear_[i]; }
+  Value field(index_type i) const noexcept {
+    return linear_[i];
+  }
   template <Form G = F, std::enable_if_t<G == Form::qubo, int> = 0>
-  Value unary(index_type i) const noexcept { return linear_[i]; }
+  Value unary(index_type i) const noexcept {
+    return linear_[i];
+  }
   Value pair(index_type i, index_type j) const noexcept { return matrix_[static_cast<std::size_t>(i) * n_ + j]; }
   template <Form G = F, std::enable_if_t<G == Form::ising, int> = 0>
-  Value coupling(index_type i, index_type j) const noexcept { return pair(i, j); }
+  Value coupling(index_type i, index_type j) const noexcept {
+    return pair(i, j);
+  }
   std::size_t degree(index_type) const noexcept { return n_ == 0 ? 0 : n_ - 1; }
 
   // Row i of the matrix (entry i is the zero diagonal).
@@ -146,8 +152,14 @@ class DenseModel {
   double energy_bound() const noexcept { return range_.bound(); }
 
   Status set_site_term(index_type i, Value v) noexcept {
-    if (i >= n_) return Status::error(StatusCode::index_out_of_range, "edit of a site term at an index >= num_spins() (valid: 0 .. num_spins() - 1)").at_term(no_term, i, i);
-    if (!detail::is_finite(v)) return Status::error(StatusCode::non_finite_value, "edited value is NaN or infinite; only finite values are allowed").at_term(no_term, i, i);
+    if (i >= n_)
+      return Status::error(StatusCode::index_out_of_range,
+                           "edit of a site term at an index >= num_spins() (valid: 0 .. num_spins() - 1)")
+          .at_term(no_term, i, i);
+    if (!detail::is_finite(v))
+      return Status::error(StatusCode::non_finite_value,
+                           "edited value is NaN or infinite; only finite values are allowed")
+          .at_term(no_term, i, i);
     const Status st = rebound(linear_[i], v);
     if (!st) return Status(st).at_term(no_term, i, i);
     linear_[i] = v;
@@ -155,9 +167,16 @@ class DenseModel {
   }
 
   Status set_pair(index_type i, index_type j, Value v) noexcept {
-    if (i >= n_ || j >= n_) return Status::error(StatusCode::index_out_of_range, "edit of a pair with an index >= num_spins() (valid: 0 .. num_spins() - 1)").at_term(no_term, i, j);
-    if (i == j) return Status::error(StatusCode::invalid_argument, "a pair needs two different indices").at_term(no_term, i, j);
-    if (!detail::is_finite(v)) return Status::error(StatusCode::non_finite_value, "edited value is NaN or infinite; only finite values are allowed").at_term(no_term, i, j);
+    if (i >= n_ || j >= n_)
+      return Status::error(StatusCode::index_out_of_range,
+                           "edit of a pair with an index >= num_spins() (valid: 0 .. num_spins() - 1)")
+          .at_term(no_term, i, j);
+    if (i == j)
+      return Status::error(StatusCode::invalid_argument, "a pair needs two different indices").at_term(no_term, i, j);
+    if (!detail::is_finite(v))
+      return Status::error(StatusCode::non_finite_value,
+                           "edited value is NaN or infinite; only finite values are allowed")
+          .at_term(no_term, i, j);
     const Status st = rebound(matrix_[static_cast<std::size_t>(i) * n_ + j], v);
     if (!st) return Status(st).at_term(no_term, i, j);
     matrix_[static_cast<std::size_t>(i) * n_ + j] = v;
@@ -166,8 +185,10 @@ class DenseModel {
   }
 
   Status set_offset(energy_type c) noexcept {
-    if (!detail::is_finite(c)) return Status::error(StatusCode::non_finite_value, "offset is NaN or infinite; only finite values are allowed");
-    if (!range_.replace(offset_, c)) return Status::error(StatusCode::energy_overflow, detail::range_message<Value>(true));
+    if (!detail::is_finite(c))
+      return Status::error(StatusCode::non_finite_value, "offset is NaN or infinite; only finite values are allowed");
+    if (!range_.replace(offset_, c))
+      return Status::error(StatusCode::energy_overflow, detail::range_message<Value>(true));
     offset_ = c;
     return Status::success();
   }

@@ -18,13 +18,11 @@ namespace spinwright {
 enum class Form : std::uint8_t { ising, qubo };
 
 template <class Value>
-inline constexpr bool is_value_type_v =
-    std::is_same_v<Value, double> || std::is_same_v<Value, float> ||
-    std::is_same_v<Value, std::int32_t> || std::is_same_v<Value, std::int64_t>;
+inline constexpr bool is_value_type_v = std::is_same_v<Value, double> || std::is_same_v<Value, float> ||
+                                        std::is_same_v<Value, std::int32_t> || std::is_same_v<Value, std::int64_t>;
 
 template <class Index>
-inline constexpr bool is_index_type_v =
-    std::is_same_v<Index, std::uint16_t> || std::is_same_v<Index, std::uint32_t>;
+inline constexpr bool is_index_type_v = std::is_same_v<Index, std::uint16_t> || std::is_same_v<Index, std::uint32_t>;
 
 // Energies, local fields and offsets accumulate in a wide type: int64_t for integer models,
 // double for floating ones.
@@ -157,8 +155,10 @@ class EnergyRange {
 template <class Value>
 constexpr const char* range_message(bool offset) noexcept {
   if constexpr (std::is_integral_v<Value>) {
-    return offset ? "offset would let the energy range (|offset| + sum of |coefficients|) pass 2^61 - 1 and overflow the 64-bit accumulator"
-                  : "edit would let the energy range (|offset| + sum of |coefficients|) pass 2^61 - 1 and overflow the 64-bit accumulator";
+    return offset ? "offset would let the energy range (|offset| + sum of |coefficients|) pass 2^61 - 1 and overflow "
+                    "the 64-bit accumulator"
+                  : "edit would let the energy range (|offset| + sum of |coefficients|) pass 2^61 - 1 and overflow the "
+                    "64-bit accumulator";
   } else {
     return offset ? "offset would let the energy range exceed DBL_MAX/4 (flip deltas could overflow)"
                   : "edit would let the energy range exceed DBL_MAX/4 (flip deltas could overflow)";
@@ -169,9 +169,11 @@ constexpr const char* range_message(bool offset) noexcept {
 template <class Value>
 constexpr const char* build_range_message() noexcept {
   if constexpr (std::is_integral_v<Value>) {
-    return "the energy range (|offset| + sum of |coefficients|) exceeds 2^61 - 1 and could overflow the 64-bit accumulator; scale the coefficients down or use a floating Value";
+    return "the energy range (|offset| + sum of |coefficients|) exceeds 2^61 - 1 and could overflow the 64-bit "
+           "accumulator; scale the coefficients down or use a floating Value";
   } else {
-    return "the energy range (|offset| + sum of |coefficients|) exceeds DBL_MAX/4, so flip deltas could overflow to infinity; scale the coefficients down";
+    return "the energy range (|offset| + sum of |coefficients|) exceeds DBL_MAX/4, so flip deltas could overflow to "
+           "infinity; scale the coefficients down";
   }
 }
 

@@ -25,7 +25,7 @@ struct ModelAccess;
 struct ModelSummary {
   std::size_t num_spins = 0;
   std::size_t num_pairs = 0;
-  std::size_t num_site_terms = 0;     // non-zero fields (Ising) or unary terms (QUBO)
+  std::size_t num_site_terms = 0;  // non-zero fields (Ising) or unary terms (QUBO)
   std::size_t min_degree = 0;
   std::size_t max_degree = 0;
   double largest_magnitude = 0;   // over non-zero linear and pair coefficients
@@ -57,17 +57,17 @@ class SparseModel {
     return linear_[i];
   }
   template <Form G = F, std::enable_if_t<G == Form::ising, int> = 0>
-  Value field(Index i) const noexcept { return site_term(i); }
+  Value field(Index i) const noexcept {
+    return site_term(i);
+  }
   template <Form G = F, std::enable_if_t<G == Form::qubo, int> = 0>
-  Value unary(Index i) const noexcept { return site_term(i); }
+  Value unary(Index i) const noexcept {
+    return site_term(i);
+  }
 
   std::size_t degree(Index i) const noexcept { return row_[i + 1] - row_[i]; }
-  Span<Index> neighbours(Index i) const noexcept {
-    return {neighbours_.data() + row_[i], degree(i)};
-  }
-  Span<Value> row_values(Index i) const noexcept {
-    return {values_.data() + row_[i], degree(i)};
-  }
+  Span<Index> neighbours(Index i) const noexcept { return {neighbours_.data() + row_[i], degree(i)}; }
+  Span<Value> row_values(Index i) const noexcept { return {values_.data() + row_[i], degree(i)}; }
 
   // Calls f(j, value) for every neighbour j of i, in increasing j.
   template <class Fn>
@@ -98,7 +98,9 @@ class SparseModel {
     return k == npos ? Value{0} : values_[k];
   }
   template <Form G = F, std::enable_if_t<G == Form::ising, int> = 0>
-  Value coupling(Index i, Index j) const noexcept { return pair(i, j); }
+  Value coupling(Index i, Index j) const noexcept {
+    return pair(i, j);
+  }
 
   // Energy of a spin assignment (+1/-1 per spin; for QUBO, x = (1 - s) / 2), offset included.
   energy_type energy(const std::int8_t* spins) const noexcept {
@@ -166,10 +168,14 @@ class SparseModel {
   // state/spin_state.hpp to keep a state's local fields exact through an edit.
   Status set_site_term(Index i, Value v) noexcept {
     if (i >= num_spins()) {
-      return Status::error(StatusCode::index_out_of_range, "edit of a site term at an index >= num_spins() (valid: 0 .. num_spins() - 1)").at_term(no_term, i, i);
+      return Status::error(StatusCode::index_out_of_range,
+                           "edit of a site term at an index >= num_spins() (valid: 0 .. num_spins() - 1)")
+          .at_term(no_term, i, i);
     }
     if (!detail::is_finite(v)) {
-      return Status::error(StatusCode::non_finite_value, "edited value is NaN or infinite; only finite values are allowed").at_term(no_term, i, i);
+      return Status::error(StatusCode::non_finite_value,
+                           "edited value is NaN or infinite; only finite values are allowed")
+          .at_term(no_term, i, i);
     }
     const Status st = rebound(linear_[i], v);
     if (!st) return Status(st).at_term(no_term, i, i);
@@ -179,14 +185,20 @@ class SparseModel {
 
   Status set_pair(Index i, Index j, Value v) noexcept {
     if (i >= num_spins() || j >= num_spins()) {
-      return Status::error(StatusCode::index_out_of_range, "edit of a pair with an index >= num_spins() (valid: 0 .. num_spins() - 1)").at_term(no_term, i, j);
+      return Status::error(StatusCode::index_out_of_range,
+                           "edit of a pair with an index >= num_spins() (valid: 0 .. num_spins() - 1)")
+          .at_term(no_term, i, j);
     }
     const std::size_t kij = find(i, j);
     if (kij == npos) {
-      return Status::error(StatusCode::missing_term, "edit of a pair the model does not have (the pattern is fixed at build)").at_term(no_term, i, j);
+      return Status::error(StatusCode::missing_term,
+                           "edit of a pair the model does not have (the pattern is fixed at build)")
+          .at_term(no_term, i, j);
     }
     if (!detail::is_finite(v)) {
-      return Status::error(StatusCode::non_finite_value, "edited value is NaN or infinite; only finite values are allowed").at_term(no_term, i, j);
+      return Status::error(StatusCode::non_finite_value,
+                           "edited value is NaN or infinite; only finite values are allowed")
+          .at_term(no_term, i, j);
     }
     const Status st = rebound(values_[kij], v);
     if (!st) return Status(st).at_term(no_term, i, j);
@@ -196,8 +208,10 @@ class SparseModel {
   }
 
   Status set_offset(energy_type c) noexcept {
-    if (!detail::is_finite(c)) return Status::error(StatusCode::non_finite_value, "offset is NaN or infinite; only finite values are allowed");
-    if (!range_.replace(offset_, c)) return Status::error(StatusCode::energy_overflow, detail::range_message<Value>(true));
+    if (!detail::is_finite(c))
+      return Status::error(StatusCode::non_finite_value, "offset is NaN or infinite; only finite values are allowed");
+    if (!range_.replace(offset_, c))
+      return Status::error(StatusCode::energy_overflow, detail::range_message<Value>(true));
     offset_ = c;
     return Status::success();
   }

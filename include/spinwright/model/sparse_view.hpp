@@ -39,7 +39,8 @@ class SparseModelView {
 
   static Result<SparseModelView> over(std::size_t n, const Value* linear, const std::size_t* row_starts,
                                       const Index* neighbours, const Value* values, energy_type offset = 0) noexcept {
-    if (n >= max_spins_v<Index>) return Status::error(StatusCode::index_out_of_range, "more spins than the index type can address");
+    if (n >= max_spins_v<Index>)
+      return Status::error(StatusCode::index_out_of_range, "more spins than the index type can address");
     if (row_starts == nullptr || (n > 0 && linear == nullptr)) {
       return Status::error(StatusCode::invalid_argument, "missing array (site terms or row starts)");
     }
@@ -64,18 +65,25 @@ class SparseModelView {
       fits = range.add(linear[i]) && fits;
       for (std::size_t k = row_starts[i]; k < row_starts[i + 1]; ++k) {
         const Index j = neighbours[k];
-        if (j >= n) return Status::error(StatusCode::index_out_of_range, "neighbour beyond the model").at_term(no_term, i, j);
-        if (j == i) return Status::error(StatusCode::invalid_argument, "self-pair in a row (fold it into the site term or offset)").at_term(no_term, i, j);
+        if (j >= n)
+          return Status::error(StatusCode::index_out_of_range, "neighbour beyond the model").at_term(no_term, i, j);
+        if (j == i)
+          return Status::error(StatusCode::invalid_argument,
+                               "self-pair in a row (fold it into the site term or offset)")
+              .at_term(no_term, i, j);
         if (k > row_starts[i] && neighbours[k - 1] >= j) {
-          return Status::error(StatusCode::invalid_argument, "row not sorted by neighbour, or a neighbour repeated").at_term(no_term, i, j);
+          return Status::error(StatusCode::invalid_argument, "row not sorted by neighbour, or a neighbour repeated")
+              .at_term(no_term, i, j);
         }
         if (!detail::is_finite(values[k])) {
           return Status::error(StatusCode::non_finite_value, "pair value is NaN or infinite").at_term(no_term, i, j);
         }
-        if (values[k] == Value{0}) return Status::error(StatusCode::invalid_argument, "stored pair value is zero").at_term(no_term, i, j);
+        if (values[k] == Value{0})
+          return Status::error(StatusCode::invalid_argument, "stored pair value is zero").at_term(no_term, i, j);
         const std::size_t back = v.find(j, static_cast<Index>(i));
         if (back == npos || values[back] != values[k]) {
-          return Status::error(StatusCode::invalid_argument, "pair not stored symmetrically (j, i) with the same value").at_term(no_term, i, j);
+          return Status::error(StatusCode::invalid_argument, "pair not stored symmetrically (j, i) with the same value")
+              .at_term(no_term, i, j);
         }
         if (j > i) fits = range.add(values[k]) && fits;
       }

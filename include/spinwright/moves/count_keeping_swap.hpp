@@ -22,10 +22,10 @@ class CountKeepingSwap {
   using index_type = typename Model::index_type;
   using energy_type = typename Model::energy_type;
   struct proposal_type {
-    index_type up;          // a site with spin +1
-    index_type down;        // a site with spin -1
-    std::uint32_t up_pos;   // its place in the +1 list
-    std::uint32_t down_pos; // its place in the -1 list
+    index_type up;           // a site with spin +1
+    index_type down;         // a site with spin -1
+    std::uint32_t up_pos;    // its place in the +1 list
+    std::uint32_t down_pos;  // its place in the -1 list
   };
 
   CountKeepingSwap() = default;
@@ -87,9 +87,7 @@ class CountKeepingSwap {
   }
 
   // Descent: every (+1, -1) pair, k = a * count_down + b.
-  std::size_t neighbourhood_size(const state_type&) const noexcept {
-    return static_cast<std::size_t>(n_up_) * n_down_;
-  }
+  std::size_t neighbourhood_size(const state_type&) const noexcept { return static_cast<std::size_t>(n_up_) * n_down_; }
   proposal_type proposal_at(const state_type&, std::size_t k) const noexcept {
     const auto a = static_cast<std::uint32_t>(k / n_down_);
     const auto b = static_cast<std::uint32_t>(k % n_down_);

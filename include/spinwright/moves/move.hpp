@@ -38,45 +38,56 @@ struct has_proposal_type<M, std::void_t<typename M::proposal_type>> : std::true_
 template <class M, class S, class = void>
 struct has_moves_per_sweep : std::false_type {};
 template <class M, class S>
-struct has_moves_per_sweep<M, S, std::void_t<decltype(std::declval<const M&>().moves_per_sweep(std::declval<const S&>()))>>
+struct has_moves_per_sweep<M, S,
+                           std::void_t<decltype(std::declval<const M&>().moves_per_sweep(std::declval<const S&>()))>>
     : std::is_convertible<decltype(std::declval<const M&>().moves_per_sweep(std::declval<const S&>())), std::size_t> {};
 
 template <class M, class S, class = void>
 struct has_propose : std::false_type {};
 template <class M, class S>
-struct has_propose<M, S, std::void_t<decltype(std::declval<M&>().propose(std::declval<const S&>(), std::declval<Xoshiro256&>()))>>
+struct has_propose<
+    M, S, std::void_t<decltype(std::declval<M&>().propose(std::declval<const S&>(), std::declval<Xoshiro256&>()))>>
     : std::is_convertible<decltype(std::declval<M&>().propose(std::declval<const S&>(), std::declval<Xoshiro256&>())),
                           typename M::proposal_type> {};
 
 template <class M, class S, class = void>
 struct has_move_delta : std::false_type {};
 template <class M, class S>
-struct has_move_delta<M, S, std::void_t<decltype(std::declval<const M&>().delta(std::declval<const S&>(), std::declval<const typename M::proposal_type&>()))>>
-    : std::is_convertible<decltype(std::declval<const M&>().delta(std::declval<const S&>(), std::declval<const typename M::proposal_type&>())),
+struct has_move_delta<M, S,
+                      std::void_t<decltype(std::declval<const M&>().delta(
+                          std::declval<const S&>(), std::declval<const typename M::proposal_type&>()))>>
+    : std::is_convertible<decltype(std::declval<const M&>().delta(std::declval<const S&>(),
+                                                                  std::declval<const typename M::proposal_type&>())),
                           typename S::energy_type> {};
 
 template <class M, class S, class = void>
 struct has_move_apply : std::false_type {};
 template <class M, class S>
-struct has_move_apply<M, S, std::void_t<decltype(std::declval<M&>().apply(std::declval<S&>(), std::declval<const typename M::proposal_type&>(),
-                                                                            std::declval<typename S::energy_type>()))>> : std::true_type {};
+struct has_move_apply<
+    M, S,
+    std::void_t<decltype(std::declval<M&>().apply(std::declval<S&>(), std::declval<const typename M::proposal_type&>(),
+                                                  std::declval<typename S::energy_type>()))>> : std::true_type {};
 
 template <class M, class S, class = void>
 struct has_prepare : std::false_type {};
 template <class M, class S>
-struct has_prepare<M, S, std::void_t<decltype(std::declval<M&>().prepare(std::declval<const S&>()))>> : std::true_type {};
+struct has_prepare<M, S, std::void_t<decltype(std::declval<M&>().prepare(std::declval<const S&>()))>> : std::true_type {
+};
 
 template <class M, class S, class = void>
 struct has_begin_sweep : std::false_type {};
 template <class M, class S>
-struct has_begin_sweep<M, S, std::void_t<decltype(std::declval<M&>().begin_sweep(std::declval<const S&>(), std::declval<Xoshiro256&>()))>>
+struct has_begin_sweep<
+    M, S, std::void_t<decltype(std::declval<M&>().begin_sweep(std::declval<const S&>(), std::declval<Xoshiro256&>()))>>
     : std::true_type {};
 
 template <class M, class S, class = void>
 struct has_neighbourhood : std::false_type {};
 template <class M, class S>
-struct has_neighbourhood<M, S, std::void_t<decltype(std::declval<const M&>().neighbourhood_size(std::declval<const S&>())),
-                                           decltype(std::declval<const M&>().proposal_at(std::declval<const S&>(), std::size_t{}))>>
+struct has_neighbourhood<
+    M, S,
+    std::void_t<decltype(std::declval<const M&>().neighbourhood_size(std::declval<const S&>())),
+                decltype(std::declval<const M&>().proposal_at(std::declval<const S&>(), std::size_t{}))>>
     : std::true_type {};
 
 template <class M, class S, bool = has_proposal_type<M>::value>

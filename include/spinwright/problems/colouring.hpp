@@ -34,10 +34,10 @@ struct Colouring {
 
 /// Whether a colouring is proper, and how far from it.
 struct ColouringReport {
-  bool valid = false;               // every vertex coloured with a colour < k and no conflict
-  std::uint64_t conflicts = 0;      // edges whose endpoints share a colour
-  std::uint64_t uncoloured = 0;     // vertices with no colour (or a colour >= k)
-  std::uint32_t colours_used = 0;   // distinct colours among the coloured vertices
+  bool valid = false;              // every vertex coloured with a colour < k and no conflict
+  std::uint64_t conflicts = 0;     // edges whose endpoints share a colour
+  std::uint64_t uncoloured = 0;    // vertices with no colour (or a colour >= k)
+  std::uint32_t colours_used = 0;  // distinct colours among the coloured vertices
 };
 
 template <class Value, class Index = std::uint32_t>
@@ -71,7 +71,7 @@ class ColouringProblem {
     for (std::size_t k = 0; k < edges.size(); ++k) {
       for (std::uint32_t c = 0; c < colours; ++c) {
         auto r = add_pairwise_exclusion(b, set, {edges[k].u * colours + c, edges[k].v * colours + c}, weight,
-                                 {"edge endpoints share a colour", k});
+                                        {"edge endpoints share a colour", k});
         if (!r) return r.status();
       }
     }

@@ -32,12 +32,18 @@ enum class ConstraintKind : std::uint8_t {
 
 inline constexpr const char* to_string(ConstraintKind kind) noexcept {
   switch (kind) {
-    case ConstraintKind::one_hot: return "one-hot";
-    case ConstraintKind::k_hot: return "k-hot";
-    case ConstraintKind::pairwise_exclusion: return "pairwise exclusion";
-    case ConstraintKind::pair_cover: return "pair cover";
-    case ConstraintKind::sum_equal: return "weighted sum equal to a bound";
-    case ConstraintKind::sum_at_most: return "weighted sum at most a bound";
+    case ConstraintKind::one_hot:
+      return "one-hot";
+    case ConstraintKind::k_hot:
+      return "k-hot";
+    case ConstraintKind::pairwise_exclusion:
+      return "pairwise exclusion";
+    case ConstraintKind::pair_cover:
+      return "pair cover";
+    case ConstraintKind::sum_equal:
+      return "weighted sum equal to a bound";
+    case ConstraintKind::sum_at_most:
+      return "weighted sum at most a bound";
   }
   return "unknown";
 }
@@ -87,9 +93,12 @@ struct Constraint {
   /// violated, because the data are integers.
   std::int64_t violation(std::int64_t lhs) const noexcept {
     switch (relation) {
-      case Relation::equal: return lhs >= bound ? lhs - bound : bound - lhs;
-      case Relation::at_most: return lhs > bound ? lhs - bound : 0;
-      case Relation::at_least: return lhs < bound ? bound - lhs : 0;
+      case Relation::equal:
+        return lhs >= bound ? lhs - bound : bound - lhs;
+      case Relation::at_most:
+        return lhs > bound ? lhs - bound : 0;
+      case Relation::at_least:
+        return lhs < bound ? bound - lhs : 0;
     }
     return 0;
   }

@@ -90,7 +90,8 @@ Status check_edges(std::uint64_t n, const EdgeList& edges) noexcept {
           .at_term(k, edges[k].u, edges[k].v);
     }
     if (edges[k].u == edges[k].v) {
-      return Status::error(StatusCode::invalid_argument, "self-loop edges are not accepted").at_term(k, edges[k].u, edges[k].v);
+      return Status::error(StatusCode::invalid_argument, "self-loop edges are not accepted")
+          .at_term(k, edges[k].u, edges[k].v);
     }
   }
   return Status::success();

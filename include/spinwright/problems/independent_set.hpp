@@ -59,17 +59,20 @@ class VertexSetProblem {
     if (!vertex_weights.empty() && vertex_weights.size() != num_vertices) {
       return Status::error(StatusCode::invalid_argument, "one weight per vertex (or none)");
     }
-    std::vector<Value> w = vertex_weights.empty() ? std::vector<Value>(static_cast<std::size_t>(num_vertices), Value{1}) : vertex_weights;
+    std::vector<Value> w =
+        vertex_weights.empty() ? std::vector<Value>(static_cast<std::size_t>(num_vertices), Value{1}) : vertex_weights;
     Value wmax{0};
     for (std::size_t v = 0; v < w.size(); ++v) {
       if (!(w[v] > Value{0}) || !detail::is_finite(w[v])) {
-        return Status::error(StatusCode::invalid_argument, "vertex weights must be positive and finite").at_term(no_term, v, v);
+        return Status::error(StatusCode::invalid_argument, "vertex weights must be positive and finite")
+            .at_term(no_term, v, v);
       }
       if (w[v] > wmax) wmax = w[v];
     }
     if (weight == Value{0}) {
       if constexpr (std::is_integral_v<Value>) {
-        if (wmax == std::numeric_limits<Value>::max()) return Status::error(StatusCode::value_out_of_range, "penalty weight does not fit the value type");
+        if (wmax == std::numeric_limits<Value>::max())
+          return Status::error(StatusCode::value_out_of_range, "penalty weight does not fit the value type");
         weight = static_cast<Value>(wmax + 1);
       } else {
         weight = static_cast<Value>(wmax == Value{0} ? Value{1} : 2 * wmax);
@@ -125,7 +128,8 @@ class VertexSetProblem {
       r.weight += static_cast<energy_type>(vertex_weights_[v]);
     }
     for (const auto& e : edges_) {
-      const bool bad = goal_ == VertexSetGoal::vertex_cover ? (in[e.u] == 0 && in[e.v] == 0) : (in[e.u] != 0 && in[e.v] != 0);
+      const bool bad =
+          goal_ == VertexSetGoal::vertex_cover ? (in[e.u] == 0 && in[e.v] == 0) : (in[e.u] != 0 && in[e.v] != 0);
       if (bad) ++r.violations;
     }
     r.valid = well_formed && r.violations == 0;
@@ -144,10 +148,12 @@ class VertexSetProblem {
 
 /// Maximum (weighted) independent set: see VertexSetProblem.
 template <class Value, class Index = std::uint32_t>
-Result<VertexSetProblem<Value, Index>> encode_independent_set(std::uint64_t num_vertices, const std::vector<Edge>& edges,
+Result<VertexSetProblem<Value, Index>> encode_independent_set(std::uint64_t num_vertices,
+                                                              const std::vector<Edge>& edges,
                                                               const std::vector<Value>& vertex_weights = {},
                                                               Value weight = Value{0}) {
-  return VertexSetProblem<Value, Index>::encode(VertexSetGoal::independent_set, num_vertices, edges, vertex_weights, weight);
+  return VertexSetProblem<Value, Index>::encode(VertexSetGoal::independent_set, num_vertices, edges, vertex_weights,
+                                                weight);
 }
 
 /// Minimum (weighted) vertex cover: see VertexSetProblem.
@@ -155,7 +161,8 @@ template <class Value, class Index = std::uint32_t>
 Result<VertexSetProblem<Value, Index>> encode_vertex_cover(std::uint64_t num_vertices, const std::vector<Edge>& edges,
                                                            const std::vector<Value>& vertex_weights = {},
                                                            Value weight = Value{0}) {
-  return VertexSetProblem<Value, Index>::encode(VertexSetGoal::vertex_cover, num_vertices, edges, vertex_weights, weight);
+  return VertexSetProblem<Value, Index>::encode(VertexSetGoal::vertex_cover, num_vertices, edges, vertex_weights,
+                                                weight);
 }
 
 }  // namespace spinwright

@@ -28,7 +28,7 @@ namespace spinwright {
 /// A packing judged in its own terms.
 template <class Energy>
 struct KnapsackReport {
-  bool feasible = false;        // distinct items < N and total weight <= capacity
+  bool feasible = false;  // distinct items < N and total weight <= capacity
   std::int64_t total_weight = 0;
   Energy total_value{0};
 };
@@ -52,14 +52,18 @@ class KnapsackProblem {
     if (values.size() != n) return Status::error(StatusCode::invalid_argument, "one value per item");
     if (capacity < 0) return Status::error(StatusCode::invalid_argument, "capacity must be >= 0");
     for (std::size_t i = 0; i < n; ++i) {
-      if (weights[i] < 0) return Status::error(StatusCode::invalid_argument, "item weights must be >= 0").at_term(no_term, i, i);
-      if (!detail::is_finite(values[i])) return Status::error(StatusCode::non_finite_value, "item value is NaN or infinite").at_term(no_term, i, i);
+      if (weights[i] < 0)
+        return Status::error(StatusCode::invalid_argument, "item weights must be >= 0").at_term(no_term, i, i);
+      if (!detail::is_finite(values[i]))
+        return Status::error(StatusCode::non_finite_value, "item value is NaN or infinite").at_term(no_term, i, i);
     }
-    if (weight < Value{0} || !detail::is_finite(weight)) return Status::error(StatusCode::invalid_argument, "penalty weight must be >= 0");
+    if (weight < Value{0} || !detail::is_finite(weight))
+      return Status::error(StatusCode::invalid_argument, "penalty weight must be >= 0");
     QuboBuilder<Value, Index> objective;
     for (std::size_t i = 0; i < n; ++i) {
       if (!detail::fits_value<Value>(-static_cast<energy_type>(values[i]))) {
-        return Status::error(StatusCode::value_out_of_range, "negated item value does not fit the value type").at_term(no_term, i, i);
+        return Status::error(StatusCode::value_out_of_range, "negated item value does not fit the value type")
+            .at_term(no_term, i, i);
       }
       objective.add_unary(i, static_cast<Value>(-values[i]));
     }

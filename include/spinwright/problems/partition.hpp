@@ -26,9 +26,9 @@ namespace spinwright {
 /// What a split of the numbers is worth: the two subset sums and their absolute difference.
 template <class Energy>
 struct PartitionReport {
-  bool valid = false;  // one side (0/1) per number
-  Energy sum_zero{0};  // sum of the numbers on side 0
-  Energy sum_one{0};   // sum of the numbers on side 1
+  bool valid = false;    // one side (0/1) per number
+  Energy sum_zero{0};    // sum of the numbers on side 0
+  Energy sum_one{0};     // sum of the numbers on side 1
   Energy difference{0};  // |sum_zero - sum_one|, the residue
 };
 
@@ -53,13 +53,15 @@ class PartitionProblem {
       energy_type sq{};
       if (!mul_energy(ni, ni, sq) || !mul_energy(sq, static_cast<energy_type>(weight), sq) ||
           !detail::checked_add(offset, sq)) {
-        return Status::error(StatusCode::energy_overflow, "A sum n_i^2 overflows the accumulator").at_term(no_term, i, i);
+        return Status::error(StatusCode::energy_overflow, "A sum n_i^2 overflows the accumulator")
+            .at_term(no_term, i, i);
       }
       for (std::size_t j = i + 1; j < numbers.size(); ++j) {
         energy_type c{};
-        if (!mul_energy(ni, static_cast<energy_type>(numbers[j]), c) || !mul_energy(c, 2 * static_cast<energy_type>(weight), c) ||
-            !detail::fits_value<Value>(c)) {
-          return Status::error(StatusCode::value_out_of_range, "coupling 2 A n_i n_j does not fit the value type").at_term(no_term, i, j);
+        if (!mul_energy(ni, static_cast<energy_type>(numbers[j]), c) ||
+            !mul_energy(c, 2 * static_cast<energy_type>(weight), c) || !detail::fits_value<Value>(c)) {
+          return Status::error(StatusCode::value_out_of_range, "coupling 2 A n_i n_j does not fit the value type")
+              .at_term(no_term, i, j);
         }
         b.add_coupling(i, j, static_cast<Value>(c));
       }

@@ -128,8 +128,8 @@ inline Status check_data(const std::vector<std::int64_t>& coefs, std::int64_t bo
 
 // Terms of A (sum_k c_k x_{v_k} - rhs)^2 (x^2 = x), checked to fit Value.
 template <class Value>
-Status square_terms(const std::vector<std::uint64_t>& vars, const std::vector<std::int64_t>& coefs,
-                    std::int64_t rhs, Value weight, PenaltyTerms<Value>& out) {
+Status square_terms(const std::vector<std::uint64_t>& vars, const std::vector<std::int64_t>& coefs, std::int64_t rhs,
+                    Value weight, PenaltyTerms<Value>& out) {
   using energy_type = energy_t<Value>;
   const Status too_large =
       Status::error(StatusCode::value_out_of_range, "penalty coefficient does not fit the value type");
@@ -195,7 +195,8 @@ inline Result<std::uint64_t> slack_bit_count(const std::vector<std::int64_t>& co
   std::int64_t low = 0;
   for (const std::int64_t a : coefficients) low += a < 0 ? a : 0;
   if (bound < low) {
-    return Status::error(StatusCode::invalid_argument, "inequality can never hold: bound below the smallest left-hand side");
+    return Status::error(StatusCode::invalid_argument,
+                         "inequality can never hold: bound below the smallest left-hand side");
   }
   auto s = static_cast<std::uint64_t>(bound - low);
   std::uint64_t m = 0;
@@ -229,8 +230,7 @@ inline std::vector<std::int64_t> slack_weights(std::int64_t max_slack) {
 /// empty group), index_out_of_range (a variable >= set.num_variables()), value_out_of_range.
 template <class Value, class Index>
 Result<std::size_t> add_one_hot(QuboBuilder<Value, Index>& builder, ConstraintSet& set,
-                                    const std::vector<std::uint64_t>& variables, Value weight,
-                                    ConstraintLabel label = {}) {
+                                const std::vector<std::uint64_t>& variables, Value weight, ConstraintLabel label = {}) {
   const Status st = detail::check_weight_and_vars(static_cast<double>(weight), variables, set);
   if (!st) return st;
   if (variables.empty()) return Status::error(StatusCode::invalid_argument, "one-hot of an empty group can never hold");
@@ -240,18 +240,20 @@ Result<std::size_t> add_one_hot(QuboBuilder<Value, Index>& builder, ConstraintSe
   if (!t) return t;
   const Status e = detail::emit(builder, terms);
   if (!e) return e;
-  return set.add(detail::make_record(ConstraintKind::one_hot, Relation::equal, label, variables, std::move(ones), 1, weight));
+  return set.add(
+      detail::make_record(ConstraintKind::one_hot, Relation::equal, label, variables, std::move(ones), 1, weight));
 }
 
 /// k-hot of a group: adds A (k - sum x)^2 and registers {k_hot, sum x = k}.
 /// Errors as add_one_hot, and invalid_argument when k > group size.
 template <class Value, class Index>
 Result<std::size_t> add_k_hot(QuboBuilder<Value, Index>& builder, ConstraintSet& set,
-                                  const std::vector<std::uint64_t>& variables, std::uint64_t k, Value weight,
-                                  ConstraintLabel label = {}) {
+                              const std::vector<std::uint64_t>& variables, std::uint64_t k, Value weight,
+                              ConstraintLabel label = {}) {
   const Status st = detail::check_weight_and_vars(static_cast<double>(weight), variables, set);
   if (!st) return st;
-  if (k > variables.size()) return Status::error(StatusCode::invalid_argument, "k-hot with k above the group size can never hold");
+  if (k > variables.size())
+    return Status::error(StatusCode::invalid_argument, "k-hot with k above the group size can never hold");
   std::vector<std::int64_t> ones(variables.size(), 1);
   const auto kk = static_cast<std::int64_t>(k);
   detail::PenaltyTerms<Value> terms;
@@ -259,14 +261,15 @@ Result<std::size_t> add_k_hot(QuboBuilder<Value, Index>& builder, ConstraintSet&
   if (!t) return t;
   const Status e = detail::emit(builder, terms);
   if (!e) return e;
-  return set.add(detail::make_record(ConstraintKind::k_hot, Relation::equal, label, variables, std::move(ones), kk, weight));
+  return set.add(
+      detail::make_record(ConstraintKind::k_hot, Relation::equal, label, variables, std::move(ones), kk, weight));
 }
 
 /// pairwise-exclusion of a group: adds A sum_{i<j} x_i x_j and registers {pairwise_exclusion, sum x <= 1}.
 template <class Value, class Index>
 Result<std::size_t> add_pairwise_exclusion(QuboBuilder<Value, Index>& builder, ConstraintSet& set,
-                                    const std::vector<std::uint64_t>& variables, Value weight,
-                                    ConstraintLabel label = {}) {
+                                           const std::vector<std::uint64_t>& variables, Value weight,
+                                           ConstraintLabel label = {}) {
   const Status st = detail::check_weight_and_vars(static_cast<double>(weight), variables, set);
   if (!st) return st;
   for (std::size_t k = 0; k < variables.size(); ++k) {
@@ -281,7 +284,7 @@ Result<std::size_t> add_pairwise_exclusion(QuboBuilder<Value, Index>& builder, C
 /// and registers {pair_cover, x_u + x_v >= 1}. Errors: invalid_argument also when u == v.
 template <class Value, class Index>
 Result<std::size_t> add_pair_cover(QuboBuilder<Value, Index>& builder, ConstraintSet& set, std::uint64_t u,
-                                     std::uint64_t v, Value weight, ConstraintLabel label = {}) {
+                                   std::uint64_t v, Value weight, ConstraintLabel label = {}) {
   std::vector<std::uint64_t> vars{u, v};
   const Status st = detail::check_weight_and_vars(static_cast<double>(weight), vars, set);
   if (!st) return st;
@@ -298,12 +301,13 @@ Result<std::size_t> add_pair_cover(QuboBuilder<Value, Index>& builder, Constrain
 /// when sum |a| + |b| > 2^53 or a penalty coefficient does not fit Value.
 template <class Value, class Index>
 Result<std::size_t> add_sum_equal(QuboBuilder<Value, Index>& builder, ConstraintSet& set,
-                                        const std::vector<std::uint64_t>& variables,
-                                        const std::vector<std::int64_t>& coefficients, std::int64_t bound,
-                                        Value weight, ConstraintLabel label = {}) {
+                                  const std::vector<std::uint64_t>& variables,
+                                  const std::vector<std::int64_t>& coefficients, std::int64_t bound, Value weight,
+                                  ConstraintLabel label = {}) {
   const Status st = detail::check_weight_and_vars(static_cast<double>(weight), variables, set);
   if (!st) return st;
-  if (coefficients.size() != variables.size()) return Status::error(StatusCode::invalid_argument, "one coefficient per variable");
+  if (coefficients.size() != variables.size())
+    return Status::error(StatusCode::invalid_argument, "one coefficient per variable");
   const Status data = detail::check_data(coefficients, bound);
   if (!data) return data;
   detail::PenaltyTerms<Value> terms;
@@ -311,7 +315,8 @@ Result<std::size_t> add_sum_equal(QuboBuilder<Value, Index>& builder, Constraint
   if (!t) return t;
   const Status e = detail::emit(builder, terms);
   if (!e) return e;
-  return set.add(detail::make_record(ConstraintKind::sum_equal, Relation::equal, label, variables, coefficients, bound, weight));
+  return set.add(
+      detail::make_record(ConstraintKind::sum_equal, Relation::equal, label, variables, coefficients, bound, weight));
 }
 
 /// Linear inequality sum a x <= b (integer data) through slack bits: allocates
@@ -321,12 +326,13 @@ Result<std::size_t> add_sum_equal(QuboBuilder<Value, Index>& builder, Constraint
 /// Errors: as add_sum_equal, and invalid_argument when b < sum min(a_i, 0).
 template <class Value, class Index>
 Result<std::size_t> add_sum_at_most(QuboBuilder<Value, Index>& builder, ConstraintSet& set,
-                                          const std::vector<std::uint64_t>& variables,
-                                          const std::vector<std::int64_t>& coefficients, std::int64_t bound,
-                                          Value weight, ConstraintLabel label = {}) {
+                                    const std::vector<std::uint64_t>& variables,
+                                    const std::vector<std::int64_t>& coefficients, std::int64_t bound, Value weight,
+                                    ConstraintLabel label = {}) {
   const Status st = detail::check_weight_and_vars(static_cast<double>(weight), variables, set);
   if (!st) return st;
-  if (coefficients.size() != variables.size()) return Status::error(StatusCode::invalid_argument, "one coefficient per variable");
+  if (coefficients.size() != variables.size())
+    return Status::error(StatusCode::invalid_argument, "one coefficient per variable");
   const auto bits = slack_bit_count(coefficients, bound);
   if (!bits) return bits.status();
   std::int64_t low = 0;
@@ -347,7 +353,8 @@ Result<std::size_t> add_sum_at_most(QuboBuilder<Value, Index>& builder, Constrai
   const Status e = detail::emit(builder, terms);
   if (!e) return e;
   set.allocate_variables(weights.size());
-  Constraint c = detail::make_record(ConstraintKind::sum_at_most, Relation::at_most, label, variables, coefficients, bound, weight);
+  Constraint c = detail::make_record(ConstraintKind::sum_at_most, Relation::at_most, label, variables, coefficients,
+                                     bound, weight);
   c.slack_begin = first;
   c.slack_weights = std::move(weights);
   return set.add(std::move(c));
@@ -393,7 +400,8 @@ energy_t<Value> objective_span(const IsingModel<Value, Index>& objective) noexce
 /// non-finite span.
 template <class Value>
 Result<Value> penalty_weight_above(energy_t<Value> span) {
-  if (!detail::is_finite(span) || span < 0) return Status::error(StatusCode::invalid_argument, "span must be finite and >= 0");
+  if (!detail::is_finite(span) || span < 0)
+    return Status::error(StatusCode::invalid_argument, "span must be finite and >= 0");
   if constexpr (std::is_integral_v<Value>) {
     if (span >= static_cast<energy_t<Value>>(std::numeric_limits<Value>::max())) {
       return Status::error(StatusCode::value_out_of_range, "penalty weight does not fit the value type");
@@ -401,7 +409,8 @@ Result<Value> penalty_weight_above(energy_t<Value> span) {
     return static_cast<Value>(span + 1);
   } else {
     const double a = span > 0 ? span * (1.0 + 1.0 / 1024.0) : 1.0;
-    if (!detail::fits_value<Value>(a)) return Status::error(StatusCode::value_out_of_range, "penalty weight does not fit the value type");
+    if (!detail::fits_value<Value>(a))
+      return Status::error(StatusCode::value_out_of_range, "penalty weight does not fit the value type");
     return static_cast<Value>(a);
   }
 }

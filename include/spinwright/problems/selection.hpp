@@ -57,8 +57,10 @@ class SelectionProblem {
     if (risk_aversion < Value{0} || !detail::is_finite(risk_aversion)) {
       return Status::error(StatusCode::invalid_argument, "risk aversion must be finite and >= 0");
     }
-    if (weight < Value{0} || !detail::is_finite(weight)) return Status::error(StatusCode::invalid_argument, "penalty weight must be >= 0");
-    const Status too_large = Status::error(StatusCode::value_out_of_range, "objective coefficient does not fit the value type");
+    if (weight < Value{0} || !detail::is_finite(weight))
+      return Status::error(StatusCode::invalid_argument, "penalty weight must be >= 0");
+    const Status too_large =
+        Status::error(StatusCode::value_out_of_range, "objective coefficient does not fit the value type");
     QuboBuilder<Value, Index> objective(n);
     for (std::size_t i = 0; i < n; ++i) {
       for (std::size_t j = i + 1; j < n; ++j) {

@@ -61,14 +61,10 @@ class Xoshiro256 {
   }
 
   // Uniform double in [0, 1) with 53 random bits.
-  constexpr double uniform() noexcept {
-    return static_cast<double>(next() >> 11) * 0x1.0p-53;
-  }
+  constexpr double uniform() noexcept { return static_cast<double>(next() >> 11) * 0x1.0p-53; }
 
   // Uniform double in (0, 1]: safe to take the logarithm of.
-  constexpr double uniform_open_zero() noexcept {
-    return static_cast<double>((next() >> 11) + 1) * 0x1.0p-53;
-  }
+  constexpr double uniform_open_zero() noexcept { return static_cast<double>((next() >> 11) + 1) * 0x1.0p-53; }
 
   // Uniform 32-bit integer.
   constexpr std::uint32_t next32() noexcept { return static_cast<std::uint32_t>(next() >> 32); }
@@ -93,9 +89,7 @@ class Xoshiro256 {
   constexpr bool coin() noexcept { return (next() >> 63) != 0; }
 
  private:
-  static constexpr std::uint64_t rotl(std::uint64_t x, int k) noexcept {
-    return (x << k) | (x >> (64 - k));
-  }
+  static constexpr std::uint64_t rotl(std::uint64_t x, int k) noexcept { return (x << k) | (x >> (64 - k)); }
   std::uint64_t s_[4]{};
 };
 

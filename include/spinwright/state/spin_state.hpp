@@ -27,7 +27,7 @@ namespace spinwright {
 
 // What check() found: the largest absolute error of a local field and of the energy.
 struct StateCheck {
-  bool exact = true;          // every tracked number equals its recomputed value
+  bool exact = true;  // every tracked number equals its recomputed value
   double max_field_error = 0;
   double energy_error = 0;
 };
@@ -108,9 +108,8 @@ class SpinState {
     energy_type* f = fields_.data();
     if constexpr (form == Form::ising) {
       const energy_type twice_new = -2 * old;
-      model_->for_each_neighbour(i, [f, twice_new](index_type j, value_type v) {
-        f[j] += twice_new * static_cast<energy_type>(v);
-      });
+      model_->for_each_neighbour(
+          i, [f, twice_new](index_type j, value_type v) { f[j] += twice_new * static_cast<energy_type>(v); });
     } else {
       // x_i changes by +1 when the old spin was +1 and by -1 otherwise.
       const energy_type dx = old;
@@ -281,7 +280,8 @@ class SpinState {
 
 // In-place coefficient edits that keep a state exact. The model must be the state's model.
 template <class Model>
-Status edit_site_term(Model& model, SpinState<Model>& state, typename Model::index_type i, typename Model::value_type v) {
+Status edit_site_term(Model& model, SpinState<Model>& state, typename Model::index_type i,
+                      typename Model::value_type v) {
   SPINWRIGHT_ASSERT(&state.model() == &model, "the state belongs to another model");
   if (i >= model.num_spins()) return model.set_site_term(i, v);
   const auto old = static_cast<typename Model::energy_type>(model.site_term(i));
