@@ -1,4 +1,4 @@
-// Quality, not speed: how the beta span from the model (kernels/schedule.hpp, docs/moves.md)
+// Quality, not speed: how the beta span from the model (kernels/beta_span.hpp, docs/moves.md)
 // compares with ranges scaled around it. For G11, G22 (G-set, best known cuts from
 // reference.csv) and bqp250-1 (proven optimum), int32 couplings, 8 restarts of 2000 sweeps:
 // counters mean_cut, best_cut and hits (restarts reaching the reference cut), for beta_start
@@ -6,7 +6,7 @@
 #include <benchmark/benchmark.h>
 
 #include <spinwright/kernels/anneal.hpp>
-#include <spinwright/model/maxcut.hpp>
+#include <spinwright/problems/max_cut.hpp>
 
 #include "support/anneal_graph.hpp"
 

@@ -12,7 +12,7 @@
 #include <benchmark/benchmark.h>
 
 #include <spinwright/kernels/auto.hpp>
-#include <spinwright/model/maxcut.hpp>
+#include <spinwright/problems/max_cut.hpp>
 
 #include "kernels/cpu_clock.hpp"
 #include "support/temper_graph.hpp"

@@ -11,7 +11,7 @@
 #include <spinwright/kernels/anneal.hpp>
 #include <spinwright/kernels/tabu.hpp>
 #include <spinwright/kernels/temper.hpp>
-#include <spinwright/model/maxcut.hpp>
+#include <spinwright/problems/max_cut.hpp>
 
 #include "kernels/cpu_clock.hpp"
 #include "support/temper_graph.hpp"

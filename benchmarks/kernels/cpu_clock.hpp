@@ -4,7 +4,7 @@
 #ifndef SPINWRIGHT_BENCH_CPU_CLOCK_HPP
 #define SPINWRIGHT_BENCH_CPU_CLOCK_HPP
 
-#include <spinwright/control/control.hpp>
+#include <spinwright/control/clock.hpp>
 
 #include <ctime>  // clock_gettime, CLOCK_THREAD_CPUTIME_ID
 

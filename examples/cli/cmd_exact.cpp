@@ -8,7 +8,7 @@
 #include "text.hpp"
 
 #include <spinwright/control/steady_clock.hpp>
-#include <spinwright/model/maxcut.hpp>
+#include <spinwright/problems/max_cut.hpp>
 #include <spinwright/parallel/exact_threads.hpp>
 
 namespace spinwright_cli {

@@ -7,7 +7,7 @@
 #include "runner.hpp"
 #include "text.hpp"
 
-#include <spinwright/model/maxcut.hpp>
+#include <spinwright/problems/max_cut.hpp>
 
 #include <algorithm>  // std::max
 #include <limits>     // std::numeric_limits

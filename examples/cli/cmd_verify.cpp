@@ -5,7 +5,7 @@
 #include "loaded_model.hpp"
 #include "text.hpp"
 
-#include <spinwright/model/maxcut.hpp>
+#include <spinwright/problems/max_cut.hpp>
 
 namespace spinwright_cli {
 

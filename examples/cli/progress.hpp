@@ -10,7 +10,7 @@
 #ifndef SPINWRIGHT_CLI_PROGRESS_HPP
 #define SPINWRIGHT_CLI_PROGRESS_HPP
 
-#include <spinwright/control/control.hpp>
+#include <spinwright/control.hpp>
 
 #include <atomic>              // std::atomic
 #include <condition_variable>  // std::condition_variable

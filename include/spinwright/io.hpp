@@ -10,7 +10,6 @@
 #include "io/matrix_market.hpp"
 #include "io/model_file.hpp"
 #include "io/state_file.hpp"
-#include "io/term_list.hpp"
 #include "io/text_input.hpp"
 
 #endif  // SPINWRIGHT_IO_HPP

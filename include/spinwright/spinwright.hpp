@@ -4,22 +4,16 @@
 #ifndef SPINWRIGHT_SPINWRIGHT_HPP
 #define SPINWRIGHT_SPINWRIGHT_HPP
 
+#include "arena.hpp"
 #include "config.hpp"
-#include "control/control.hpp"
-#include "kernels/anneal.hpp"
-#include "kernels/auto.hpp"
-#include "kernels/descent.hpp"
-#include "kernels/exact.hpp"
-#include "kernels/schedule.hpp"
-#include "kernels/solution.hpp"
-#include "kernels/tabu.hpp"
-#include "kernels/temper.hpp"
+#include "control.hpp"
+#include "kernels.hpp"
 #include "model.hpp"
 #include "moves.hpp"
 #include "problems.hpp"
-#include "rng/xoshiro.hpp"
-#include "state/spin_state.hpp"
-#include "stats/tally.hpp"
+#include "rng.hpp"
+#include "state.hpp"
+#include "stats.hpp"
 #include "status.hpp"
 #include "version.hpp"
 

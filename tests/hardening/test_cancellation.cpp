@@ -6,7 +6,7 @@
 // (exact.hpp's solve_exact takes no Budget or StopToken, so it is not covered here.)
 #include <doctest/doctest.h>
 
-#include <spinwright/control/control.hpp>
+#include <spinwright/control.hpp>
 #include <spinwright/control/steady_clock.hpp>
 #include <spinwright/kernels/anneal.hpp>
 #include <spinwright/kernels/descent.hpp>

@@ -3,6 +3,7 @@
 #include <doctest/doctest.h>
 #include <spinwright/io/model_file.hpp>
 #include <spinwright/model.hpp>
+#include <spinwright/problems/max_cut.hpp>
 #include <spinwright/rng/xoshiro.hpp>
 
 #include <cstdint>

@@ -1,10 +1,10 @@
-// Acceptance rules of kernels/schedule.hpp against their definitions: Metropolis accepts an
+// Acceptance rules of kernels/acceptance.hpp against their definitions: Metropolis accepts an
 // energy change d with probability min(1, exp(-beta d)) (Metropolis, Rosenbluth, Rosenbluth,
 // Teller, Teller, J. Chem. Phys. 21, 1087 (1953)); heat-bath (Glauber) with probability
 // 1 / (1 + exp(beta d)) (R. J. Glauber, J. Math. Phys. 4, 294 (1963)).
 #include <doctest/doctest.h>
 
-#include <spinwright/kernels/schedule.hpp>
+#include <spinwright/kernels/acceptance.hpp>
 #include <spinwright/model/builder.hpp>
 
 #include <cmath>

@@ -6,7 +6,7 @@
 
 #include <spinwright/kernels/anneal.hpp>
 #include <spinwright/model/dense_model.hpp>
-#include <spinwright/model/maxcut.hpp>
+#include <spinwright/problems/max_cut.hpp>
 
 #include "support/anneal_graph.hpp"
 

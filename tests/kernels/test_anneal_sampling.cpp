@@ -135,7 +135,7 @@ TEST_CASE("Metropolis on the 32x32 periodic ferromagnet reproduces Onsager's ene
 TEST_CASE("integer Metropolis: the uniform path and the hazard path each reproduce Onsager and Yang") {
   // The same published values as above (Onsager 1944, Yang 1952), with the acceptance path
   // forced: hazard_below = 0 draws one uniform per uphill attempt, 2 one exponential per
-  // accepted uphill flip (kernels/schedule.hpp). Either path alone must give the equilibrium.
+  // accepted uphill flip (kernels/acceptance.hpp). Either path alone must give the equilibrium.
   const auto int_model = anneal_support::square_lattice<std::int32_t>(32, -1);
   for (const double hazard_below : {0.0, 2.0}) {
     for (const double T : {1.5, 2.0, 3.0}) {
@@ -201,7 +201,7 @@ TEST_CASE("heat-bath on the 32x32 periodic ferromagnet reproduces Onsager's ener
     const Samples b = sample(dbl_model, T, Acceptance::heat_bath, SiteOrder::random, 2000, 30000, 22);
     CHECK(std::abs(b.u.mean - onsager_u(T)) <= 4 * b.u.error);
   }
-  // Integer heat-bath with each acceptance path forced (kernels/schedule.hpp).
+  // Integer heat-bath with each acceptance path forced (kernels/acceptance.hpp).
   for (const double hazard_below : {0.0, 2.0}) {
     CAPTURE(hazard_below);
     const Samples m =

@@ -6,7 +6,7 @@
 #include <spinwright/kernels/descent.hpp>
 #include <spinwright/model/builder.hpp>
 #include <spinwright/model/dense_model.hpp>
-#include <spinwright/model/maxcut.hpp>
+#include <spinwright/problems/max_cut.hpp>
 #include <spinwright/moves/count_keeping_swap.hpp>
 
 #include "support/anneal_graph.hpp"

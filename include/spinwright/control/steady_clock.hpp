@@ -2,7 +2,7 @@
 #ifndef SPINWRIGHT_CONTROL_STEADY_CLOCK_HPP
 #define SPINWRIGHT_CONTROL_STEADY_CLOCK_HPP
 
-#include "control.hpp"
+#include "clock.hpp"
 
 #include <chrono>  // std::chrono::steady_clock
 

@@ -15,7 +15,7 @@
 #include "../model/sparse_model.hpp"
 #include "../status.hpp"
 #include "io_status.hpp"
-#include "term_list.hpp"
+#include "detail/term_list.hpp"
 #include "text_input.hpp"
 
 #include <cstddef>      // std::size_t

@@ -25,7 +25,7 @@
 #include "../status.hpp"
 #include "edge_list.hpp"  // detail::starts_with_banner
 #include "io_status.hpp"
-#include "term_list.hpp"
+#include "detail/term_list.hpp"
 #include "text_input.hpp"
 
 #include <cstddef>      // std::size_t

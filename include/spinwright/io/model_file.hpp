@@ -15,7 +15,7 @@
 #include "edge_list.hpp"
 #include "io_status.hpp"
 #include "matrix_market.hpp"
-#include "term_list.hpp"
+#include "detail/term_list.hpp"
 #include "text_input.hpp"
 
 #include <cstddef>      // std::size_t

@@ -6,7 +6,7 @@
 // One sweep makes move.moves_per_sweep(state) attempts at one beta; sweep k of a schedule of
 // S sweeps uses beta(k / (S - 1)); sweeps past the end stay at the final beta.
 //
-// Acceptance (kernels/schedule.hpp): integer models use threshold tables; with the built-in
+// Acceptance (kernels/acceptance.hpp): integer models use threshold tables; with the built-in
 // SingleFlip, cold sweeps take the hazard path (AnnealParams::hazard_below), which replaces
 // the uniform draw of each rejected attempt by one addition. Same chain, other
 // random stream: a run is still fully determined by its seed.
@@ -24,13 +24,15 @@
 #define SPINWRIGHT_KERNELS_ANNEAL_HPP
 
 #include "../config.hpp"
-#include "../control/control.hpp"
+#include "../control.hpp"
 #include "../detail/buffer.hpp"
 #include "../moves/move.hpp"
 #include "../moves/single_flip.hpp"
 #include "../rng/xoshiro.hpp"
 #include "../state/spin_state.hpp"
-#include "hazard_sweep.hpp"
+#include "detail/hazard_sweep.hpp"
+#include "acceptance.hpp"
+#include "beta_span.hpp"
 #include "schedule.hpp"
 #include "solution.hpp"
 
@@ -55,7 +57,7 @@ struct AnnealParams {
   std::uint64_t progress_every = 0;      // observers' on_progress period in sweeps (0: never)
   std::size_t table_limit = 4096;        // entries of the integer acceptance table
   // Integer models with the built-in SingleFlip: a sweep takes the hazard path
-  // (kernels/hazard_sweep.hpp: one exponential draw per random acceptance instead of one
+  // (kernels/detail/hazard_sweep.hpp: one exponential draw per random acceptance instead of one
   // uniform per uncertain attempt) when the previous sweep accepted less than this fraction
   // of its attempts and the hazard table is cheap to fill for this beta (at most a quarter as
   // many entries as attempts, or already filled); the first sweep after a (re)start takes

@@ -52,7 +52,7 @@
 #define SPINWRIGHT_KERNELS_AUTO_HPP
 
 #include "../config.hpp"
-#include "../control/control.hpp"
+#include "../control.hpp"
 #include "anneal.hpp"
 #include "descent.hpp"
 #include "exact.hpp"

@@ -19,7 +19,7 @@
 #define SPINWRIGHT_KERNELS_DESCENT_HPP
 
 #include "../config.hpp"
-#include "../control/control.hpp"
+#include "../control.hpp"
 #include "../detail/buffer.hpp"
 #include "../moves/move.hpp"
 #include "../moves/single_flip.hpp"

@@ -36,7 +36,7 @@
 #define SPINWRIGHT_KERNELS_EXACT_HPP
 
 #include "../config.hpp"
-#include "../control/control.hpp"
+#include "../control.hpp"
 #include "../model/form.hpp"
 #include "../state/spin_state.hpp"
 #include "../status.hpp"

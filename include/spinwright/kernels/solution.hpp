@@ -3,7 +3,7 @@
 #define SPINWRIGHT_KERNELS_SOLUTION_HPP
 
 #include "../config.hpp"
-#include "../control/control.hpp"
+#include "../control.hpp"
 
 #include <cstddef>  // std::size_t
 #include <cstdint>  // std::int8_t, std::uint64_t, std::uint8_t

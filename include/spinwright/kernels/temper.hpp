@@ -37,11 +37,13 @@
 #define SPINWRIGHT_KERNELS_TEMPER_HPP
 
 #include "../config.hpp"
-#include "../control/control.hpp"
+#include "../control.hpp"
 #include "../rng/xoshiro.hpp"
 #include "../state/spin_state.hpp"
 #include "../moves/single_flip.hpp"  // SiteOrder
-#include "hazard_sweep.hpp"
+#include "detail/hazard_sweep.hpp"
+#include "acceptance.hpp"
+#include "beta_span.hpp"
 #include "schedule.hpp"
 #include "solution.hpp"
 
@@ -80,7 +82,7 @@ struct TemperParams {
   const std::int8_t* initial = nullptr;  // warm start for every replica (n spins); random otherwise
   std::uint64_t progress_every = 0;      // observers' on_progress period in sweeps (0: never)
   std::size_t table_limit = 4096;        // entries of each integer acceptance table
-  // Integer models: a replica's sweep takes the hazard path (kernels/hazard_sweep.hpp) on the
+  // Integer models: a replica's sweep takes the hazard path (kernels/detail/hazard_sweep.hpp) on the
   // same rule as annealing (AnnealParams::hazard_below: the replica's previous sweep accepted
   // less than this fraction, and the table is cheap to fill); 0 disables it, > 1 forces it.
   double hazard_below = 0.125;

@@ -13,6 +13,7 @@
 #define SPINWRIGHT_MODEL_BUILDER_HPP
 
 #include "../config.hpp"
+#include "detail/energy_range.hpp"
 #include "../status.hpp"
 #include "form.hpp"
 #include "sparse_model.hpp"

@@ -5,6 +5,7 @@
 #define SPINWRIGHT_MODEL_DENSE_MODEL_HPP
 
 #include "../config.hpp"
+#include "detail/energy_range.hpp"
 #include "../status.hpp"
 #include "form.hpp"
 #include "sparse_model.hpp"

@@ -6,6 +6,8 @@
 #define SPINWRIGHT_MODEL_SPARSE_MODEL_HPP
 
 #include "../config.hpp"
+#include "span.hpp"
+#include "detail/energy_range.hpp"
 #include "../status.hpp"
 #include "form.hpp"
 

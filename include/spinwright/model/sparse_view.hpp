@@ -12,6 +12,8 @@
 #define SPINWRIGHT_MODEL_SPARSE_VIEW_HPP
 
 #include "../config.hpp"
+#include "span.hpp"
+#include "detail/energy_range.hpp"
 #include "../status.hpp"
 #include "form.hpp"
 #include "sparse_model.hpp"

@@ -12,6 +12,7 @@
 #define SPINWRIGHT_PROBLEMS_INDEPENDENT_SET_HPP
 
 #include "../config.hpp"
+#include "../model/detail/energy_range.hpp"
 #include "../model/builder.hpp"
 #include "../model/form.hpp"
 #include "../model/sparse_model.hpp"

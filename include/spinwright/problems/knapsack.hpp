@@ -10,6 +10,7 @@
 #define SPINWRIGHT_PROBLEMS_KNAPSACK_HPP
 
 #include "../config.hpp"
+#include "../model/detail/energy_range.hpp"
 #include "../model/builder.hpp"
 #include "../model/form.hpp"
 #include "../model/sparse_model.hpp"

@@ -19,6 +19,50 @@
 
 namespace spinwright {
 
+// Self-loops of a weighted graph (from files, or a builder given (i, i)) fold into the offset;
+// total_weight counts them there, so cut_from_energy(total_weight(m), E) is the cut whatever the
+// graph holds.
+// W: the total weight of a max-cut model (offset plus every coupling once).
+template <class Model>
+typename Model::energy_type total_weight(const Model& m) noexcept {
+  static_assert(Model::form == Form::ising, "max-cut models are Ising models");
+  using energy_type = typename Model::energy_type;
+  using index_type = typename Model::index_type;
+  energy_type w = m.offset();
+  for (std::size_t i = 0; i < m.num_spins(); ++i) {
+    const auto ii = static_cast<index_type>(i);
+    m.for_each_neighbour(ii, [&](index_type j, typename Model::value_type v) {
+      if (j > ii) w += static_cast<energy_type>(v);
+    });
+  }
+  return w;
+}
+
+// The weight of the edges cut by a spin assignment, counted edge by edge.
+template <class Model>
+typename Model::energy_type cut_value(const Model& m, const std::int8_t* spins) noexcept {
+  using energy_type = typename Model::energy_type;
+  using index_type = typename Model::index_type;
+  energy_type cut = 0;
+  for (std::size_t i = 0; i < m.num_spins(); ++i) {
+    const auto ii = static_cast<index_type>(i);
+    m.for_each_neighbour(ii, [&](index_type j, typename Model::value_type v) {
+      if (j > ii && spins[i] != spins[j]) cut += static_cast<energy_type>(v);
+    });
+  }
+  return cut;
+}
+
+template <class Energy>
+constexpr Energy cut_from_energy(Energy total_weight, Energy energy) noexcept {
+  return (total_weight - energy) / 2;
+}
+
+template <class Energy>
+constexpr Energy energy_from_cut(Energy total_weight, Energy cut) noexcept {
+  return total_weight - 2 * cut;
+}
+
 /// What a cut is worth in the graph's own terms.
 template <class Energy>
 struct CutReport {

@@ -41,6 +41,7 @@
 #define SPINWRIGHT_PROBLEMS_PENALTY_HPP
 
 #include "../config.hpp"
+#include "../model/detail/energy_range.hpp"
 #include "../model/builder.hpp"
 #include "../model/form.hpp"
 #include "../model/sparse_model.hpp"

@@ -1,15 +1,15 @@
 // spinwright — one sweep of the built-in single flip on an integer model (Metropolis or
-// heat-bath) along the hazard path (kernels/schedule.hpp): one exponential draw per random
+// heat-bath) along the hazard path (kernels/acceptance.hpp, docs/moves.md): one exponential draw per random
 // acceptance instead of one uniform per attempt whose outcome is uncertain. Shared by
 // annealing and tempering, which take it on cold sweeps (take_hazard_path). No allocation.
-#ifndef SPINWRIGHT_KERNELS_HAZARD_SWEEP_HPP
-#define SPINWRIGHT_KERNELS_HAZARD_SWEEP_HPP
+#ifndef SPINWRIGHT_KERNELS_DETAIL_HAZARD_SWEEP_HPP
+#define SPINWRIGHT_KERNELS_DETAIL_HAZARD_SWEEP_HPP
 
-#include "../config.hpp"
-#include "../moves/single_flip.hpp"
-#include "../rng/xoshiro.hpp"
-#include "../state/spin_state.hpp"
-#include "schedule.hpp"
+#include "../../config.hpp"
+#include "../../moves/single_flip.hpp"
+#include "../../rng/xoshiro.hpp"
+#include "../../state/spin_state.hpp"
+#include "../acceptance.hpp"
 
 #include <cstddef>  // std::size_t
 #include <cstdint>  // std::int8_t, std::uint32_t, std::uint64_t
@@ -130,4 +130,4 @@ std::uint64_t hazard_sweep(SpinState<Model>& state, Acceptor<typename Model::ene
 }  // namespace detail
 }  // namespace spinwright
 
-#endif  // SPINWRIGHT_KERNELS_HAZARD_SWEEP_HPP
+#endif  // SPINWRIGHT_KERNELS_DETAIL_HAZARD_SWEEP_HPP

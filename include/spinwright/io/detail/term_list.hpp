@@ -1,16 +1,16 @@
 // spinwright — the form-independent result of scanning a model file (a list of terms, each
 // with its source line and token) and the step that turns it into a model through the
 // builders, so that every refusal can still name the line it came from. Internal to io/.
-#ifndef SPINWRIGHT_IO_TERM_LIST_HPP
-#define SPINWRIGHT_IO_TERM_LIST_HPP
+#ifndef SPINWRIGHT_IO_DETAIL_TERM_LIST_HPP
+#define SPINWRIGHT_IO_DETAIL_TERM_LIST_HPP
 
-#include "../config.hpp"
-#include "../model/builder.hpp"
-#include "../model/form.hpp"
-#include "../model/sparse_model.hpp"
-#include "../status.hpp"
-#include "io_status.hpp"
-#include "text_input.hpp"
+#include "../../config.hpp"
+#include "../../model/builder.hpp"
+#include "../../model/form.hpp"
+#include "../../model/sparse_model.hpp"
+#include "../../status.hpp"
+#include "../io_status.hpp"
+#include "../text_input.hpp"
 
 #include <cstddef>      // std::size_t
 #include <cstdint>      // std::uint64_t, std::uint16_t
@@ -126,4 +126,4 @@ IoResult<SparseModel<F, Value, Index>> build_terms(const TermList& list, std::st
 
 }  // namespace spinwright::io::detail
 
-#endif  // SPINWRIGHT_IO_TERM_LIST_HPP
+#endif  // SPINWRIGHT_IO_DETAIL_TERM_LIST_HPP
