@@ -95,7 +95,7 @@ int main() {
   const auto best = anneal_with(*model, params, ShiftTransfer{}, /*seed*/ 7);
   Descender<Model, ShiftTransfer> local(*model, DescentParams{DescentRule::steepest, start.data()}, ShiftTransfer{}, 0);
   const auto greedy = local.run();
-  local.warm_start(best.spins.data());
+  local.warm_start(best.spins.data(), 7);
   bool ok = local.step(1) == 0 && local.done();  // no transfer improves the annealed rota
   for (std::size_t k = 0; k < local.move().neighbourhood_size(local.state()); ++k) {  // delta = recomputed change
     const auto p = local.move().proposal_at(local.state(), k);

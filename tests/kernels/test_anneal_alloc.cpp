@@ -49,7 +49,7 @@ void check_descender(const Model& model, Move move, DescentRule rule) {
   while (!d.done()) d.step(1);
   d.reset(9, 1);
   d.step(3);
-  d.warm_start(warm.data());
+  d.warm_start(warm.data(), 9);
   d.step(1000);
   const std::size_t allocations = alloc_counter::stop();
   CHECK(allocations == 0);

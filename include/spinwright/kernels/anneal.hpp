@@ -30,6 +30,7 @@
 #include "../moves/single_flip.hpp"
 #include "../rng/xoshiro.hpp"
 #include "../state/spin_state.hpp"
+#include "detail/drive.hpp"
 #include "detail/hazard_sweep.hpp"
 #include "acceptance.hpp"
 #include "beta_span.hpp"
@@ -68,7 +69,7 @@ struct AnnealParams {
 };
 
 template <class Model, class Move = SingleFlip<Model>>
-class Annealer {
+class Annealer : public detail::Drive<Annealer<Model, Move>> {
   static_assert(is_move_generator_v<Move, Model>,
                 "Move does not model the move concept: it needs a nested proposal_type and the members "
                 "moves_per_sweep(state), propose(state, rng), delta(state, proposal) and "
@@ -79,6 +80,10 @@ class Annealer {
   using move_type = Move;
   using state_type = SpinState<Model>;
   using energy_type = typename Model::energy_type;
+
+  /// A kernel keeps a pointer to its model: building one over a temporary is refused.
+  template <class... Args>
+  Annealer(const Model&&, Args&&...) = delete;
 
 #if !SPINWRIGHT_NO_HEAP
   /// Random start state from Xoshiro256::for_restart(seed, restart), or params.initial.
@@ -138,51 +143,6 @@ class Annealer {
     start_from_state();
   }
 
-  /// Performs n sweeps. No allocation.
-  void step(std::uint64_t n_sweeps = 1) {
-    for (std::uint64_t k = 0; k < n_sweeps; ++k) sweep_once();
-  }
-
-  /// Runs until the budget ends (its sweeps, or params.sweeps when 0, span the schedule),
-  /// honouring the stop token and deadline once per sweep and the target at each sweep end.
-  /// Allocates nothing; read best() afterwards. `seconds` receives the elapsed clock time.
-  template <class Observer>
-  StopReason advance(const Budget& budget, Observer& observer, double* seconds = nullptr) {
-    const std::uint64_t limit = budget.sweeps != 0 ? budget.sweeps : params_.sweeps;
-    schedule_sweeps_ = limit;
-    prime_beta();
-    BudgetGuard guard(budget);
-    guard.start();
-    StopReason why = StopReason::budget_exhausted;
-    const std::uint64_t first = sweeps_;
-    while (!guard.should_stop(sweeps_ - first, limit, static_cast<double>(best_energy_), why)) {
-      const bool improved = sweep_once();
-      if (improved) notify_improvement(observer, sweeps_, static_cast<double>(best_energy_));
-      if (params_.progress_every != 0 && sweeps_ % params_.progress_every == 0) {
-        notify_progress(observer, sweeps_, static_cast<double>(best_energy_));
-      }
-    }
-    if (seconds != nullptr) *seconds = guard.elapsed();
-    return why;
-  }
-
-#if !SPINWRIGHT_NO_HEAP
-  /// advance(), then the best state as a Solution (allocates its spin vector).
-  template <class Observer>
-  Solution<energy_type> run(const Budget& budget, Observer& observer) {
-    double seconds = 0;
-    const StopReason why = advance(budget, observer, &seconds);
-    Solution<energy_type> s = solution();
-    s.reason = why;
-    s.seconds = seconds;
-    return s;
-  }
-  Solution<energy_type> run(const Budget& budget = Budget{}) {
-    NoObserver none;
-    return run(budget, none);
-  }
-#endif
-
   BestView<energy_type> best() const noexcept {
     return {best_spins_.data(), best_spins_.size(), best_energy_, best_sweep_};
   }
@@ -211,15 +171,31 @@ class Annealer {
   std::uint64_t sweeps_done() const noexcept { return sweeps_; }
   std::uint64_t attempted() const noexcept { return attempted_; }
   std::uint64_t accepted() const noexcept { return accepted_; }
-  /// Beta of the next sweep.
+  /// Beta of the next sweep (of step(); advance() with a time limit may run it colder).
   double beta() const noexcept { return beta_at_sweep(sweeps_); }
   /// The schedule in use (automatic ranges filled in).
   const Schedule& schedule() const noexcept { return schedule_; }
   const BetaSpan& beta_span() const noexcept { return range_; }
-  /// Change the schedule length used by step() (run() sets it from its budget).
+  /// Change the schedule length used by step() (advance() sets it from its budget).
   void set_schedule_sweeps(std::uint64_t s) noexcept { schedule_sweeps_ = s; }
 
+  // The drive loop's questions (kernels/detail/drive.hpp).
+  std::uint64_t default_sweeps() const noexcept { return params_.sweeps; }
+  std::uint64_t progress_every() const noexcept { return params_.progress_every; }
+  double best_for_target() const noexcept { return static_cast<double>(best_energy_); }
+
  private:
+  friend class detail::Drive<Annealer>;
+
+  // The schedule spans the budget's sweeps; with a time limit its position is also at least
+  // the elapsed fraction of the limit, so a run cut by its deadline still ends cold.
+  void begin_advance(std::uint64_t limit) noexcept {
+    schedule_sweeps_ = limit;
+    time_fraction_ = 0;
+    prime_beta();
+  }
+  void before_sweep(double time_fraction) noexcept { time_fraction_ = time_fraction; }
+
   void init(std::uint64_t seed, std::uint64_t restart) {
     schedule_sweeps_ = params_.sweeps;
     schedule_ = params_.schedule;
@@ -261,6 +237,7 @@ class Annealer {
     best_sweep_ = 0;
     sweeps_ = attempted_ = accepted_ = 0;
     last_rate_ = 1;
+    time_fraction_ = 0;
     prime_beta();
   }
 
@@ -268,10 +245,10 @@ class Annealer {
 
   double beta_at_sweep(std::uint64_t k) const noexcept {
     const double f = schedule_sweeps_ > 1 ? static_cast<double>(k) / static_cast<double>(schedule_sweeps_ - 1) : 1.0;
-    return schedule_.beta_at(f);
+    return schedule_.beta_at(f > time_fraction_ ? f : time_fraction_);
   }
 
-  // One sweep; true when it ended at a new best.
+  // One sweep at the schedule's current beta; true when it ended at a new best.
   bool sweep_once() {
     const double beta = beta_at_sweep(sweeps_);
     if (beta != acceptor_.beta()) acceptor_.set_beta(beta);
@@ -382,7 +359,8 @@ class Annealer {
   std::uint64_t accepted_ = 0;
   std::uint64_t schedule_sweeps_ = 0;
   std::uint64_t restart_ = 0;
-  double last_rate_ = 1;  // accepted / attempted in the previous sweep (hazard path choice)
+  double last_rate_ = 1;      // accepted / attempted in the previous sweep (hazard path choice)
+  double time_fraction_ = 0;  // elapsed fraction of advance()'s time limit (0 untimed)
 };
 
 #if !SPINWRIGHT_NO_HEAP

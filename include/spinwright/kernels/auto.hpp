@@ -168,6 +168,10 @@ inline bool auto_fills_time(const Budget& budget) noexcept {
   return budget.sweeps == 0 && budget.clock.valid() && budget.seconds < std::numeric_limits<double>::infinity();
 }
 
+// solve_auto returns a Solution (a std::vector of spins) and builds its kernels on the heap:
+// with SPINWRIGHT_NO_HEAP it is not declared (docs/embedding.md); choose_kernel above is.
+#if !SPINWRIGHT_NO_HEAP
+
 namespace detail {
 
 // Time-filling annealing (see the rule at the top of this header).
@@ -234,7 +238,7 @@ Solution<typename Model::energy_type> auto_fill_anneal(const Model& model, std::
       keep(quick);
     } else if (r != StopReason::stopped) {
       // A finished schedule ends cold: steepest descent takes a few moves.
-      descender.warm_start(spins, restart);
+      descender.warm_start(spins, seed, restart);
       descender.advance(descent_budget, none);
       keep(descender);
     } else if (!have || energy < out.energy) {
@@ -338,6 +342,8 @@ Solution<typename Model::energy_type> solve_auto(const Model& model, std::uint64
     }
   }
 }
+
+#endif  // !SPINWRIGHT_NO_HEAP
 
 }  // namespace spinwright
 

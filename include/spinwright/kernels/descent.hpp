@@ -25,6 +25,7 @@
 #include "../moves/single_flip.hpp"
 #include "../rng/xoshiro.hpp"
 #include "../state/spin_state.hpp"
+#include "detail/drive.hpp"
 #include "solution.hpp"
 
 #include <cstddef>      // std::size_t
@@ -46,7 +47,7 @@ struct DescentParams {
 };
 
 template <class Model, class Move = SingleFlip<Model>>
-class Descender {
+class Descender : public detail::Drive<Descender<Model, Move>> {
   static_assert(is_enumerable_move_v<Move, Model>,
                 "Move cannot drive descent: it needs a nested proposal_type and the members "
                 "delta(state, proposal), apply(state, proposal, delta), neighbourhood_size(state) and "
@@ -57,6 +58,10 @@ class Descender {
   using move_type = Move;
   using state_type = SpinState<Model>;
   using energy_type = typename Model::energy_type;
+
+  /// A kernel keeps a pointer to its model: building one over a temporary is refused.
+  template <class... Args>
+  Descender(const Model&&, Args&&...) = delete;
 
 #if !SPINWRIGHT_NO_HEAP
   Descender(const Model& model, const DescentParams& params, std::uint64_t seed, std::uint64_t restart = 0)
@@ -69,14 +74,20 @@ class Descender {
 #endif
 
   /// The same with the state carved from a caller-supplied arena (no heap); check valid().
+  Descender(const Model& model, const DescentParams& params, Arena& arena, std::uint64_t seed,
+            std::uint64_t restart = 0)
+      : Descender(model, params, Move{}, arena, seed, restart) {}
+
   Descender(const Model& model, const DescentParams& params, Move move, Arena& arena, std::uint64_t seed,
             std::uint64_t restart = 0)
       : model_(&model), rule_(params.rule), state_(model, arena), move_(std::move(move)) {
     if (valid()) init(params, seed, restart);
   }
 
-  /// Arena bytes the arena constructor needs (the move's own storage not included).
-  static std::size_t bytes_needed(const Model& model) { return state_type::bytes_needed(model.num_spins()); }
+  /// Arena bytes the arena constructors need (the move's own storage not included).
+  static std::size_t bytes_needed(const Model& model, const DescentParams& = {}) {
+    return state_type::bytes_needed(model.num_spins());
+  }
   bool valid() const noexcept { return state_.valid(); }
 
   /// Random spins from Xoshiro256::for_restart(seed, restart). No allocation.
@@ -87,8 +98,9 @@ class Descender {
     start();
   }
 
-  /// Start from given spins. No allocation (beyond a move's first prepare()).
-  void warm_start(const std::int8_t* spins, std::uint64_t restart = 0) {
+  /// Start from given spins. Descent draws no random numbers, so `seed` only keeps the surface
+  /// of every kernel. No allocation (beyond a move's first prepare()).
+  void warm_start(const std::int8_t* spins, std::uint64_t /*seed*/, std::uint64_t restart = 0) {
     state_.set_spins(spins);
     restart_ = restart;
     start();
@@ -102,46 +114,22 @@ class Descender {
     return moves;
   }
 
-  /// Runs to a local minimum or until the budget ends (budget sweeps = passes; 0 = no limit).
-  /// Allocates nothing. `seconds` receives the elapsed clock time.
-  template <class Observer>
-  StopReason advance(const Budget& budget, Observer& observer, double* seconds = nullptr) {
-    const std::uint64_t limit = budget.sweeps != 0 ? budget.sweeps : std::numeric_limits<std::uint64_t>::max();
-    BudgetGuard guard(budget);
-    guard.start();
-    StopReason why = StopReason::budget_exhausted;
-    const std::uint64_t first = passes_;
-    while (!done_ && !guard.should_stop(passes_ - first, limit, static_cast<double>(state_.energy()), why)) {
-      if (pass() != 0) notify_improvement(observer, passes_, static_cast<double>(state_.energy()));
-    }
-    if (done_ && budget.has_target && static_cast<double>(state_.energy()) <= budget.target)
-      why = StopReason::target_reached;
-    if (seconds != nullptr) *seconds = guard.elapsed();
-    return why;
-  }
-
-#if !SPINWRIGHT_NO_HEAP
-  template <class Observer>
-  Solution<energy_type> run(const Budget& budget, Observer& observer) {
-    double seconds = 0;
-    const StopReason why = advance(budget, observer, &seconds);
-    Solution<energy_type> s = solution();
-    s.reason = why;
-    s.seconds = seconds;
-    return s;
-  }
-  Solution<energy_type> run(const Budget& budget = Budget{}) {
-    NoObserver none;
-    return run(budget, none);
-  }
-#endif
-
   /// True once a whole neighbourhood has been seen without an improving move.
   bool done() const noexcept { return done_; }
   const state_type& state() const noexcept { return state_; }
   energy_type energy() const noexcept { return state_.energy(); }
   Move& move() noexcept { return move_; }
   std::uint64_t passes() const noexcept { return passes_; }
+  std::uint64_t sweeps_done() const noexcept { return passes_; }
+
+  /// The current state, which descent never raises: the best so far.
+  BestView<energy_type> best() const noexcept { return {state_.spins(), state_.size(), state_.energy(), passes_}; }
+
+  // The drive loop's questions (kernels/detail/drive.hpp): budget sweeps are passes, and a
+  // Budget without sweeps runs to a local minimum.
+  std::uint64_t default_sweeps() const noexcept { return unlimited_sweeps; }
+  std::uint64_t progress_every() const noexcept { return 0; }
+  double best_for_target() const noexcept { return static_cast<double>(state_.energy()); }
   std::uint64_t attempted() const noexcept { return attempted_; }
   std::uint64_t accepted() const noexcept { return accepted_; }
 
@@ -160,6 +148,10 @@ class Descender {
 #endif
 
  private:
+  friend class detail::Drive<Descender>;
+  bool settled() const noexcept { return done_; }
+  bool sweep_once() { return pass() != 0; }
+
   void init(const DescentParams& params, std::uint64_t seed, std::uint64_t restart) {
     if constexpr (std::is_integral_v<energy_type>) {
       tolerance_ = 0;
@@ -167,7 +159,7 @@ class Descender {
       tolerance_ = 1e-12 * (1 + model_->energy_bound());
     }
     if (params.initial != nullptr) {
-      warm_start(params.initial, restart);
+      warm_start(params.initial, seed, restart);
     } else {
       reset(seed, restart);
     }

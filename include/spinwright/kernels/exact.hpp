@@ -74,6 +74,10 @@ struct ExactLevel {
   std::uint64_t first_index = 0;
 };
 
+// Exact enumeration returns its answer in std::vectors: with SPINWRIGHT_NO_HEAP it is not
+// declared (docs/embedding.md).
+#if !SPINWRIGHT_NO_HEAP
+
 template <class Energy>
 struct ExactResult {
   Energy energy{};                         // ground energy (recomputed from the model for the reported state)
@@ -278,6 +282,8 @@ Result<ExactResult<typename Model::energy_type>> solve_exact(const Model& model,
   }
   return detail::exact_finish(model, plan, total);
 }
+
+#endif  // !SPINWRIGHT_NO_HEAP
 
 }  // namespace spinwright
 

@@ -31,10 +31,13 @@
 #ifndef SPINWRIGHT_KERNELS_TABU_HPP
 #define SPINWRIGHT_KERNELS_TABU_HPP
 
+#include "../arena.hpp"
 #include "../config.hpp"
+#include "../detail/buffer.hpp"
 #include "../control.hpp"
 #include "../rng/xoshiro.hpp"
 #include "../state/spin_state.hpp"
+#include "detail/drive.hpp"
 #include "detail/min_tree.hpp"
 #include "solution.hpp"
 
@@ -42,7 +45,6 @@
 #include <cstdint>  // std::int8_t, std::uint32_t, std::uint64_t
 #include <cstring>  // std::memcpy
 #include <limits>   // std::numeric_limits
-#include <vector>   // std::vector (allocated at construction only)
 
 namespace spinwright {
 
@@ -57,57 +59,70 @@ struct TabuParams {
 };
 
 template <class Model>
-class TabuWalker {
+class TabuWalker : public detail::Drive<TabuWalker<Model>> {
  public:
   using model_type = Model;
   using state_type = SpinState<Model>;
   using energy_type = typename Model::energy_type;
   using index_type = typename Model::index_type;
 
+  /// A kernel keeps a pointer to its model: building one over a temporary is refused.
+  template <class... Args>
+  TabuWalker(const Model&&, Args&&...) = delete;
+
+#if !SPINWRIGHT_NO_HEAP
+  /// Random start state from (seed, restart), or params.initial; the workspace on the heap.
   TabuWalker(const Model& model, const TabuParams& params, std::uint64_t seed, std::uint64_t restart = 0)
       : model_(&model),
         params_(params),
         n_(model.num_spins()),
+        plan_(plan_for(n_, params)),
         state_(model),
-        free_(model.num_spins()),
-        tabu_(model.num_spins()),
-        best_spins_(model.num_spins(), 1),
-        tabu_until_(model.num_spins(), 0),
-        order_(model.num_spins(), 0),
-        leaf_of_(model.num_spins(), 0),
-        spin_at_(free_.leaves(), 0) {
-    base_tenure_ = params.tenure;
-    if (base_tenure_ == 0) {
-      // Tuned on the bqp250 and G-set max-cut instances (docs/time-to-target.md): short tenures
-      // cycle on graphs with many equal deltas.
-      base_tenure_ = n_ / 4 < 10 ? n_ / 4 : 10;
-      if (n_ / 10 > base_tenure_) base_tenure_ = n_ / 10;
-    }
-    if (base_tenure_ < 1) base_tenure_ = 1;
-    spread_ = params.tenure_spread == 0 && params.tenure == 0 ? base_tenure_ / 2 : params.tenure_spread;
-    // At least one spin must stay free: tenure + spread <= N - 1 (0 for N <= 1).
-    const std::size_t cap = n_ > 1 ? n_ - 1 : 0;
-    if (base_tenure_ > cap) base_tenure_ = cap;
-    if (base_tenure_ + spread_ > cap) spread_ = cap - base_tenure_;
-    ring_spin_.assign(base_tenure_ + spread_ + 2, 0);
-    ring_stamp_.assign(base_tenure_ + spread_ + 2, 0);
-    stagnation_ = params.stagnation != 0 ? params.stagnation : (20 * n_ > 1000 ? 20 * n_ : 1000);
-    perturb_count_ = static_cast<std::size_t>(params.perturb_fraction * static_cast<double>(n_));
-    if (perturb_count_ < 1) perturb_count_ = 1;
-    if (perturb_count_ > n_) perturb_count_ = n_;
-    for (std::size_t i = 0; i < n_; ++i) {
-      order_[i] = static_cast<index_type>(i);
-      leaf_of_[i] = static_cast<std::uint32_t>(i);
-      spin_at_[i] = static_cast<index_type>(i);
-    }
-    point_cost_limit_ = free_.leaves();
-    log_leaves_ = 1;
-    for (std::size_t l = free_.leaves(); l > 1; l /= 2) ++log_leaves_;
-    if (params.initial != nullptr) {
-      warm_start(params.initial, seed, restart);
-    } else {
-      reset(seed, restart);
-    }
+        free_(n_),
+        tabu_(n_),
+        best_spins_(n_, 1),
+        tabu_until_(n_, 0),
+        order_(n_, 0),
+        leaf_of_(n_, 0),
+        spin_at_(free_.leaves(), 0),
+        ring_spin_(plan_.ring, 0),
+        ring_stamp_(plan_.ring, 0) {
+    init(seed, restart);
+  }
+#endif
+
+  /// The same with the workspace carved from a caller-supplied arena; check valid().
+  TabuWalker(const Model& model, const TabuParams& params, Arena& arena, std::uint64_t seed, std::uint64_t restart = 0)
+      : model_(&model),
+        params_(params),
+        n_(model.num_spins()),
+        plan_(plan_for(n_, params)),
+        state_(model, arena),
+        free_(n_, arena),
+        tabu_(n_, arena),
+        best_spins_(n_, arena, 1),
+        tabu_until_(n_, arena, 0),
+        order_(n_, arena, 0),
+        leaf_of_(n_, arena, 0),
+        spin_at_(detail::MinTree<energy_type>::leaves_for(n_), arena, 0),
+        ring_spin_(plan_.ring, arena, 0),
+        ring_stamp_(plan_.ring, arena, 0) {
+    if (valid()) init(seed, restart);
+  }
+
+  /// Arena bytes the arena constructor needs.
+  static std::size_t bytes_needed(const Model& model, const TabuParams& params) {
+    const std::size_t n = model.num_spins();
+    const std::size_t ring = plan_for(n, params).ring;
+    return state_type::bytes_needed(n) + 2 * detail::MinTree<energy_type>::bytes_needed(n) +
+           arena_bytes<std::int8_t>(n) + arena_bytes<std::uint64_t>(n) + arena_bytes<index_type>(n) +
+           arena_bytes<std::uint32_t>(n) + arena_bytes<index_type>(detail::MinTree<energy_type>::leaves_for(n)) +
+           arena_bytes<index_type>(ring) + arena_bytes<std::uint64_t>(ring);
+  }
+
+  bool valid() const noexcept {
+    return state_.valid() && free_.valid() && tabu_.valid() && best_spins_.valid() && tabu_until_.valid() &&
+           order_.valid() && leaf_of_.valid() && spin_at_.valid() && ring_spin_.valid() && ring_stamp_.valid();
   }
 
   /// Restart: new RNG stream (seed, restart), random spins, counters and best cleared.
@@ -126,37 +141,9 @@ class TabuWalker {
     start();
   }
 
-  /// n sweeps of N moves each. No allocation.
-  void step(std::uint64_t n_sweeps = 1) {
-    for (std::uint64_t k = 0; k < n_sweeps; ++k) sweep_once();
-  }
-
   /// n single moves (a sweep is N of them); the sweep counter is not advanced. No allocation.
   void step_moves(std::uint64_t n_moves) {
     for (std::uint64_t k = 0; k < n_moves && n_ > 0; ++k) move_once();
-  }
-
-  template <class Observer>
-  Solution<energy_type> run(const Budget& budget, Observer& observer) {
-    const std::uint64_t limit = budget.sweeps != 0 ? budget.sweeps : params_.sweeps;
-    BudgetGuard guard(budget);
-    guard.start();
-    StopReason why = StopReason::budget_exhausted;
-    const std::uint64_t first = sweeps_;
-    while (!guard.should_stop(sweeps_ - first, limit, static_cast<double>(best_energy_), why)) {
-      if (sweep_once()) notify_improvement(observer, sweeps_, static_cast<double>(best_energy_));
-      if (params_.progress_every != 0 && sweeps_ % params_.progress_every == 0) {
-        notify_progress(observer, sweeps_, static_cast<double>(best_energy_));
-      }
-    }
-    Solution<energy_type> s = solution();
-    s.reason = why;
-    s.seconds = guard.elapsed();
-    return s;
-  }
-  Solution<energy_type> run(const Budget& budget = Budget{}) {
-    NoObserver none;
-    return run(budget, none);
   }
 
   BestView<energy_type> best() const noexcept {
@@ -164,6 +151,8 @@ class TabuWalker {
     return {best_spins_.data(), best_spins_.size(), best_energy_, best_sweep_};
   }
 
+#if !SPINWRIGHT_NO_HEAP
+  /// The best state as a Solution (allocates its spin vector); the energy is recomputed.
   Solution<energy_type> solution() const {
     sync_best();
     Solution<energy_type> s;
@@ -175,6 +164,7 @@ class TabuWalker {
     s.restart = restart_;
     return s;
   }
+#endif
 
   const state_type& state() const noexcept { return state_; }
   const Model& model() const noexcept { return *model_; }
@@ -183,8 +173,67 @@ class TabuWalker {
   std::uint64_t perturbations() const noexcept { return perturbations_; }
   std::size_t tenure() const noexcept { return tenure_; }
 
+  // The drive loop's questions (kernels/detail/drive.hpp).
+  std::uint64_t default_sweeps() const noexcept { return params_.sweeps; }
+  std::uint64_t progress_every() const noexcept { return params_.progress_every; }
+  double best_for_target() const noexcept { return static_cast<double>(best_energy_); }
+
  private:
+  friend class detail::Drive<TabuWalker>;
   static constexpr energy_type inf = detail::MinTree<energy_type>::infinity();
+
+  // Sizes fixed at construction: the tenure and its random spread, the FIFO of flips, the
+  // stagnation limit and the size of a perturbation.
+  struct Plan {
+    std::size_t tenure = 1;
+    std::size_t spread = 0;
+    std::size_t ring = 2;
+    std::uint64_t stagnation = 1000;
+    std::size_t perturb = 1;
+  };
+
+  static Plan plan_for(std::size_t n, const TabuParams& params) noexcept {
+    Plan p;
+    p.tenure = params.tenure;
+    if (p.tenure == 0) {
+      // Tuned on the bqp250 and G-set max-cut instances (docs/time-to-target.md): short tenures
+      // cycle on graphs with many equal deltas.
+      p.tenure = n / 4 < 10 ? n / 4 : 10;
+      if (n / 10 > p.tenure) p.tenure = n / 10;
+    }
+    if (p.tenure < 1) p.tenure = 1;
+    p.spread = params.tenure_spread == 0 && params.tenure == 0 ? p.tenure / 2 : params.tenure_spread;
+    // At least one spin must stay free: tenure + spread <= N - 1 (0 for N <= 1).
+    const std::size_t cap = n > 1 ? n - 1 : 0;
+    if (p.tenure > cap) p.tenure = cap;
+    if (p.tenure + p.spread > cap) p.spread = cap - p.tenure;
+    p.ring = p.tenure + p.spread + 2;
+    p.stagnation = params.stagnation != 0 ? params.stagnation : (20 * n > 1000 ? 20 * n : 1000);
+    p.perturb = static_cast<std::size_t>(params.perturb_fraction * static_cast<double>(n));
+    if (p.perturb < 1) p.perturb = 1;
+    if (p.perturb > n) p.perturb = n;
+    return p;
+  }
+
+  void init(std::uint64_t seed, std::uint64_t restart) {
+    base_tenure_ = plan_.tenure;
+    spread_ = plan_.spread;
+    stagnation_ = plan_.stagnation;
+    perturb_count_ = plan_.perturb;
+    for (std::size_t i = 0; i < n_; ++i) {
+      order_[i] = static_cast<index_type>(i);
+      leaf_of_[i] = static_cast<std::uint32_t>(i);
+      spin_at_[i] = static_cast<index_type>(i);
+    }
+    point_cost_limit_ = free_.leaves();
+    log_leaves_ = 1;
+    for (std::size_t l = free_.leaves(); l > 1; l /= 2) ++log_leaves_;
+    if (params_.initial != nullptr) {
+      warm_start(params_.initial, seed, restart);
+    } else {
+      reset(seed, restart);
+    }
+  }
 
   void start() {
     sweeps_ = moves_ = perturbations_ = 0;
@@ -328,16 +377,17 @@ class TabuWalker {
   const Model* model_;
   TabuParams params_;
   std::size_t n_;
+  Plan plan_;
   state_type state_;
   detail::MinTree<energy_type> free_;
   detail::MinTree<energy_type> tabu_;
-  mutable std::vector<std::int8_t> best_spins_;
-  std::vector<std::uint64_t> tabu_until_;  // spin i is tabu while moves_ < tabu_until_[i]
-  std::vector<index_type> order_;
-  std::vector<std::uint32_t> leaf_of_;  // spin -> leaf of the trees
-  std::vector<index_type> spin_at_;     // leaf -> spin (padding leaves hold 0 and +inf keys)
-  std::vector<index_type> ring_spin_;   // FIFO of flipped spins and their move numbers
-  std::vector<std::uint64_t> ring_stamp_;
+  mutable detail::Buffer<std::int8_t> best_spins_;
+  detail::Buffer<std::uint64_t> tabu_until_;  // spin i is tabu while moves_ < tabu_until_[i]
+  detail::Buffer<index_type> order_;
+  detail::Buffer<std::uint32_t> leaf_of_;  // spin -> leaf of the trees
+  detail::Buffer<index_type> spin_at_;     // leaf -> spin (padding leaves hold 0 and +inf keys)
+  detail::Buffer<index_type> ring_spin_;   // FIFO of flipped spins and their move numbers
+  detail::Buffer<std::uint64_t> ring_stamp_;
   std::size_t ring_head_ = 0;
   std::size_t ring_size_ = 0;
   std::size_t base_tenure_ = 1;
@@ -358,7 +408,8 @@ class TabuWalker {
   std::uint64_t restart_ = 0;
 };
 
-/// One tabu search run (restart `restart` of `seed`).
+#if !SPINWRIGHT_NO_HEAP
+/// One tabu walk (restart `restart` of `seed`).
 template <class Model>
 Solution<typename Model::energy_type> tabu_walk(const Model& model, const TabuParams& params, std::uint64_t seed,
                                                 std::uint64_t restart = 0, const Budget& budget = Budget{}) {
@@ -373,6 +424,7 @@ Solution<typename Model::energy_type> tabu_walk(const Model& model, const TabuPa
   TabuWalker<Model> t(model, params, seed, restart);
   return t.run(budget, observer);
 }
+#endif  // !SPINWRIGHT_NO_HEAP
 
 }  // namespace spinwright
 

@@ -36,11 +36,16 @@
 #ifndef SPINWRIGHT_KERNELS_TEMPER_HPP
 #define SPINWRIGHT_KERNELS_TEMPER_HPP
 
+#include "../arena.hpp"
 #include "../config.hpp"
+#include "../detail/buffer.hpp"
+#include "../detail/object_array.hpp"
+#include "../model/span.hpp"
 #include "../control.hpp"
 #include "../rng/xoshiro.hpp"
 #include "../state/spin_state.hpp"
 #include "../moves/single_flip.hpp"  // SiteOrder
+#include "detail/drive.hpp"
 #include "detail/hazard_sweep.hpp"
 #include "acceptance.hpp"
 #include "beta_span.hpp"
@@ -100,67 +105,98 @@ struct TemperSolution : Solution<Energy> {
 };
 
 template <class Model>
-class Tempering {
+class Tempering : public detail::Drive<Tempering<Model>> {
  public:
   using model_type = Model;
   using state_type = SpinState<Model>;
   using energy_type = typename Model::energy_type;
   using index_type = typename Model::index_type;
 
+  /// A kernel keeps a pointer to its model: building one over a temporary is refused.
+  template <class... Args>
+  Tempering(const Model&&, Args&&...) = delete;
+
+#if !SPINWRIGHT_NO_HEAP
+  /// Random start states from (seed, restart), or params.initial; the workspace on the heap.
   Tempering(const Model& model, const TemperParams& params, std::uint64_t seed, std::uint64_t restart = 0)
-      : model_(&model), params_(params), n_(model.num_spins()) {
-    const Ladder& lad = params.ladder;
-    std::size_t t = lad.temperatures;
-    if (t == 0) {
-      t = static_cast<std::size_t>(std::sqrt(static_cast<double>(n_))) + 4;
-      if (t > 32) t = 32;
-    }
-    if (t < 2) t = 2;
-    temps_ = t;
-    sets_ = params.houdayer ? 2 : 1;
-    betas_.assign(temps_, 1.0);
-    if (lad.shape == LadderShape::listed && lad.betas != nullptr) {
-      for (std::size_t k = 0; k < temps_; ++k) betas_[k] = lad.betas[k];
-    } else {
-      double b0 = lad.beta_min;
-      double b1 = lad.beta_max;
-      if (b0 == 0 && b1 == 0) {
-        const BetaSpan r = estimate_beta_span(model);
-        b0 = r.beta_start;
-        b1 = r.beta_end;
-      }
-      if (b1 < b0) b1 = b0;
-      for (std::size_t k = 0; k < temps_; ++k) {
-        const double f = static_cast<double>(k) / static_cast<double>(temps_ - 1);
-        betas_[k] = (lad.shape == LadderShape::linear || b0 <= 0) ? b0 + (b1 - b0) * f : b0 * std::pow(b1 / b0, f);
-      }
-    }
-    adapt_left_ = lad.adaptive ? lad.adapt_rounds : 0;
-    replicas_.reserve(temps_ * sets_);
-    for (std::size_t r = 0; r < temps_ * sets_; ++r) replicas_.emplace_back(model);
-    acceptors_.reserve(temps_);
-    for (std::size_t k = 0; k < temps_; ++k) {
-      acceptors_.push_back(make_acceptor(model, Acceptance::metropolis, params.table_limit, params.hazard_below > 0));
-      acceptors_.back().set_beta(betas_[k]);
-    }
-    swap_tried_.assign(temps_ - 1, 0);
-    swap_done_.assign(temps_ - 1, 0);
-    rates_.assign(temps_ * sets_, 1.0);
-    moments_.assign(3 * temps_, 0.0);
-    sigma_.assign(temps_, 0.0);
-    cumulative_.assign(temps_, 0.0);
-    old_betas_.assign(temps_, 0.0);
-    best_spins_.assign(n_, 1);
-    if (params.houdayer) {
-      stack_.assign(n_, 0);
-      mark_.assign(n_, 0);
-      differ_.assign(n_, 0);
-    }
-    if (params.initial != nullptr) {
-      warm_start(params.initial, seed, restart);
-    } else {
-      reset(seed, restart);
-    }
+      : model_(&model),
+        params_(params),
+        n_(model.num_spins()),
+        temps_(rungs_for(n_, params)),
+        sets_(params.houdayer ? 2 : 1),
+        betas_(temps_, 1.0),
+        replicas_(temps_ * sets_, [&model](std::size_t) { return state_type(model); }),
+        acceptors_(temps_,
+                   [&](std::size_t) {
+                     return make_acceptor(model, Acceptance::metropolis, params.table_limit, params.hazard_below > 0);
+                   }),
+        rates_(temps_ * sets_, 1.0),
+        slot_(temps_ * sets_, 0),
+        swap_tried_(temps_ - 1, 0),
+        swap_done_(temps_ - 1, 0),
+        moments_(3 * temps_, 0.0),
+        sigma_(temps_, 0.0),
+        cumulative_(temps_, 0.0),
+        old_betas_(temps_, 0.0),
+        stack_(params.houdayer ? n_ : 0, 0),
+        differ_(params.houdayer ? n_ : 0, 0),
+        mark_(params.houdayer ? n_ : 0, 0),
+        best_spins_(n_, 1) {
+    init(seed, restart);
+  }
+#endif
+
+  /// The same with the workspace carved from a caller-supplied arena; check valid().
+  Tempering(const Model& model, const TemperParams& params, Arena& arena, std::uint64_t seed, std::uint64_t restart = 0)
+      : model_(&model),
+        params_(params),
+        n_(model.num_spins()),
+        temps_(rungs_for(n_, params)),
+        sets_(params.houdayer ? 2 : 1),
+        betas_(temps_, arena, 1.0),
+        replicas_(temps_ * sets_, arena, [&](std::size_t) { return state_type(model, arena); }),
+        acceptors_(temps_, arena,
+                   [&](std::size_t) {
+                     return make_acceptor(model, Acceptance::metropolis, params.table_limit, arena,
+                                          params.hazard_below > 0);
+                   }),
+        rates_(temps_ * sets_, arena, 1.0),
+        slot_(temps_ * sets_, arena, 0),
+        swap_tried_(temps_ - 1, arena, 0),
+        swap_done_(temps_ - 1, arena, 0),
+        moments_(3 * temps_, arena, 0.0),
+        sigma_(temps_, arena, 0.0),
+        cumulative_(temps_, arena, 0.0),
+        old_betas_(temps_, arena, 0.0),
+        stack_(params.houdayer ? n_ : 0, arena, 0),
+        differ_(params.houdayer ? n_ : 0, arena, 0),
+        mark_(params.houdayer ? n_ : 0, arena, 0),
+        best_spins_(n_, arena, 1) {
+    if (valid()) init(seed, restart);
+  }
+
+  /// Arena bytes the arena constructor needs.
+  static std::size_t bytes_needed(const Model& model, const TemperParams& params) {
+    const std::size_t n = model.num_spins();
+    const std::size_t t = rungs_for(n, params);
+    const std::size_t r = t * (params.houdayer ? 2 : 1);
+    const std::size_t h = params.houdayer ? n : 0;
+    const std::size_t acceptor =
+        acceptor_bytes(model, Acceptance::metropolis, params.table_limit, params.hazard_below > 0);
+    return arena_bytes<double>(t) + detail::ObjectArray<state_type>::bytes_needed(r) + r * state_type::bytes_needed(n) +
+           detail::ObjectArray<Acceptor<energy_type>>::bytes_needed(t) + t * acceptor + arena_bytes<double>(r) +
+           arena_bytes<std::size_t>(r) + 2 * arena_bytes<std::uint64_t>(t - 1) + arena_bytes<double>(3 * t) +
+           3 * arena_bytes<double>(t) + 2 * arena_bytes<index_type>(h) + arena_bytes<std::uint8_t>(h) +
+           arena_bytes<std::int8_t>(n);
+  }
+
+  bool valid() const noexcept {
+    bool ok = betas_.valid() && replicas_.valid() && acceptors_.valid() && rates_.valid() && slot_.valid() &&
+              swap_tried_.valid() && swap_done_.valid() && moments_.valid() && sigma_.valid() && cumulative_.valid() &&
+              old_betas_.valid() && stack_.valid() && differ_.valid() && mark_.valid() && best_spins_.valid();
+    for (const auto& r : replicas_) ok = ok && r.valid();
+    for (const auto& a : acceptors_) ok = ok && a.valid();
+    return ok;
   }
 
   /// Restart: new RNG stream (seed, restart), independent random spins for every replica,
@@ -181,38 +217,11 @@ class Tempering {
     start();
   }
 
-  /// n sweeps (each: a Metropolis sweep of every replica, cluster moves, swaps). No allocation.
-  void step(std::uint64_t n_sweeps = 1) {
-    for (std::uint64_t k = 0; k < n_sweeps; ++k) sweep_once();
-  }
-
-  template <class Observer>
-  TemperSolution<energy_type> run(const Budget& budget, Observer& observer) {
-    const std::uint64_t limit = budget.sweeps != 0 ? budget.sweeps : params_.sweeps;
-    BudgetGuard guard(budget);
-    guard.start();
-    StopReason why = StopReason::budget_exhausted;
-    const std::uint64_t first = sweeps_;
-    while (!guard.should_stop(sweeps_ - first, limit, static_cast<double>(best_energy_), why)) {
-      if (sweep_once()) notify_improvement(observer, sweeps_, static_cast<double>(best_energy_));
-      if (params_.progress_every != 0 && sweeps_ % params_.progress_every == 0) {
-        notify_progress(observer, sweeps_, static_cast<double>(best_energy_));
-      }
-    }
-    TemperSolution<energy_type> s = solution();
-    s.reason = why;
-    s.seconds = guard.elapsed();
-    return s;
-  }
-  TemperSolution<energy_type> run(const Budget& budget = Budget{}) {
-    NoObserver none;
-    return run(budget, none);
-  }
-
   BestView<energy_type> best() const noexcept {
     return {best_spins_.data(), best_spins_.size(), best_energy_, best_sweep_};
   }
 
+#if !SPINWRIGHT_NO_HEAP
   /// The best state, the ladder and the swap acceptances (allocates). The energy is recomputed
   /// from the model.
   TemperSolution<energy_type> solution() const {
@@ -223,7 +232,7 @@ class Tempering {
     s.attempted = attempted_;
     s.accepted = accepted_;
     s.restart = restart_;
-    s.betas = betas_;
+    s.betas.assign(betas_.begin(), betas_.end());
     s.swap_acceptance = swap_acceptance();
     s.swap_attempts = swap_tried_.empty() ? 0 : swap_tried_[0];
     s.cluster_moves = cluster_moves_;
@@ -239,6 +248,7 @@ class Tempering {
     }
     return a;
   }
+#endif
 
   /// One Houdayer cluster move between the two replicas on rung k (params.houdayer must be set;
   /// asserted). Returns the number of sites flipped in each replica (0 when the replicas are
@@ -253,7 +263,7 @@ class Tempering {
   std::size_t temperatures() const noexcept { return temps_; }
   std::size_t replicas() const noexcept { return replicas_.size(); }
   double beta(std::size_t k) const noexcept { return betas_[k]; }
-  const std::vector<double>& betas() const noexcept { return betas_; }
+  Span<double> betas() const noexcept { return {betas_.data(), betas_.size()}; }
   /// The replica on rung k of replica set `set` (0, or 1 with Houdayer moves).
   const state_type& state(std::size_t k, std::size_t set = 0) const noexcept {
     return replicas_[slot_[set * temps_ + k]];
@@ -264,10 +274,54 @@ class Tempering {
   std::uint64_t sweeps_done() const noexcept { return sweeps_; }
   bool adapting() const noexcept { return adapt_left_ > 0; }
 
+  // The drive loop's questions (kernels/detail/drive.hpp).
+  std::uint64_t default_sweeps() const noexcept { return params_.sweeps; }
+  std::uint64_t progress_every() const noexcept { return params_.progress_every; }
+  double best_for_target() const noexcept { return static_cast<double>(best_energy_); }
+
  private:
+  friend class detail::Drive<Tempering>;
+
+  // Rungs: the ladder's count, or clamp(sqrt(N) + 4, 2, 32) when 0; at least 2.
+  static std::size_t rungs_for(std::size_t n, const TemperParams& params) noexcept {
+    std::size_t t = params.ladder.temperatures;
+    if (t == 0) {
+      t = static_cast<std::size_t>(std::sqrt(static_cast<double>(n))) + 4;
+      if (t > 32) t = 32;
+    }
+    return t < 2 ? 2 : t;
+  }
+
+  // The ladder (listed, or geometric / linear over the given or estimated span), then the start.
+  void init(std::uint64_t seed, std::uint64_t restart) {
+    const Ladder& lad = params_.ladder;
+    if (lad.shape == LadderShape::listed && lad.betas != nullptr) {
+      for (std::size_t k = 0; k < temps_; ++k) betas_[k] = lad.betas[k];
+    } else {
+      double b0 = lad.beta_min;
+      double b1 = lad.beta_max;
+      if (b0 == 0 && b1 == 0) {
+        const BetaSpan r = estimate_beta_span(*model_);
+        b0 = r.beta_start;
+        b1 = r.beta_end;
+      }
+      if (b1 < b0) b1 = b0;
+      for (std::size_t k = 0; k < temps_; ++k) {
+        const double f = static_cast<double>(k) / static_cast<double>(temps_ - 1);
+        betas_[k] = (lad.shape == LadderShape::linear || b0 <= 0) ? b0 + (b1 - b0) * f : b0 * std::pow(b1 / b0, f);
+      }
+    }
+    for (std::size_t k = 0; k < temps_; ++k) acceptors_[k].set_beta(betas_[k]);
+    adapt_left_ = lad.adaptive ? lad.adapt_rounds : 0;
+    if (params_.initial != nullptr) {
+      warm_start(params_.initial, seed, restart);
+    } else {
+      reset(seed, restart);
+    }
+  }
+
   void start() {
     for (auto& a : acceptors_) a.retune(*model_);  // honour in-place coefficient edits (no allocation)
-    slot_.resize(temps_ * sets_);                  // no-op after construction (same size)
     for (std::size_t s = 0; s < sets_; ++s)
       for (std::size_t k = 0; k < temps_; ++k) slot_[s * temps_ + k] = s * temps_ + k;
     for (std::size_t k = 0; k + 1 < temps_; ++k) swap_tried_[k] = swap_done_[k] = 0;
@@ -462,21 +516,21 @@ class Tempering {
   std::size_t n_;
   std::size_t temps_ = 2;
   std::size_t sets_ = 1;
-  std::vector<double> betas_;
-  std::vector<state_type> replicas_;
-  std::vector<Acceptor<energy_type>> acceptors_;
-  std::vector<double> rates_;      // per replica: accepted fraction of its previous sweep
-  std::vector<std::size_t> slot_;  // slot_[set * T + k]: the replica on rung k of that set
-  std::vector<std::uint64_t> swap_tried_;
-  std::vector<std::uint64_t> swap_done_;
-  std::vector<double> moments_;  // adaptive warm-up: count, sum E, sum E^2 per rung
-  std::vector<double> sigma_;
-  std::vector<double> cumulative_;
-  std::vector<double> old_betas_;
-  std::vector<index_type> stack_;
-  std::vector<index_type> differ_;
-  std::vector<std::uint8_t> mark_;
-  std::vector<std::int8_t> best_spins_;
+  detail::Buffer<double> betas_;
+  detail::ObjectArray<state_type> replicas_;
+  detail::ObjectArray<Acceptor<energy_type>> acceptors_;
+  detail::Buffer<double> rates_;      // per replica: accepted fraction of its previous sweep
+  detail::Buffer<std::size_t> slot_;  // slot_[set * T + k]: the replica on rung k of that set
+  detail::Buffer<std::uint64_t> swap_tried_;
+  detail::Buffer<std::uint64_t> swap_done_;
+  detail::Buffer<double> moments_;  // adaptive warm-up: count, sum E, sum E^2 per rung
+  detail::Buffer<double> sigma_;
+  detail::Buffer<double> cumulative_;
+  detail::Buffer<double> old_betas_;
+  detail::Buffer<index_type> stack_;
+  detail::Buffer<index_type> differ_;
+  detail::Buffer<std::uint8_t> mark_;
+  detail::Buffer<std::int8_t> best_spins_;
   Xoshiro256 rng_{};
   energy_type best_energy_{};
   std::uint64_t best_sweep_ = 0;
@@ -490,6 +544,7 @@ class Tempering {
   std::uint64_t restart_ = 0;
 };
 
+#if !SPINWRIGHT_NO_HEAP
 /// One tempering run (restart `restart` of `seed`).
 template <class Model>
 TemperSolution<typename Model::energy_type> temper(const Model& model, const TemperParams& params, std::uint64_t seed,
@@ -505,6 +560,7 @@ TemperSolution<typename Model::energy_type> temper(const Model& model, const Tem
   Tempering<Model> t(model, params, seed, restart);
   return t.run(budget, observer);
 }
+#endif  // !SPINWRIGHT_NO_HEAP
 
 }  // namespace spinwright
 

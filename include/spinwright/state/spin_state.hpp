@@ -41,6 +41,10 @@ class SpinState {
   using energy_type = typename Model::energy_type;
   static constexpr Form form = Model::form;
 
+  // A state keeps a pointer to its model: building one over a temporary is refused.
+  explicit SpinState(const Model&&) = delete;
+  SpinState(const Model&&, Arena&) = delete;
+
 #if !SPINWRIGHT_NO_HEAP
   // All spins +1; the three arrays are allocated on the heap, once.
   explicit SpinState(const Model& model)

@@ -3,12 +3,13 @@
 #ifndef SPINWRIGHT_KERNELS_DETAIL_MIN_TREE_HPP
 #define SPINWRIGHT_KERNELS_DETAIL_MIN_TREE_HPP
 
+#include "../../arena.hpp"
 #include "../../config.hpp"
+#include "../../detail/buffer.hpp"
 
 #include <cstddef>  // std::size_t
 #include <cstdint>  // std::uint32_t
 #include <limits>   // std::numeric_limits
-#include <vector>   // std::vector
 
 namespace spinwright {
 namespace detail {
@@ -26,13 +27,26 @@ class MinTree {
   }
 
   MinTree() = default;
-  explicit MinTree(std::size_t n) {
-    leaves_ = 1;
-    while (leaves_ < n) leaves_ *= 2;
-    keys_.assign(leaves_, infinity());
-    node_.assign(2 * leaves_, 0);
+#if !SPINWRIGHT_NO_HEAP
+  explicit MinTree(std::size_t n) : leaves_(leaves_for(n)), keys_(leaves_, infinity()), node_(2 * leaves_, 0) {
     rebuild();
   }
+#endif
+  /// The same in a slice of an arena; check valid().
+  MinTree(std::size_t n, Arena& arena)
+      : leaves_(leaves_for(n)), keys_(leaves_, arena, infinity()), node_(2 * leaves_, arena, 0) {
+    if (valid()) rebuild();
+  }
+
+  static constexpr std::size_t leaves_for(std::size_t n) noexcept {
+    std::size_t l = 1;
+    while (l < n) l *= 2;
+    return l;
+  }
+  static constexpr std::size_t bytes_needed(std::size_t n) noexcept {
+    return arena_bytes<Energy>(leaves_for(n)) + arena_bytes<std::uint32_t>(2 * leaves_for(n));
+  }
+  bool valid() const noexcept { return keys_.valid() && node_.valid(); }
 
   std::size_t leaves() const noexcept { return leaves_; }
   std::uint32_t top() const noexcept { return node_[1]; }
@@ -64,8 +78,8 @@ class MinTree {
 
  private:
   std::size_t leaves_ = 1;
-  std::vector<Energy> keys_;
-  std::vector<std::uint32_t> node_;
+  Buffer<Energy> keys_;
+  Buffer<std::uint32_t> node_;
 };
 
 }  // namespace detail
