@@ -1,21 +1,19 @@
-// spinwright — immutable-structure sparse models: IsingModel and QuboModel.
-// Compressed rows with both directions of every pair stored and each neighbour list sorted.
-// Coefficients of existing terms can be edited in place (set_site_term / set_pair); the
-// sparsity pattern cannot change after build().
+// spinwright — immutable-structure sparse models: IsingModel and QuboModel, a SparseModelView
+// over compressed rows of their own (both directions of every pair stored, rows sorted).
+// Coefficients of existing terms can be edited in place (set_site_term / set_pair / set_offset);
+// the sparsity pattern cannot change after build().
 #ifndef SPINWRIGHT_MODEL_SPARSE_MODEL_HPP
 #define SPINWRIGHT_MODEL_SPARSE_MODEL_HPP
 
 #include "../config.hpp"
-#include "span.hpp"
-#include "detail/energy_range.hpp"
 #include "../status.hpp"
+#include "detail/energy_range.hpp"
 #include "form.hpp"
+#include "sparse_view.hpp"
 
-#include <cstddef>      // std::size_t
-#include <cstdint>      // std::int8_t, std::uint64_t
-#include <type_traits>  // std::enable_if_t
-#include <utility>      // std::move
-#include <vector>       // std::vector (models own their storage)
+#include <cstddef>  // std::size_t
+#include <utility>  // std::move
+#include <vector>   // std::vector (models own their storage)
 
 namespace spinwright {
 
@@ -23,147 +21,61 @@ namespace detail {
 struct ModelAccess;
 }
 
-// Figures a user looks at before choosing a kernel.
-struct ModelSummary {
-  std::size_t num_spins = 0;
-  std::size_t num_pairs = 0;
-  std::size_t num_site_terms = 0;  // non-zero fields (Ising) or unary terms (QUBO)
-  std::size_t min_degree = 0;
-  std::size_t max_degree = 0;
-  double largest_magnitude = 0;   // over non-zero linear and pair coefficients
-  double smallest_magnitude = 0;  // over non-zero linear and pair coefficients (0 if none)
-};
-
 template <Form F, class Value, class Index = std::uint32_t>
-class SparseModel {
-  static_assert(is_value_type_v<Value>, "Value must be double, float, int32_t or int64_t");
-  static_assert(is_index_type_v<Index>, "Index must be uint16_t or uint32_t");
+class SparseModel : public SparseModelView<F, Value, Index> {
+  using view_type = SparseModelView<F, Value, Index>;
+  using view_type::bound_;
+  using view_type::offset_;
 
  public:
-  using value_type = Value;
-  using index_type = Index;
-  using energy_type = energy_t<Value>;
-  static constexpr Form form = F;
-  static constexpr bool is_dense = false;
+  using typename view_type::energy_type;
+  using view_type::find;
+  using view_type::npos;
+  using view_type::num_spins;
 
-  SparseModel() = default;
-
-  std::size_t num_spins() const noexcept { return linear_.size(); }
-  std::size_t size() const noexcept { return linear_.size(); }
-  std::size_t num_pairs() const noexcept { return values_.size() / 2; }
-  energy_type offset() const noexcept { return offset_; }
-
-  // h_i for an Ising model, Q_ii for a QUBO model.
-  Value site_term(Index i) const noexcept {
-    SPINWRIGHT_ASSERT(i < num_spins(), "spin index out of range");
-    return linear_[i];
+  SparseModel() { repoint(); }
+  SparseModel(const SparseModel& o)
+      : view_type(o),
+        linear_vec_(o.linear_vec_),
+        row_vec_(o.row_vec_),
+        neighbours_vec_(o.neighbours_vec_),
+        values_vec_(o.values_vec_),
+        range_(o.range_) {
+    repoint();
   }
-  template <Form G = F, std::enable_if_t<G == Form::ising, int> = 0>
-  Value field(Index i) const noexcept {
-    return site_term(i);
+  SparseModel(SparseModel&& o) noexcept
+      : view_type(o),
+        linear_vec_(std::move(o.linear_vec_)),
+        row_vec_(std::move(o.row_vec_)),
+        neighbours_vec_(std::move(o.neighbours_vec_)),
+        values_vec_(std::move(o.values_vec_)),
+        range_(o.range_) {
+    repoint();
+    o.row_vec_.assign(1, 0);
+    o.repoint();
   }
-  template <Form G = F, std::enable_if_t<G == Form::qubo, int> = 0>
-  Value unary(Index i) const noexcept {
-    return site_term(i);
-  }
-
-  std::size_t degree(Index i) const noexcept { return row_[i + 1] - row_[i]; }
-  Span<Index> neighbours(Index i) const noexcept { return {neighbours_.data() + row_[i], degree(i)}; }
-  Span<Value> row_values(Index i) const noexcept { return {values_.data() + row_[i], degree(i)}; }
-
-  // Calls f(j, value) for every neighbour j of i, in increasing j.
-  template <class Fn>
-  void for_each_neighbour(Index i, Fn&& f) const {
-    const std::size_t end = row_[i + 1];
-    for (std::size_t k = row_[i]; k < end; ++k) f(neighbours_[k], values_[k]);
-  }
-
-  // Position of pair (i, j) in row i, or npos when the model has no such pair. O(log degree).
-  static constexpr std::size_t npos = ~std::size_t{0};
-  std::size_t find(Index i, Index j) const noexcept {
-    std::size_t lo = row_[i];
-    std::size_t hi = row_[i + 1];
-    while (lo < hi) {
-      const std::size_t mid = lo + (hi - lo) / 2;
-      if (neighbours_[mid] < j) {
-        lo = mid + 1;
-      } else {
-        hi = mid;
-      }
+  SparseModel& operator=(const SparseModel& o) {
+    if (this != &o) {
+      SparseModel copy(o);
+      *this = std::move(copy);
     }
-    return (lo < row_[i + 1] && neighbours_[lo] == j) ? lo : npos;
+    return *this;
   }
-
-  // J_ij (Ising) or Q_ij (QUBO); 0 when the pair is absent.
-  Value pair(Index i, Index j) const noexcept {
-    const std::size_t k = find(i, j);
-    return k == npos ? Value{0} : values_[k];
-  }
-  template <Form G = F, std::enable_if_t<G == Form::ising, int> = 0>
-  Value coupling(Index i, Index j) const noexcept {
-    return pair(i, j);
-  }
-
-  // Energy of a spin assignment (+1/-1 per spin; for QUBO, x = (1 - s) / 2), offset included.
-  energy_type energy(const std::int8_t* spins) const noexcept {
-    energy_type e = offset_;
-    const std::size_t n = num_spins();
-    for (std::size_t i = 0; i < n; ++i) {
-      const auto ii = static_cast<Index>(i);
-      if constexpr (F == Form::ising) {
-        energy_type local = 0;
-        const std::size_t end = row_[i + 1];
-        for (std::size_t k = row_[i]; k < end; ++k) {
-          if (neighbours_[k] > ii) local += static_cast<energy_type>(values_[k]) * spins[neighbours_[k]];
-        }
-        e += spins[i] * (static_cast<energy_type>(linear_[i]) + local);
-      } else {
-        if (spins[i] > 0) continue;  // x_i = 0
-        energy_type local = static_cast<energy_type>(linear_[i]);
-        const std::size_t end = row_[i + 1];
-        for (std::size_t k = row_[i]; k < end; ++k) {
-          if (neighbours_[k] > ii && spins[neighbours_[k]] < 0) local += static_cast<energy_type>(values_[k]);
-        }
-        e += local;
-      }
+  SparseModel& operator=(SparseModel&& o) noexcept {
+    if (this != &o) {
+      static_cast<view_type&>(*this) = o;
+      linear_vec_ = std::move(o.linear_vec_);
+      row_vec_ = std::move(o.row_vec_);
+      neighbours_vec_ = std::move(o.neighbours_vec_);
+      values_vec_ = std::move(o.values_vec_);
+      range_ = o.range_;
+      repoint();
+      o.row_vec_.assign(1, 0);
+      o.repoint();
     }
-    return e;
+    return *this;
   }
-
-  // Energy of a bit assignment (0/1 per variable), for QUBO users who think in bits.
-  template <Form G = F, std::enable_if_t<G == Form::qubo, int> = 0>
-  energy_type energy_of_bits(const std::uint8_t* bits) const {
-    std::vector<std::int8_t> spins(num_spins());
-    for (std::size_t i = 0; i < spins.size(); ++i) spins[i] = bits[i] ? -1 : 1;
-    return energy(spins.data());
-  }
-
-  ModelSummary summary() const noexcept {
-    ModelSummary s;
-    s.num_spins = num_spins();
-    s.num_pairs = num_pairs();
-    bool first = true;
-    auto see = [&](Value v) {
-      if (v == Value{0}) return;
-      const double a = detail::abs_double(v);
-      if (first || a > s.largest_magnitude) s.largest_magnitude = a;
-      if (first || a < s.smallest_magnitude) s.smallest_magnitude = a;
-      first = false;
-    };
-    for (std::size_t i = 0; i < num_spins(); ++i) {
-      if (linear_[i] != Value{0}) ++s.num_site_terms;
-      see(linear_[i]);
-      const std::size_t d = degree(static_cast<Index>(i));
-      if (i == 0 || d < s.min_degree) s.min_degree = d;
-      if (d > s.max_degree) s.max_degree = d;
-    }
-    for (const Value v : values_) see(v);
-    return s;
-  }
-
-  // Bound on |E| and on every local field: |c| + sum |linear| + sum_{i<j} |pair|.
-  // For integer models this never exceeds integer_energy_limit (enforced by build and edits).
-  double energy_bound() const noexcept { return range_.bound(); }
+  ~SparseModel() = default;
 
   // In-place edits of existing terms; the pattern never changes (a pair set to 0 stays stored,
   // and can be given a value again). Use the free functions in
@@ -179,9 +91,10 @@ class SparseModel {
                            "edited value is NaN or infinite; only finite values are allowed")
           .at_term(no_term, i, i);
     }
-    const Status st = rebound(linear_[i], v);
+    const Status st = rebound(linear_vec_[i], v);
     if (!st) return Status(st).at_term(no_term, i, i);
-    linear_[i] = v;
+    linear_vec_[i] = v;
+    bound_ = range_.bound();
     return Status::success();
   }
 
@@ -202,10 +115,11 @@ class SparseModel {
                            "edited value is NaN or infinite; only finite values are allowed")
           .at_term(no_term, i, j);
     }
-    const Status st = rebound(values_[kij], v);
+    const Status st = rebound(values_vec_[kij], v);
     if (!st) return Status(st).at_term(no_term, i, j);
-    values_[kij] = v;
-    values_[find(j, i)] = v;
+    values_vec_[kij] = v;
+    values_vec_[find(j, i)] = v;
+    bound_ = range_.bound();
     return Status::success();
   }
 
@@ -215,14 +129,15 @@ class SparseModel {
     if (!range_.replace(offset_, c))
       return Status::error(StatusCode::energy_overflow, detail::range_message<Value>(true));
     offset_ = c;
+    bound_ = range_.bound();
     return Status::success();
   }
 
   // Raw access for kernels and file writers.
-  const std::vector<std::size_t>& row_starts() const noexcept { return row_; }
-  const std::vector<Index>& neighbour_array() const noexcept { return neighbours_; }
-  const std::vector<Value>& value_array() const noexcept { return values_; }
-  const std::vector<Value>& site_term_array() const noexcept { return linear_; }
+  const std::vector<std::size_t>& row_starts() const noexcept { return row_vec_; }
+  const std::vector<Index>& neighbour_array() const noexcept { return neighbours_vec_; }
+  const std::vector<Value>& value_array() const noexcept { return values_vec_; }
+  const std::vector<Value>& site_term_array() const noexcept { return linear_vec_; }
 
  private:
   friend struct detail::ModelAccess;
@@ -234,12 +149,16 @@ class SparseModel {
     return Status::success();
   }
 
-  std::vector<Value> linear_;
-  std::vector<std::size_t> row_{0};
-  std::vector<Index> neighbours_;
-  std::vector<Value> values_;
-  energy_type offset_{0};
-  detail::EnergyRange<Value> range_{};  // |c| + sum |linear| + sum |pair|
+  // The view's pointers follow the vectors through copies and moves.
+  void repoint() noexcept {
+    this->point_at(linear_vec_.size(), linear_vec_.data(), row_vec_.data(), neighbours_vec_.data(), values_vec_.data());
+  }
+
+  std::vector<Value> linear_vec_;
+  std::vector<std::size_t> row_vec_{0};
+  std::vector<Index> neighbours_vec_;
+  std::vector<Value> values_vec_;
+  detail::EnergyRange<Value> range_{};  // |c| + sum |site terms| + sum |pair|
 };
 
 template <class Value, class Index = std::uint32_t>
@@ -254,16 +173,24 @@ struct ModelAccess {
                                            std::vector<Index> neighbours, std::vector<Value> values,
                                            energy_t<Value> offset, EnergyRange<Value> range) {
     SparseModel<F, Value, Index> m;
-    m.linear_ = std::move(linear);
-    m.row_ = std::move(row);
-    m.neighbours_ = std::move(neighbours);
-    m.values_ = std::move(values);
+    m.linear_vec_ = std::move(linear);
+    m.row_vec_ = std::move(row);
+    m.neighbours_vec_ = std::move(neighbours);
+    m.values_vec_ = std::move(values);
     m.offset_ = offset;
     m.range_ = range;
+    m.bound_ = range.bound();
+    m.repoint();
     return m;
   }
 };
 }  // namespace detail
+
+/// A view of an existing model's arrays (valid while the model lives; edits show through).
+template <Form F, class Value, class Index>
+SparseModelView<F, Value, Index> view_of(const SparseModel<F, Value, Index>& m) noexcept {
+  return m;
+}
 
 }  // namespace spinwright
 
