@@ -45,7 +45,165 @@ inline std::string lower(std::string_view s) {
   return out;
 }
 
-/// Scans a Matrix Market coordinate file into a term list.
+// What the banner line says about the entries.
+struct MmBanner {
+  bool integer_field = false;
+  bool symmetric = false;
+};
+
+inline IoResult<MmBanner> scan_mm_banner(std::string_view text, std::string_view name) {
+  if (!starts_with_banner(trim(text))) {
+    return IoStatus::error(StatusCode::parse_error, name, 1,
+                           "missing banner: the first line must be '%%MatrixMarket matrix coordinate real general' "
+                           "(or integer / symmetric)");
+  }
+  std::string_view tok[6];
+  const std::size_t count = split_tokens(text, tok, 6);
+  if (count < 5) {
+    return IoStatus::error(StatusCode::parse_error, name, 1,
+                           "incomplete banner: expected '%%MatrixMarket matrix coordinate <field> <symmetry>'");
+  }
+  if (count > 5)
+    return IoStatus::error(StatusCode::parse_error, name, 1, "trailing text after the banner: " + quote(tok[5]));
+  if (tok[0].size() != 14)
+    return IoStatus::error(StatusCode::parse_error, name, 1, "malformed banner word " + quote(tok[0]));
+  const std::string object = lower(tok[1]);
+  const std::string format = lower(tok[2]);
+  const std::string field = lower(tok[3]);
+  const std::string symmetry = lower(tok[4]);
+  auto refuse = [&](const std::string& why) { return IoStatus::error(StatusCode::unsupported, name, 1, why); };
+  if (object != "matrix") return refuse("object " + quote(tok[1]) + " is not supported; only 'matrix' is");
+  if (format == "array")
+    return refuse("dense 'array' storage is not supported; write the matrix in 'coordinate' format");
+  if (format != "coordinate") return refuse("unknown storage format " + quote(tok[2]));
+  if (field == "complex" || field == "pattern") {
+    return refuse("field " + quote(tok[3]) + " is not supported; use 'real' or 'integer' (a model needs values)");
+  }
+  if (field != "integer" && field != "real") return refuse("unknown field " + quote(tok[3]));
+  if (symmetry == "skew-symmetric" || symmetry == "hermitian") {
+    return refuse("symmetry " + quote(tok[4]) + " is not supported; use 'general' or 'symmetric'");
+  }
+  if (symmetry != "symmetric" && symmetry != "general") return refuse("unknown symmetry " + quote(tok[4]));
+  MmBanner b;
+  b.integer_field = field == "integer";
+  b.symmetric = symmetry == "symmetric";
+  return b;
+}
+
+// A '% spinwright form|offset' directive (tok[0] is "spinwright"; count tokens in all).
+inline IoStatus scan_mm_directive(const std::string_view* tok, std::size_t count, std::uint64_t line,
+                                  const MmBanner& banner, std::string_view name, TermList& list) {
+  auto error = [&](const std::string& why) { return IoStatus::error(StatusCode::parse_error, name, line, why); };
+  if (count < 3)
+    return error("incomplete directive: expected '% spinwright form ising|qubo' or '% spinwright offset <value>'");
+  if (count > 3) return error("trailing text after the directive: " + quote(tok[3]));
+  if (tok[1] == "form") {
+    if (list.form_line != 0) {
+      return error("second 'spinwright form' directive (the first is on line " + std::to_string(list.form_line) + ")");
+    }
+    if (tok[2] == "ising") {
+      list.form = Form::ising;
+    } else if (tok[2] == "qubo") {
+      list.form = Form::qubo;
+    } else {
+      return error("unknown form " + quote(tok[2]) + "; expected 'ising' or 'qubo'");
+    }
+    list.form_line = line;
+    return IoStatus{};
+  }
+  if (tok[1] != "offset") return error("unknown directive " + quote(tok[1]) + "; expected 'form' or 'offset'");
+  if (list.has_offset) {
+    return error("second 'spinwright offset' directive (the first is on line " + std::to_string(list.offset_line) +
+                 ")");
+  }
+  StatusCode code = StatusCode::ok;
+  const std::string why = parse_number(tok[2], list.offset, code);
+  if (!why.empty()) return IoStatus::error(code, name, line, "offset: " + why);
+  if (banner.integer_field && !list.offset.integer)
+    return error("real offset " + quote(tok[2]) + " in an 'integer' file");
+  list.has_offset = true;
+  list.offset_token = tok[2];
+  list.offset_line = line;
+  return IoStatus{};
+}
+
+// The size line 'rows columns entries': a square matrix within options.max_spins.
+inline IoStatus scan_mm_size(const std::string_view* tok, std::size_t count, std::uint64_t line, std::string_view name,
+                             const ReadOptions& options, TermList& list, std::uint64_t& declared) {
+  if (count < 3) {
+    return IoStatus::error(StatusCode::parse_error, name, line,
+                           "size line must be 'rows columns entries', found " + std::to_string(count) +
+                               (count == 1 ? " field" : " fields"));
+  }
+  if (count > 3)
+    return IoStatus::error(StatusCode::parse_error, name, line, "trailing text after the size line: " + quote(tok[3]));
+  StatusCode code = StatusCode::ok;
+  std::uint64_t rows = 0;
+  std::uint64_t cols = 0;
+  std::string why = parse_count(tok[0], rows, code, "number of rows");
+  if (why.empty()) why = parse_count(tok[1], cols, code, "number of columns");
+  if (why.empty()) why = parse_count(tok[2], declared, code, "number of entries");
+  if (!why.empty()) return IoStatus::error(code, name, line, "size line: " + why);
+  if (rows != cols) {
+    return IoStatus::error(
+        StatusCode::unsupported, name, line,
+        "the matrix is " + std::to_string(rows) + " x " + std::to_string(cols) + "; a model needs a square matrix");
+  }
+  if (rows > options.max_spins) {
+    return IoStatus::error(StatusCode::size_limit, name, line,
+                           "size line declares " + std::to_string(rows) + " variables, more than the limit of " +
+                               std::to_string(options.max_spins) + " (ReadOptions::max_spins)");
+  }
+  list.num_spins = rows;
+  list.header_line = line;
+  return IoStatus{};
+}
+
+// One entry 'i j value' (1-based), appended to the list.
+inline IoStatus scan_mm_entry(const std::string_view* tok, std::size_t count, std::uint64_t line,
+                              const MmBanner& banner, std::string_view name, TermList& list) {
+  if (count < 3) {
+    return IoStatus::error(
+        StatusCode::parse_error, name, line,
+        "expected 'i j value', found " + std::to_string(count) + (count == 1 ? " field" : " fields"));
+  }
+  if (count > 3)
+    return IoStatus::error(StatusCode::parse_error, name, line, "trailing text after the value: " + quote(tok[3]));
+  StatusCode code = StatusCode::ok;
+  std::uint64_t ends[2] = {0, 0};
+  for (int e = 0; e < 2; ++e) {
+    const char* what = e == 0 ? "row" : "column";
+    const std::string why = parse_count(tok[e], ends[e], code, e == 0 ? "row index" : "column index");
+    if (!why.empty()) return IoStatus::error(code, name, line, why);
+    if (ends[e] == 0) {
+      return IoStatus::error(StatusCode::index_out_of_range, name, line,
+                             std::string(what) + " index 0: Matrix Market indices start at 1");
+    }
+    if (ends[e] > list.num_spins) {
+      return IoStatus::error(StatusCode::index_out_of_range, name, line,
+                             std::string(what) + " index " + std::to_string(ends[e]) + " is beyond the size " +
+                                 std::to_string(list.num_spins) + " declared on line " +
+                                 std::to_string(list.header_line));
+    }
+  }
+  RawTerm t;
+  const std::string why = parse_number(tok[2], t.value, code);
+  if (!why.empty()) return IoStatus::error(code, name, line, "value: " + why);
+  if (banner.integer_field && !t.value.integer) {
+    return IoStatus::error(StatusCode::parse_error, name, line,
+                           "real value " + quote(tok[2]) + " in an 'integer' file");
+  }
+  t.i = ends[0] - 1;
+  t.j = ends[1] - 1;
+  t.token = tok[2];
+  t.line = line;
+  t.mirrored = banner.symmetric && t.i != t.j;
+  list.terms.push_back(t);
+  return IoStatus{};
+}
+
+/// Scans a Matrix Market coordinate file into a term list: the banner, then comments and
+/// '% spinwright' directives, the size line, and the entries.
 inline IoResult<TermList> scan_matrix_market(std::string_view text, std::string_view name, const ReadOptions& options) {
   LineReader reader(text);
   Line line;
@@ -55,59 +213,11 @@ inline IoResult<TermList> scan_matrix_market(std::string_view text, std::string_
   if (!reader.next(line)) {
     return IoStatus::error(StatusCode::parse_error, name, 1, "empty file: expected a '%%MatrixMarket' banner");
   }
-  std::string_view tok[6];
-  if (!starts_with_banner(trim(line.text))) {
-    return IoStatus::error(StatusCode::parse_error, name, 1,
-                           "missing banner: the first line must be '%%MatrixMarket matrix coordinate real general' "
-                           "(or integer / symmetric)");
-  }
-  const std::size_t banner_count = split_tokens(line.text, tok, 6);
-  if (banner_count < 5) {
-    return IoStatus::error(StatusCode::parse_error, name, 1,
-                           "incomplete banner: expected '%%MatrixMarket matrix coordinate <field> <symmetry>'");
-  }
-  if (banner_count > 5) {
-    return IoStatus::error(StatusCode::parse_error, name, 1, "trailing text after the banner: " + quote(tok[5]));
-  }
-  if (tok[0].size() != 14) {
-    return IoStatus::error(StatusCode::parse_error, name, 1, "malformed banner word " + quote(tok[0]));
-  }
-  const std::string object = lower(tok[1]);
-  const std::string format = lower(tok[2]);
-  const std::string field = lower(tok[3]);
-  const std::string symmetry = lower(tok[4]);
-  if (object != "matrix") {
-    return IoStatus::error(StatusCode::unsupported, name, 1,
-                           "object " + quote(tok[1]) + " is not supported; only 'matrix' is");
-  }
-  if (format == "array") {
-    return IoStatus::error(StatusCode::unsupported, name, 1,
-                           "dense 'array' storage is not supported; write the matrix in 'coordinate' format");
-  }
-  if (format != "coordinate") {
-    return IoStatus::error(StatusCode::unsupported, name, 1, "unknown storage format " + quote(tok[2]));
-  }
-  const bool integer_field = field == "integer";
-  if (field == "complex" || field == "pattern") {
-    return IoStatus::error(
-        StatusCode::unsupported, name, 1,
-        "field " + quote(tok[3]) + " is not supported; use 'real' or 'integer' (a model needs values)");
-  }
-  if (!integer_field && field != "real") {
-    return IoStatus::error(StatusCode::unsupported, name, 1, "unknown field " + quote(tok[3]));
-  }
-  const bool symmetric = symmetry == "symmetric";
-  if (symmetry == "skew-symmetric" || symmetry == "hermitian") {
-    return IoStatus::error(StatusCode::unsupported, name, 1,
-                           "symmetry " + quote(tok[4]) + " is not supported; use 'general' or 'symmetric'");
-  }
-  if (!symmetric && symmetry != "general") {
-    return IoStatus::error(StatusCode::unsupported, name, 1, "unknown symmetry " + quote(tok[4]));
-  }
-
-  StatusCode code = StatusCode::ok;
+  const auto banner = scan_mm_banner(line.text, name);
+  if (!banner.ok()) return banner.status();
   bool have_size = false;
   std::uint64_t declared = 0;
+  std::string_view tok[4];
   while (reader.next(line)) {
     const std::string_view s = trim(line.text);
     if (s.empty()) continue;
@@ -115,135 +225,28 @@ inline IoResult<TermList> scan_matrix_market(std::string_view text, std::string_
       return IoStatus::error(StatusCode::parse_error, name, line.number,
                              "second Matrix Market banner (the first is on line 1)");
     }
+    IoStatus st;
     if (s.front() == '%') {
-      const std::string_view body = trim(s.substr(1));
-      const std::size_t count = split_tokens(body, tok, 4);
+      const std::size_t count = split_tokens(trim(s.substr(1)), tok, 4);
       if (count == 0 || tok[0] != "spinwright") continue;  // an ordinary comment
       if (have_size) {
         return IoStatus::error(
             StatusCode::parse_error, name, line.number,
             "'% spinwright' directives must come before the size line (line " + std::to_string(list.header_line) + ")");
       }
-      if (count < 3) {
-        return IoStatus::error(
-            StatusCode::parse_error, name, line.number,
-            "incomplete directive: expected '% spinwright form ising|qubo' or '% spinwright offset <value>'");
-      }
-      if (count > 3) {
-        return IoStatus::error(StatusCode::parse_error, name, line.number,
-                               "trailing text after the directive: " + quote(tok[3]));
-      }
-      if (tok[1] == "form") {
-        if (list.form_line != 0) {
-          return IoStatus::error(
-              StatusCode::parse_error, name, line.number,
-              "second 'spinwright form' directive (the first is on line " + std::to_string(list.form_line) + ")");
-        }
-        if (tok[2] == "ising") {
-          list.form = Form::ising;
-        } else if (tok[2] == "qubo") {
-          list.form = Form::qubo;
-        } else {
-          return IoStatus::error(StatusCode::parse_error, name, line.number,
-                                 "unknown form " + quote(tok[2]) + "; expected 'ising' or 'qubo'");
-        }
-        list.form_line = line.number;
-      } else if (tok[1] == "offset") {
-        if (list.has_offset) {
-          return IoStatus::error(
-              StatusCode::parse_error, name, line.number,
-              "second 'spinwright offset' directive (the first is on line " + std::to_string(list.offset_line) + ")");
-        }
-        const std::string why = parse_number(tok[2], list.offset, code);
-        if (!why.empty()) return IoStatus::error(code, name, line.number, "offset: " + why);
-        if (integer_field && !list.offset.integer) {
-          return IoStatus::error(StatusCode::parse_error, name, line.number,
-                                 "real offset " + quote(tok[2]) + " in an 'integer' file");
-        }
-        list.has_offset = true;
-        list.offset_token = tok[2];
-        list.offset_line = line.number;
-      } else {
-        return IoStatus::error(StatusCode::parse_error, name, line.number,
-                               "unknown directive " + quote(tok[1]) + "; expected 'form' or 'offset'");
-      }
-      continue;
-    }
-    const std::size_t count = split_tokens(s, tok, 4);
-    if (!have_size) {
-      if (count < 3) {
-        return IoStatus::error(StatusCode::parse_error, name, line.number,
-                               "size line must be 'rows columns entries', found " + std::to_string(count) +
-                                   (count == 1 ? " field" : " fields"));
-      }
-      if (count > 3) {
-        return IoStatus::error(StatusCode::parse_error, name, line.number,
-                               "trailing text after the size line: " + quote(tok[3]));
-      }
-      std::uint64_t rows = 0;
-      std::uint64_t cols = 0;
-      std::string why = parse_count(tok[0], rows, code, "number of rows");
-      if (why.empty()) why = parse_count(tok[1], cols, code, "number of columns");
-      if (why.empty()) why = parse_count(tok[2], declared, code, "number of entries");
-      if (!why.empty()) return IoStatus::error(code, name, line.number, "size line: " + why);
-      if (rows != cols) {
-        return IoStatus::error(
-            StatusCode::unsupported, name, line.number,
-            "the matrix is " + std::to_string(rows) + " x " + std::to_string(cols) + "; a model needs a square matrix");
-      }
-      if (rows > options.max_spins) {
-        return IoStatus::error(StatusCode::size_limit, name, line.number,
-                               "size line declares " + std::to_string(rows) + " variables, more than the limit of " +
-                                   std::to_string(options.max_spins) + " (ReadOptions::max_spins)");
-      }
-      list.num_spins = rows;
-      list.header_line = line.number;
-      have_size = true;
-      list.terms.reserve(bounded_reserve(declared, reader.remaining_bytes()));
-      continue;
-    }
-    if (list.terms.size() >= declared) {
+      st = scan_mm_directive(tok, count, line.number, banner.value(), name, list);
+    } else if (!have_size) {
+      st = scan_mm_size(tok, split_tokens(s, tok, 4), line.number, name, options, list, declared);
+      have_size = st.ok();
+      if (have_size) list.terms.reserve(bounded_reserve(declared, reader.remaining_bytes()));
+    } else if (list.terms.size() >= declared) {
       return IoStatus::error(StatusCode::parse_error, name, line.number,
                              "extra line: the size line (line " + std::to_string(list.header_line) + ") declares " +
                                  std::to_string(declared) + " entries");
+    } else {
+      st = scan_mm_entry(tok, split_tokens(s, tok, 4), line.number, banner.value(), name, list);
     }
-    if (count < 3) {
-      return IoStatus::error(
-          StatusCode::parse_error, name, line.number,
-          "expected 'i j value', found " + std::to_string(count) + (count == 1 ? " field" : " fields"));
-    }
-    if (count > 3) {
-      return IoStatus::error(StatusCode::parse_error, name, line.number,
-                             "trailing text after the value: " + quote(tok[3]));
-    }
-    std::uint64_t ends[2] = {0, 0};
-    for (int e = 0; e < 2; ++e) {
-      const std::string why = parse_count(tok[e], ends[e], code, e == 0 ? "row index" : "column index");
-      if (!why.empty()) return IoStatus::error(code, name, line.number, why);
-      if (ends[e] == 0) {
-        return IoStatus::error(StatusCode::index_out_of_range, name, line.number,
-                               std::string(e == 0 ? "row" : "column") + " index 0: Matrix Market indices start at 1");
-      }
-      if (ends[e] > list.num_spins) {
-        return IoStatus::error(StatusCode::index_out_of_range, name, line.number,
-                               std::string(e == 0 ? "row" : "column") + " index " + std::to_string(ends[e]) +
-                                   " is beyond the size " + std::to_string(list.num_spins) + " declared on line " +
-                                   std::to_string(list.header_line));
-      }
-    }
-    RawTerm t;
-    const std::string why = parse_number(tok[2], t.value, code);
-    if (!why.empty()) return IoStatus::error(code, name, line.number, "value: " + why);
-    if (integer_field && !t.value.integer) {
-      return IoStatus::error(StatusCode::parse_error, name, line.number,
-                             "real value " + quote(tok[2]) + " in an 'integer' file");
-    }
-    t.i = ends[0] - 1;
-    t.j = ends[1] - 1;
-    t.token = tok[2];
-    t.line = line.number;
-    t.mirrored = symmetric && t.i != t.j;
-    list.terms.push_back(t);
+    if (!st.ok()) return st;
   }
   if (!have_size) {
     return IoStatus::error(StatusCode::parse_error, name, reader.last_line() + 1,
@@ -255,8 +258,7 @@ inline IoResult<TermList> scan_matrix_market(std::string_view text, std::string_
                                std::to_string(declared) + " entries declared on line " +
                                std::to_string(list.header_line) + " (truncated file?)");
   }
-  // Automatic value type: the banner's field decides.
-  list.all_integer = integer_field;
+  list.all_integer = banner.value().integer_field;  // automatic value type: the banner's field decides
   return list;
 }
 
