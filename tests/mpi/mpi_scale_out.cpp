@@ -85,6 +85,16 @@ TEST_CASE("G43 restarts over ranks: the tally of one process, bit for bit") {
   }
 }
 
+TEST_CASE("Deliver::every_rank: the same tally on every rank") {
+  auto read = sw::io::read_edge_list<std::int32_t>(std::string(SPINWRIGHT_DATA_DIR) + "/maxcut/G43.txt");
+  REQUIRE(sw::mpi::agree(MPI_COMM_WORLD, read.ok()));
+  sw::AnnealParams params;
+  params.sweeps = 100;
+  auto one = [&](std::uint64_t r) { return sw::anneal(read.value(), params, 4, r); };
+  auto got = sw::mpi::distributed_restarts<std::int64_t>(MPI_COMM_WORLD, 5, 1, one, 0, sw::mpi::Deliver::every_rank);
+  check_same(got, sw::run_restarts<std::int64_t>(5, 1, one));
+}
+
 TEST_CASE("ties go to the lowest restart index, whichever rank holds it") {
   // Two spins, one antiferromagnetic bond: every restart ends at energy -1 in one of two states.
   sw::IsingBuilder<double> b(2);

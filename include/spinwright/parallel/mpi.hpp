@@ -131,17 +131,23 @@ bool better(const RestartRecord<Energy>& a, const RestartRecord<Energy>& b) {
 
 }  // namespace detail
 
+// Where distributed_restarts delivers the tally: on the root only (other ranks get an empty
+// tally), or on every rank (one more broadcast of the records and of the best state), for
+// programs whose every rank goes on with the answer, such as spinwright-mpi.
+enum class Deliver : std::uint8_t { root, every_rank };
+
 // Runs restarts 0 .. restarts - 1 over the ranks of `comm` (threads per rank, as run_restarts;
 // 0 = one per hardware thread)
 // and returns on `root` the Tally run_restarts would return in one process: same energies in
-// restart order, same best state. Other ranks return an empty Tally. Collective: every rank of
+// restart order, same best state. Other ranks return an empty Tally unless `deliver` is
+// Deliver::every_rank. Collective: every rank of
 // `comm` calls it with the same restarts and root. Records are shipped as bytes, so every rank
 // must share one architecture (the usual cluster). Messages: one gather of the per-rank counts,
 // one gather of fixed-size records (sizeof(RestartRecord) per restart), one broadcast of the
 // best restart index and one point-to-point message with the best state (N bytes).
 template <class Energy, class RunOne>
 Tally<Energy> distributed_restarts(MPI_Comm comm, std::uint64_t restarts, unsigned threads, RunOne&& run_one,
-                                   int root = 0) {
+                                   int root = 0, Deliver deliver = Deliver::root) {
   static_assert(std::is_trivially_copyable<Energy>::value, "energies travel as bytes");
   using Record = detail::RestartRecord<Energy>;
   const Place place = place_in(comm);
@@ -237,7 +243,18 @@ Tally<Energy> distributed_restarts(MPI_Comm comm, std::uint64_t restarts, unsign
       }
     }
   }
-  if (!place.is_root(root)) return out;
+  if (deliver == Deliver::every_rank) {
+    std::uint64_t sizes[2] = {static_cast<std::uint64_t>(all.size()), static_cast<std::uint64_t>(best_spins.size())};
+    MPI_Bcast(sizes, 2, MPI_UINT64_T, root, comm);
+    all.resize(static_cast<std::size_t>(sizes[0]));
+    best_spins.resize(static_cast<std::size_t>(sizes[1]));
+    MPI_Bcast(all.data(), static_cast<int>(all.size() * sizeof(Record)), MPI_BYTE, root, comm);
+    MPI_Bcast(best_spins.data(), static_cast<int>(best_spins.size()), MPI_INT8_T, root, comm);
+    bests.resize(static_cast<std::size_t>(place.ranks));
+    MPI_Bcast(bests.data(), static_cast<int>(bests.size() * sizeof(Record)), MPI_BYTE, root, comm);
+  } else if (!place.is_root(root)) {
+    return out;
+  }
 
   const Record& best = bests[static_cast<std::size_t>(winner < 0 ? 0 : winner)];
   for (const Record& r : all) {
