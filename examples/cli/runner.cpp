@@ -2,6 +2,8 @@
 // instantiated here, and only here, for the two model types of the program.
 #include "runner.hpp"
 
+#include "spread.hpp"
+
 #include <spinwright/control/steady_clock.hpp>
 #include <spinwright/kernels/anneal.hpp>
 #include <spinwright/kernels/auto.hpp>
@@ -237,7 +239,7 @@ Failure run_kernel(const LoadedModel& m, const RunOptions& options, RunResult& o
     o.threads = out.threads;
     std::atomic<std::uint64_t> cut_short{0};
     out.tally = visit(m, [&](const auto& model) {
-      return spinwright::run_restarts<double>(
+      return spread_restarts<double>(
           o.restarts, o.threads, [&](std::uint64_t r) { return one_restart(model, o, r, start, cut_short); });
     });
     out.cut_short = cut_short.load();
