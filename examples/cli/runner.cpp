@@ -124,9 +124,10 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
   budget.stop = &interrupt_token();
   if (o.has_target) budget.with_target(o.target);
   if (o.time_limit < std::numeric_limits<double>::infinity()) {
-    // An equal share of the limit per restart (the restarts run `threads` at a time), and
-    // never more than what is left of the whole run.
-    const double waves = std::ceil(static_cast<double>(o.restarts) / static_cast<double>(o.threads));
+    // An equal share of the limit per restart (the restarts run `threads` at a time on each
+    // rank), and never more than what is left of the whole run.
+    const double waves =
+        std::ceil(static_cast<double>(o.restarts) / (static_cast<double>(o.threads) * static_cast<double>(job_ranks())));
     const double share = o.time_limit / (waves < 1 ? 1 : waves);
     const double left = o.time_limit - (spinwright::steady_seconds(nullptr) - run_start);
     budget.with_time_limit(std::max(0.0, std::min(share, left)), spinwright::steady_clock());
