@@ -29,3 +29,12 @@ if(TARGET kernels_test_glpk_reference)
   target_link_libraries(kernels_test_glpk_reference PRIVATE ${SPINWRIGHT_GLPK_LIBRARY})
 endif()
 # ---- kernels (tempering / tabu / exact): end ----
+
+# ---- mpi: begin ----
+# Restarts over MPI ranks, run under mpirun (tests/mpi/). Off by default so the core's tests
+# need no MPI; the test preset turns it on and scripts/test.sh installs Open MPI.
+option(SPINWRIGHT_TEST_MPI "Build and run the MPI tests (needs an MPI library and mpirun)" OFF)
+if(SPINWRIGHT_TEST_MPI)
+  add_subdirectory(${CMAKE_CURRENT_SOURCE_DIR}/mpi ${CMAKE_CURRENT_BINARY_DIR}/mpi)
+endif()
+# ---- mpi: end ----

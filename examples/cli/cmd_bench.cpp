@@ -11,6 +11,7 @@
 #include "loaded_model.hpp"
 #include "progress.hpp"
 #include "runner.hpp"
+#include "spread.hpp"
 #include "text.hpp"
 
 #include <cstdio>  // std::snprintf
@@ -167,6 +168,7 @@ int run_bench(int argc, const char* const* argv) {
     j.member("target", target);
     j.member("target_given", has_target);
     j.member("seed", base.seed);
+    j.member("ranks", static_cast<std::uint64_t>(job_ranks()));
     j.member("interrupted", interrupted_run);
     j.key("kernels").begin_array();
     for (const auto& r : rows) {

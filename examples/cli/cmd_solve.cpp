@@ -5,6 +5,7 @@
 #include "loaded_model.hpp"
 #include "progress.hpp"
 #include "runner.hpp"
+#include "spread.hpp"
 #include "text.hpp"
 
 #include <spinwright/problems/max_cut.hpp>
@@ -98,6 +99,7 @@ std::string solve_json(const LoadedModel& m, const SolveSettings& s, const RunRe
   j.member("seed", s.run.seed);
   j.member("restarts", static_cast<std::uint64_t>(r.tally.restarts()));
   j.member("threads", r.threads);
+  j.member("ranks", static_cast<std::uint64_t>(job_ranks()));
   j.member("sweeps", r.tally.total_sweeps());
   j.member("seconds", r.seconds);
   j.member("interrupted", r.interrupted);
@@ -162,7 +164,9 @@ std::string solve_text(const LoadedModel& m, const SolveSettings& s, const RunRe
     t.line("threads", std::to_string(r.threads));
   } else {
     t.line("restarts", std::to_string(r.tally.restarts()) + " on " + std::to_string(r.threads) +
-                           (r.threads == 1 ? " thread" : " threads") + ", seed " + std::to_string(s.run.seed));
+                           (r.threads == 1 ? " thread" : " threads") +
+                           (job_ranks() > 1 ? " on each of " + std::to_string(job_ranks()) + " ranks" : "") + ", seed " +
+                           std::to_string(s.run.seed));
     t.line("sweeps", std::to_string(r.tally.total_sweeps()) + " in total");
   }
   t.line("time", seconds_text(r.seconds));

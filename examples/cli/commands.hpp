@@ -11,6 +11,9 @@
 
 namespace spinwright_cli {
 
+// The whole program: subcommand dispatch (main.cpp); main() of spinwright and of spinwright-mpi.
+int run_command_line(int argc, char** argv);
+
 int run_solve(int argc, const char* const* argv);
 int run_exact(int argc, const char* const* argv);
 int run_inspect(int argc, const char* const* argv);

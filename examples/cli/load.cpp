@@ -2,6 +2,7 @@
 // conversion of every model to double values (exact for integer files whose energy range is
 // below 2^53, refused above).
 #include "loaded_model.hpp"
+#include "spread.hpp"
 
 #include <spinwright/io/model_file.hpp>
 #include <spinwright/io/state_file.hpp>
@@ -75,7 +76,9 @@ Failure load_raw_model(const std::string& path, const std::string& forced, spinw
   return {};
 }
 
-Failure load_model(const std::string& path, const std::string& forced, LoadedModel& out) {
+namespace {
+
+Failure read_model(const std::string& path, const std::string& forced, LoadedModel& out) {
   namespace io = spinwright::io;
   io::LoadedModel raw;
   Failure f = load_raw_model(path, forced, raw);
@@ -108,6 +111,17 @@ Failure load_model(const std::string& path, const std::string& forced, LoadedMod
   });
 }
 
+}  // namespace
+
+Failure load_model(const std::string& path, const std::string& forced, LoadedModel& out) {
+  Failure f = read_model(path, forced, out);
+  // Under spinwright-mpi every rank reads the file; all go on only if all could.
+  if (!job_agree(!f.failed()) && !f.failed()) {
+    return input_failure(path + ": another rank of the job could not read this file (its message is on that rank)");
+  }
+  return f;
+}
+
 Failure load_state(const std::string& path, std::size_t n, std::vector<std::int8_t>& spins) {
   auto read = spinwright::io::read_state(path, n);
   if (!read.ok()) return input_failure(io_message(read.status()));
@@ -116,6 +130,7 @@ Failure load_state(const std::string& path, std::size_t n, std::vector<std::int8
 }
 
 Failure save_state(const std::string& path, const std::vector<std::int8_t>& spins, bool as_bits) {
+  if (!is_report_rank()) return {};
   const auto st = spinwright::io::write_state(
       path, spins, as_bits ? spinwright::io::StateStyle::bits : spinwright::io::StateStyle::spins);
   if (!st.ok()) return input_failure(io_message(st));

@@ -2,6 +2,8 @@
 // instantiated here, and only here, for the two model types of the program.
 #include "runner.hpp"
 
+#include "spread.hpp"
+
 #include <spinwright/control/steady_clock.hpp>
 #include <spinwright/kernels/anneal.hpp>
 #include <spinwright/kernels/auto.hpp>
@@ -122,9 +124,10 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
   budget.stop = &interrupt_token();
   if (o.has_target) budget.with_target(o.target);
   if (o.time_limit < std::numeric_limits<double>::infinity()) {
-    // An equal share of the limit per restart (the restarts run `threads` at a time), and
-    // never more than what is left of the whole run.
-    const double waves = std::ceil(static_cast<double>(o.restarts) / static_cast<double>(o.threads));
+    // An equal share of the limit per restart (the restarts run `threads` at a time on each
+    // rank), and never more than what is left of the whole run.
+    const double waves =
+        std::ceil(static_cast<double>(o.restarts) / (static_cast<double>(o.threads) * static_cast<double>(job_ranks())));
     const double share = o.time_limit / (waves < 1 ? 1 : waves);
     const double left = o.time_limit - (spinwright::steady_seconds(nullptr) - run_start);
     budget.with_time_limit(std::max(0.0, std::min(share, left)), spinwright::steady_clock());
@@ -237,7 +240,7 @@ Failure run_kernel(const LoadedModel& m, const RunOptions& options, RunResult& o
     o.threads = out.threads;
     std::atomic<std::uint64_t> cut_short{0};
     out.tally = visit(m, [&](const auto& model) {
-      return spinwright::run_restarts<double>(
+      return spread_restarts<double>(
           o.restarts, o.threads, [&](std::uint64_t r) { return one_restart(model, o, r, start, cut_short); });
     });
     out.cut_short = cut_short.load();
