@@ -6,6 +6,7 @@
 #include <spinwright/spinwright.hpp>
 
 #include <chrono>
+#include <cmath>
 #include <cstdint>
 #include <cstring>
 #include <string>
@@ -78,6 +79,40 @@ TEST_CASE_TEMPLATE("4x4 torus ferromagnet: lowest levels and degeneracies", Mode
     // The lowest canonical index of the two ground states is all spins +1 (index 0).
     CHECK(r->levels[0].first_index == 0);
     for (auto s : r->spins) CHECK(s == 1);
+  }
+}
+
+// The whole density of states of the 4x4 periodic ferromagnet (same source as above: Beale,
+// Phys. Rev. Lett. 76, 78 (1996) [memory]; reference sheet section 3, where the symmetric half
+// is listed) with a large non-dyadic coupling, J = -1234567.89: every level is a sum of 32
+// rounded terms of size 1.2e6, so states of one level differ by rounding far above an
+// absolute 1e-9 and far below the relative tolerance of ExactParams. Each level must come
+// out whole, with the published count.
+TEST_CASE("4x4 torus with J = -1234567.89: every level whole, with the published degeneracy") {
+  const double J = -1234567.89;
+  IsingBuilder<double> b(16);
+  for (std::uint32_t y = 0; y < 4; ++y) {
+    for (std::uint32_t x = 0; x < 4; ++x) {
+      b.add_coupling(y * 4 + x, y * 4 + (x + 1) % 4, J);
+      b.add_coupling(y * 4 + x, ((y + 1) % 4) * 4 + x, J);
+    }
+  }
+  const auto model = b.build().value();
+  const double bonds[] = {-32, -24, -20, -16, -12, -8, -4, 0, 4, 8, 12, 16, 20, 24, 32};
+  const std::uint64_t counts[] = {2, 32, 64, 424, 1728, 6688, 13568, 20524, 13568, 6688, 1728, 424, 64, 32, 2};
+  for (bool symmetry : {true, false}) {
+    CAPTURE(symmetry);
+    ExactParams p;
+    p.levels = 20;
+    p.flip_symmetry = symmetry;
+    const auto r = solve_exact(model, p);
+    REQUIRE(r.ok());
+    REQUIRE(r->levels.size() == 15);
+    for (std::size_t k = 0; k < 15; ++k) {
+      CAPTURE(k);
+      CHECK(std::abs(r->levels[k].energy - -J * bonds[k]) <= 1e-12 * 32 * -J);  // E = J sum s_i s_j
+      CHECK(r->levels[k].count == counts[k]);
+    }
   }
 }
 
