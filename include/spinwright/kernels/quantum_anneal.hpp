@@ -35,7 +35,7 @@ enum class SliceMoves : std::uint8_t {
 
 struct QuantumAnnealParams {
   std::uint64_t sweeps = 1000;  // schedule length (a Budget's sweeps override it in run())
-  std::uint32_t slices = 32;    // P, the Trotter number (at least 1)
+  std::uint32_t slices = 16;    // P, the Trotter number (at least 1)
   // T in the model's energy units; 0: P T = u / 4, where u = BetaSpan::hot_delta / 2 (the RMS
   // local field of a random state) is the model's energy scale (docs/quantum.md: instances
   // with widely spread coefficients, such as bqp, do better near P T = u / 10).
