@@ -36,9 +36,9 @@ struct ParallelFor {
 };
 
 struct PopulationParams {
-  std::size_t population = 500;       // R, at least 1
-  std::uint64_t steps = 100;          // beta steps S (the schedule's points)
-  std::uint64_t sweeps_per_step = 5;  // Metropolis sweeps of every replica after each resampling
+  std::size_t population = 100;       // R, at least 1
+  std::uint64_t steps = 200;          // beta steps S (the schedule's points)
+  std::uint64_t sweeps_per_step = 2;  // Metropolis sweeps of every replica after each resampling
   // beta of step j = 1..S is schedule.beta_at((j - 1) / (S - 1)); the population starts at
   // beta = 0 (uniform random states). Automatic (both ends 0): geometric over the model's beta
   // span (for ground states; free-energy runs usually want linear steps from near 0).
