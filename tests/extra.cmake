@@ -38,3 +38,18 @@ if(SPINWRIGHT_TEST_MPI)
   add_subdirectory(${CMAKE_CURRENT_SOURCE_DIR}/mpi ${CMAKE_CURRENT_BINARY_DIR}/mpi)
 endif()
 # ---- mpi: end ----
+
+# ---- kernels (quantum annealing): begin ----
+# Eigen is a test-only dependency of kernels_test_quantum_anneal: small transverse-field models
+# are checked against exact diagonalisation. Debian: apt-get install libeigen3-dev.
+if(TARGET kernels_test_quantum_anneal)
+  find_package(Eigen3 3.3 NO_MODULE QUIET)
+  if(NOT TARGET Eigen3::Eigen)
+    message(FATAL_ERROR
+      "Eigen not found (needed by tests/kernels/test_quantum_anneal.cpp): install libeigen3-dev "
+      "(apt-get install libeigen3-dev) or set Eigen3_DIR.")
+  endif()
+  get_target_property(SPINWRIGHT_EIGEN_INCLUDE Eigen3::Eigen INTERFACE_INCLUDE_DIRECTORIES)
+  target_include_directories(kernels_test_quantum_anneal SYSTEM PRIVATE ${SPINWRIGHT_EIGEN_INCLUDE})
+endif()
+# ---- kernels (quantum annealing): end ----

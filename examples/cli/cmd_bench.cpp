@@ -75,7 +75,7 @@ Failure parse_kernels(const std::string& text, const LoadedModel& m, std::vector
     Kernel k = Kernel::anneal;
     if (!kernel_from_name(name, is_auto, k)) {
       return usage_failure("unknown kernel '" + name + "' in --kernel",
-                           "kernels are: auto, all, anneal, temper, tabu, descent, exact");
+                           "kernels are: auto, all, anneal, temper, tabu, descent, exact, sqa, population");
     }
     std::uint64_t sweeps = 0;
     if (is_auto) {

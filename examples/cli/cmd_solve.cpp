@@ -21,7 +21,7 @@ namespace {
 const std::vector<OptionSpec>& solve_options() {
   static const std::vector<OptionSpec> specs = {
       {"format", "edges|mtx", "input format (default: detected from the content)"},
-      {"kernel", "NAME", "auto, anneal, temper, tabu, descent or exact (default auto)"},
+      {"kernel", "NAME", "auto, anneal, temper, tabu, descent, exact, sqa or population (default auto)"},
       {"time-limit", "SECONDS", "wall-clock limit for the whole run; auto without --sweeps fills it (default: none)"},
       {"sweeps", "N", "sweeps per restart (default: the kernel's own, 1000 for anneal)"},
       {"restarts", "R", "independent restarts (default 8; one per thread when auto fills a time limit)"},
@@ -56,7 +56,8 @@ Failure read_settings(const Args& args, SolveSettings& s) {
   if (const std::string* k = args.value("kernel")) {
     s.kernel_text = *k;
     if (!kernel_from_name(*k, s.kernel_auto, s.kernel)) {
-      return usage_failure("unknown kernel '" + *k + "'", "kernels are: auto, anneal, temper, tabu, descent, exact");
+      return usage_failure("unknown kernel '" + *k + "'",
+                           "kernels are: auto, anneal, temper, tabu, descent, exact, sqa, population");
     }
   }
   std::uint64_t v = 0;

@@ -9,6 +9,8 @@
 #include <spinwright/kernels/auto.hpp>
 #include <spinwright/kernels/descent.hpp>
 #include <spinwright/kernels/exact.hpp>
+#include <spinwright/kernels/population.hpp>
+#include <spinwright/kernels/quantum_anneal.hpp>
 #include <spinwright/kernels/tabu.hpp>
 #include <spinwright/kernels/temper.hpp>
 #include <spinwright/parallel/exact_threads.hpp>
@@ -33,6 +35,10 @@ const char* kernel_name(Kernel k) {
       return "descent";
     case Kernel::exact:
       return "exact";
+    case Kernel::sqa:
+      return "sqa";
+    case Kernel::population:
+      return "population";
   }
   return "anneal";
 }
@@ -40,7 +46,8 @@ const char* kernel_name(Kernel k) {
 bool kernel_from_name(const std::string& name, bool& is_auto, Kernel& out) {
   is_auto = name == "auto";
   if (is_auto) return true;
-  for (const Kernel k : {Kernel::anneal, Kernel::temper, Kernel::tabu, Kernel::descent, Kernel::exact}) {
+  for (const Kernel k : {Kernel::anneal, Kernel::temper, Kernel::tabu, Kernel::descent, Kernel::exact, Kernel::sqa,
+                         Kernel::population}) {
     if (name == kernel_name(k)) {
       out = k;
       return true;
@@ -173,6 +180,18 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
       spinwright::TabuParams p;
       p.initial = warm;
       s = spinwright::tabu_walk(model, p, o.seed, r, budget, observer);
+      break;
+    }
+    case Kernel::sqa: {
+      spinwright::QuantumAnnealParams p;
+      p.initial = warm;
+      s = finish(model, spinwright::quantum_anneal(model, p, o.seed, r, budget, observer));
+      break;
+    }
+    case Kernel::population: {
+      spinwright::PopulationParams p;
+      p.initial = warm;
+      s = finish(model, spinwright::population_anneal(model, p, o.seed, r, budget, observer));
       break;
     }
     case Kernel::exact:

@@ -17,7 +17,7 @@
 
 namespace spinwright_cli {
 
-enum class Kernel { anneal, temper, tabu, descent, exact };
+enum class Kernel { anneal, temper, tabu, descent, exact, sqa, population };
 
 const char* kernel_name(Kernel k);
 // "auto" is resolved by choose_kernel; false for an unknown name.
