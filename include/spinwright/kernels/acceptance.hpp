@@ -486,7 +486,10 @@ Acceptor<typename Model::energy_type> make_acceptor(
   } else {
     unsigned shift = 0;
     std::uint64_t max_delta = 0;
-    if (!detail::integral_float_model(model, shift, max_delta)) shift = 0, max_delta = 0;
+    if (!detail::integral_float_model(model, shift, max_delta)) {
+      shift = 0;
+      max_delta = 0;
+    }
     return Acceptor<energy_type>(rule, shift, max_delta, table_limit);
   }
 }
@@ -503,7 +506,10 @@ Acceptor<typename Model::energy_type> make_acceptor(const Model& model, Acceptan
   } else {
     unsigned shift = 0;
     std::uint64_t max_delta = 0;
-    if (!detail::integral_float_model(model, shift, max_delta)) shift = 0, max_delta = 0;
+    if (!detail::integral_float_model(model, shift, max_delta)) {
+      shift = 0;
+      max_delta = 0;
+    }
     return Acceptor<energy_type>(rule, shift, max_delta, table_limit, arena);
   }
 }
