@@ -5,7 +5,10 @@
 #include <doctest/doctest.h>
 
 #include <spinwright/kernels/acceptance.hpp>
+#include <spinwright/kernels/anneal.hpp>
 #include <spinwright/model/builder.hpp>
+
+#include "support/anneal_graph.hpp"
 
 #include <cmath>
 #include <cstdint>
@@ -201,4 +204,63 @@ TEST_CASE("make_acceptor derives the delta granularity from the model") {
   QuboBuilder<std::int64_t> q(2);
   q.add_unary(0, 6).add_pair(0, 1, -2);
   CHECK(detail::delta_shift(q.build().value()) == 1u);
+}
+
+TEST_CASE("floating models with integer coefficients are decided by the integer table") {
+  // Integer sums are exact in double below 2^53, so a max-cut graph held as double has exact
+  // integer deltas; the table must give the definitions' rates (Metropolis 1953, Glauber
+  // 1963) and follow edits that leave the integers.
+  IsingBuilder<double> b(4);
+  b.add_coupling(0, 1, 2.0).add_coupling(1, 2, -4.0).add_coupling(2, 3, 6.0).add_field(3, 2.0);
+  auto model = b.build().value();
+  for (const Acceptance rule : {Acceptance::metropolis, Acceptance::heat_bath}) {
+    auto acc = make_acceptor(model, rule);
+    CHECK(acc.table_decides());
+    CHECK(acc.table_size() > 0);
+    const double beta = 0.15;
+    acc.set_beta(beta);
+    for (const double d : {-8.0, -4.0, 0.0, 4.0, 12.0, 24.0}) {
+      check_rate(acc, d, rule == Acceptance::metropolis ? metropolis(beta, d) : heat_bath(beta, d), 11);
+    }
+    // An edit to a non-integer coefficient: the next retune leaves the table for the
+    // logarithm comparison, whose rates are the same definitions.
+    REQUIRE(model.set_pair(0, 1, 2.5));
+    acc.retune(model);
+    CHECK(!acc.table_decides());
+    check_rate(acc, 5.0, rule == Acceptance::metropolis ? metropolis(beta, 5.0) : heat_bath(beta, 5.0), 12);
+    REQUIRE(model.set_pair(0, 1, 2.0));
+    acc.retune(model);
+    CHECK(acc.table_decides());
+  }
+  // Non-integer, huge, or no coefficients: no table.
+  IsingBuilder<double> c(2);
+  c.add_coupling(0, 1, 0.5);
+  CHECK(!make_acceptor(c.build().value(), Acceptance::metropolis).table_decides());
+  IsingBuilder<double> big(2);
+  big.add_coupling(0, 1, 1e12);
+  CHECK(!make_acceptor(big.build().value(), Acceptance::metropolis).table_decides());
+}
+
+TEST_CASE("an integer-valued double model anneals exactly as the int32 model") {
+  // Same deltas, same table, same draws: the spins of every sweep agree (the int32 model's
+  // hazard path is turned off, since it draws its own stream). Common practice: one kernel,
+  // two value types, one chain.
+  const auto g = anneal_support::random_cubic(300, 9);
+  const auto mi = anneal_support::maxcut_model<std::int32_t>(g);
+  const auto md = anneal_support::maxcut_model<double>(g);
+  for (const SiteOrder order : {SiteOrder::sequential, SiteOrder::random}) {
+    AnnealParams p;
+    p.sweeps = 200;
+    p.order = order;
+    p.hazard_below = 0;
+    Annealer<IsingModel<std::int32_t>> ai(mi, p, 4);
+    Annealer<IsingModel<double>> ad(md, p, 4);
+    for (int k = 0; k < 200; k += 20) {
+      ai.step(20);
+      ad.step(20);
+      CHECK(static_cast<double>(ai.state().energy()) == ad.state().energy());
+      CHECK(ai.accepted() == ad.accepted());
+    }
+    CHECK(ai.best().energy == ad.best().energy);
+  }
 }

@@ -200,7 +200,7 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
     schedule_sweeps_ = params_.sweeps;
     schedule_ = params_.schedule;
     if (schedule_.automatic()) {
-      range_ = estimate_beta_span(*model_);
+      range_ = sample_beta_span(*model_);
       schedule_.beta_start = range_.beta_start;
       schedule_.beta_end = range_.beta_end;
     } else {

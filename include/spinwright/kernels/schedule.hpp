@@ -20,7 +20,7 @@ enum class ScheduleShape : std::uint8_t {
 };
 
 // A schedule. With beta_start and beta_end both 0 (the default) the kernel derives the range
-// from the model (estimate_beta_span). A callable is called once per sweep, never per
+// from the model (the annealer: sample_beta_span). A callable is called once per sweep, never per
 // attempt; it and its context must outlive the kernel that uses the schedule.
 struct Schedule {
   ScheduleShape shape = ScheduleShape::geometric;
