@@ -54,7 +54,7 @@ std::string exact_report(const LoadedModel& m, const Model& model, const spinwri
       j.member("cut", cut);
       j.member("total_weight", weight);
     }
-    j.member("ground_states", r.ground_count);
+    j.member("ground_states", r.ground_states);
     j.member("states_visited", r.states);
     j.member("used_flip_symmetry", r.used_flip_symmetry);
     j.key("spins").begin_array();
@@ -85,7 +85,7 @@ std::string exact_report(const LoadedModel& m, const Model& model, const spinwri
   t.line("time", seconds_text(seconds) + " on " + std::to_string(threads) + (threads == 1 ? " thread" : " threads"));
   t.line("ground energy", number_text(r.energy));
   if (m.graph) t.line("maximum cut", number_text(cut) + " (total weight " + number_text(weight) + ")");
-  t.line("ground states", std::to_string(r.ground_count));
+  t.line("ground states", std::to_string(r.ground_states));
   if (r.levels.size() > 1) {
     for (std::size_t k = 1; k < r.levels.size(); ++k) {
       t.line("level " + std::to_string(k + 1),

@@ -228,7 +228,7 @@ Failure run_exact_kernel(const LoadedModel& m, const Model& model, const RunOpti
   out.tally = spinwright::Tally<double>();
   out.tally.add(std::move(s));
   out.exact = true;
-  out.ground_count = result->ground_count;
+  out.ground_count = result->ground_states;
   out.threads = o.threads;
   if (o.progress != nullptr) o.progress->restarts_done.store(1);
   return {};

@@ -70,7 +70,7 @@ TEST_CASE_TEMPLATE("4x4 torus ferromagnet: lowest levels and degeneracies", Mode
       CHECK(static_cast<double>(r->levels[k].energy) == doctest::Approx(energies[k]));
       CHECK(r->levels[k].count == counts[k]);
     }
-    CHECK(r->ground_count == 2);
+    CHECK(r->ground_states == 2);
     CHECK(static_cast<double>(r->energy) == -32.0);
     CHECK(r->solution().energy == r->energy);
     CHECK(r->solution().spins == r->spins);
@@ -144,7 +144,7 @@ TEST_CASE("number partitioning facts") {
     auto r = solve_exact(partition_model({4, 5, 6, 7, 8}));
     REQUIRE(r.ok());
     CHECK(r->energy == 0);
-    CHECK(r->ground_count == 2);
+    CHECK(r->ground_states == 2);
     // {4,5,6} | {7,8}: the sheet's s = (+,+,+,-,-) and its global flip (-,-,-,+,+); the flip
     // has the lower canonical index (1 + 2 + 4 = 7 against 8 + 16 = 24), so it is reported.
     const std::int8_t expect[] = {-1, -1, -1, 1, 1};
@@ -166,7 +166,7 @@ TEST_CASE("number partitioning facts") {
     auto r = solve_exact(partition_model({3, 1, 1, 2, 2, 1}));
     REQUIRE(r.ok());
     CHECK(r->energy == 0);
-    CHECK(r->ground_count == 10);
+    CHECK(r->ground_states == 10);
   }
 }
 
@@ -208,7 +208,7 @@ TEST_CASE_TEMPLATE("QUBO worked example: unique minimum", Model, QuboModel<std::
   auto r = solve_exact(model, p);
   REQUIRE(r.ok());
   CHECK(static_cast<double>(r->energy) == -3.0);
-  CHECK(r->ground_count == 1);
+  CHECK(r->ground_states == 1);
   CHECK(r->bits() == std::vector<std::uint8_t>{1, 0, 1});
   CHECK_FALSE(r->used_flip_symmetry);
   // Every energy of the table: 0, 1, -2, 0, -1, -3, -1, -2 -> levels -3:1, -2:2, -1:2, 0:2, 1:1.
@@ -284,7 +284,7 @@ TEST_CASE_TEMPLATE("thread count does not change the result", Value, std::int64_
     REQUIRE(r.ok());
     CHECK(r->energy == one->energy);
     CHECK(r->spins == one->spins);
-    CHECK(r->ground_count == one->ground_count);
+    CHECK(r->ground_states == one->ground_states);
     REQUIRE(r->levels.size() == one->levels.size());
     for (std::size_t k = 0; k < r->levels.size(); ++k) {
       CHECK(r->levels[k].energy == one->levels[k].energy);
@@ -330,7 +330,7 @@ TEST_CASE("a stop token ends the enumeration with StatusCode::stopped; an unused
   REQUIRE(plain.ok());
   REQUIRE(watched.ok());
   CHECK(watched.value().energy == plain.value().energy);
-  CHECK(watched.value().ground_count == plain.value().ground_count);
+  CHECK(watched.value().ground_states == plain.value().ground_states);
   CHECK(watched.value().spins == plain.value().spins);
 
   StopToken early;
@@ -368,7 +368,7 @@ TEST_CASE("empty and one-spin models") {
   auto r = solve_exact(b.build().value());
   REQUIRE(r.ok());
   CHECK(r->energy == 2.5);
-  CHECK(r->ground_count == 1);
+  CHECK(r->ground_states == 1);
   CHECK(r->spins.empty());
 
   QuboBuilder<std::int32_t> q(1);

@@ -62,7 +62,7 @@ TEST_CASE("max-cut: published maximum cuts of K_n, C_n and the Petersen graph") 
     CHECK(report.cut_weight == (p->total_weight() - ex->energy) / 2);
     CHECK(best_cut(*p, c.n) == c.max_cut);
     CHECK(sides.zero.size() + sides.one.size() == c.n);
-    if (c.optimal_states != 0) CHECK(ex->ground_count == c.optimal_states);
+    if (c.optimal_states != 0) CHECK(ex->ground_states == c.optimal_states);
   }
 }
 
