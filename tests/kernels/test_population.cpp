@@ -404,3 +404,23 @@ TEST_CASE("bqp250 instances: the optimum cut within a fixed sweep budget") {
     CHECK(cut == inst.optimum);
   }
 }
+
+TEST_CASE("resampling is multinomial: occupancy of the families after one step of equal weights") {
+  // At beta_1 = 1e-12 every weight is equal to within 1e-10, so resampling draws R parents
+  // uniformly: the expected fraction of parents with a child is 1 - (1 - 1/R)^R (occupancy of
+  // R bins by R balls; common practice, e.g. Feller, An Introduction to Probability Theory,
+  // vol. 1, ch. IV), with standard deviation below 0.5 / sqrt(R).
+  const auto model = anneal_support::square_lattice<std::int32_t>(3, -1);
+  PopulationParams p;
+  p.population = 20000;
+  p.steps = 1;
+  p.sweeps_per_step = 1;
+  p.schedule = Schedule::constant(1e-12);
+  PopulationAnnealer<IsingModel<std::int32_t>> pa(model, p, 3);
+  pa.step(1);
+  const double R = 20000;
+  const double expected = 1 - std::pow(1 - 1 / R, R);
+  const PopulationStats st = pa.stats();
+  CHECK(std::fabs(static_cast<double>(st.families) / R - expected) < 4 * 0.5 / std::sqrt(R));
+  CHECK(st.effective_size == doctest::Approx(R).epsilon(1e-9));
+}

@@ -231,6 +231,21 @@ TEST_CASE("critical chain, L = 64, P = 128, low T: energy per site within 0.5 % 
   CHECK(std::fabs(e.mean / L - pfeuty_energy_per_site(1.0, 1.0)) < 0.01 * 4 / 3.14159265358979323846);
 }
 
+TEST_CASE("periodic chains off the critical field: the free-fermion energy at L = 16") {
+  // Pfeuty 1970 (free fermions, both parities): ordered (G = 0.5) and disordered (G = 1.5)
+  // chains, beta = 4, P = 64 (beta / P = 1/16), within four standard errors plus 0.3 % for the
+  // Trotter error.
+  const int L = 16;
+  const auto model = anneal_support::ring<double>(L, -1.0);
+  for (double G : {0.5, 1.5}) {
+    CAPTURE(G);
+    const Estimate e = measure(model, G, 1.0, 0.25, 64, 300, 10000, 31);
+    const double exact = chain_energy(L, 1.0, G, 4.0);
+    MESSAGE("L=16 G=", G, ": ", e.mean / L, " +- ", e.error / L, " exact ", exact / L);
+    CHECK(std::fabs(e.mean - exact) < 4 * e.error + 0.003 * std::fabs(exact));
+  }
+}
+
 TEST_CASE("small random transverse-field models: thermal energy converges to exact diagonalisation as P grows") {
   // Exact diagonalisation of the 2^N x 2^N Hamiltonian (Eigen); random couplings and fields
   // (common practice). The Trotter error shrinks as P grows (Suzuki, Prog. Theor. Phys. 56,
