@@ -1,0 +1,250 @@
+// The bit-sliced kernel (kernels/bit_sliced.hpp): its adders against counting, its streams
+// against Xoshiro256, every restart's energy against the model's own energy function, the
+// independence of results from the words per pass and the thread count, the refusals of
+// bit_sliced_fits, and, as outside checks, exact Boltzmann averages of the 4 x 4 torus,
+// Onsager's energy and Yang's magnetisation of the 2D ferromagnet, and the 3D +-J spin-glass
+// ground-state energy that long anneals approach.
+#include <doctest/doctest.h>
+
+#include <spinwright/kernels/bit_sliced.hpp>
+#include <spinwright/model/builder.hpp>
+#include <spinwright/parallel/bit_sliced_restarts.hpp>
+#include <spinwright/problems/lattice.hpp>
+
+#include "support/anneal_graph.hpp"
+
+#include <cmath>
+#include <cstdint>
+#include <vector>
+
+using namespace spinwright;
+
+namespace {
+
+using Model = IsingModel<std::int32_t>;
+
+// Number of set bits, one at a time (common practice).
+int ones(std::uint64_t v) {
+  int c = 0;
+  for (; v != 0; v >>= 1) c += static_cast<int>(v & 1u);
+  return c;
+}
+
+template <int D>
+void check_counter() {
+  constexpr int planes = detail::count_planes(D);
+  // Bit b of the batch starting at `base` holds input combination base + b.
+  for (std::uint64_t base = 0; base < (std::uint64_t{1} << D); base += 64) {
+    std::uint64_t in[D];
+    for (int t = 0; t < D; ++t) {
+      in[t] = 0;
+      for (unsigned b = 0; b < 64; ++b) in[t] |= (((base + b) >> t) & 1u) << b;
+    }
+    std::uint64_t count[planes];
+    detail::count_bits<D>(in, count);
+    for (unsigned b = 0; b < 64 && base + b < (std::uint64_t{1} << D); ++b) {
+      unsigned got = 0;
+      for (int p = 0; p < planes; ++p) got |= static_cast<unsigned>((count[p] >> b) & 1u) << p;
+      const int want = ones(base + b);
+      REQUIRE(got == static_cast<unsigned>(want));
+      for (unsigned limit = 0; limit <= static_cast<unsigned>(D); ++limit) {
+        const bool at_most = ((detail::at_most<planes>(count, limit) >> b) & 1u) != 0;
+        REQUIRE(at_most == (want <= static_cast<int>(limit)));
+      }
+    }
+  }
+}
+
+// A model with couplings +-2, some fields +-2, degrees 0 to 15 (a field counting as one):
+// spin i is joined to the next i % 15 spins (invented data, seeded).
+Model mixed_degree_model(std::uint32_t n, std::uint64_t seed) {
+  Xoshiro256 rng(seed);
+  std::vector<int> degree(n, 0);
+  IsingBuilder<std::int32_t> b(n);
+  for (std::uint32_t i = 0; i < n; ++i) {
+    const std::uint32_t want = i % 15;
+    for (std::uint32_t j = i + 1; j < n && static_cast<std::uint32_t>(degree[i]) < want; ++j) {
+      if (degree[j] >= 14) continue;
+      b.add_coupling(i, j, rng.coin() ? 2 : -2);
+      ++degree[i];
+      ++degree[j];
+    }
+    if (degree[i] < 15 && rng.below(3) == 0) b.add_field(i, rng.coin() ? 2 : -2);
+  }
+  return b.build().value();
+}
+
+// Unsatisfied-bond energies of every restart's current state against model.energy.
+template <std::size_t Words>
+void check_energies(const Model& model, BitSlicedAnnealer<Model, Words>& k) {
+  std::vector<std::int64_t> current(k.restarts());
+  k.current_energies(current.data());
+  std::vector<std::int8_t> s(model.num_spins());
+  for (std::size_t r = 0; r < k.restarts(); ++r) {
+    k.current_spins(r, s.data());
+    REQUIRE(current[r] == model.energy(s.data()));
+    k.best_spins(r, s.data());
+    REQUIRE(k.best_energy(r) == model.energy(s.data()));
+    REQUIRE(k.best_energy(r) <= current[r]);
+  }
+}
+
+}  // namespace
+
+TEST_CASE("the bitwise adders count every combination of up to 15 inputs") {
+  // Reference: the count of set bits (common practice), exhaustively.
+  check_counter<1>();
+  check_counter<2>();
+  check_counter<3>();
+  check_counter<4>();
+  check_counter<5>();
+  check_counter<6>();
+  check_counter<7>();
+  check_counter<8>();
+  check_counter<9>();
+  check_counter<10>();
+  check_counter<11>();
+  check_counter<12>();
+  check_counter<13>();
+  check_counter<14>();
+  check_counter<15>();
+}
+
+TEST_CASE("each word's stream is Xoshiro256::for_restart(seed, bit_sliced_stream(word))") {
+  // Reference: the library's scalar generator (rng/xoshiro.hpp, Blackman & Vigna 2021).
+  detail::StreamSet<3> set{};
+  for (std::size_t w = 0; w < 3; ++w) set.seed_lane(w, 77, bit_sliced_stream(10 + w));
+  Xoshiro256 g[3] = {Xoshiro256::for_restart(77, bit_sliced_stream(10)),
+                     Xoshiro256::for_restart(77, bit_sliced_stream(11)),
+                     Xoshiro256::for_restart(77, bit_sliced_stream(12))};
+  for (int step = 0; step < 100; ++step) {
+    const std::uint64_t move[3] = {1, static_cast<std::uint64_t>(step % 3 == 0), 0};
+    std::uint64_t out[3];
+    set.next(out, move);
+    CHECK(out[0] == g[0].next());
+    if (move[1] != 0) CHECK(out[1] == g[1].next());
+  }
+  std::uint64_t out[3];
+  const std::uint64_t all[3] = {1, 1, 1};
+  set.next(out, all);
+  CHECK(out[2] == g[2].next());  // the stream that never moved still starts at its beginning
+}
+
+TEST_CASE("every restart's energy equals the model's energy of its spins") {
+  // Reference: SparseModel::energy of the unpacked spins (the model's own definition).
+  const Model cubic = plus_minus_cubic_lattice<std::int32_t>(5, 3).value();
+  const Model mixed = mixed_degree_model(60, 9);
+  REQUIRE(bit_sliced_fits(cubic).ok());
+  REQUIRE(bit_sliced_fits(mixed).ok());
+  BitSlicedParams p;
+  p.sweeps = 40;
+  BitSlicedAnnealer<Model, 2> a(cubic, p, 5);
+  REQUIRE(a.valid());
+  check_energies(cubic, a);
+  for (int k = 0; k < 4; ++k) {
+    a.step(10);
+    check_energies(cubic, a);
+  }
+  BitSlicedAnnealer<Model, 1> b(mixed, p, 6);
+  REQUIRE(b.valid());
+  for (int k = 0; k < 4; ++k) {
+    b.step(10);
+    check_energies(mixed, b);
+  }
+  const auto best = b.best();
+  CHECK(best.energy == mixed.energy(best.spins));
+}
+
+TEST_CASE("a restart's run does not depend on the words per pass or the thread count") {
+  const Model model = mixed_degree_model(80, 4);
+  BitSlicedParams p;
+  p.sweeps = 60;
+  BitSlicedAnnealer<Model, 4> wide(model, p, 11, 0);
+  BitSlicedAnnealer<Model, 1> w2(model, p, 11, 2);
+  BitSlicedAnnealer<Model, 2> w01(model, p, 11, 0);
+  wide.advance();
+  w2.advance();
+  w01.advance();
+  std::vector<std::int8_t> a(model.num_spins()), b(model.num_spins());
+  for (std::size_t k = 0; k < 64; ++k) {
+    wide.current_spins(128 + k, a.data());
+    w2.current_spins(k, b.data());
+    REQUIRE(a == b);
+    CHECK(wide.best_energy(128 + k) == w2.best_energy(k));
+  }
+  for (std::size_t k = 0; k < 128; ++k) {
+    wide.current_spins(k, a.data());
+    w01.current_spins(k, b.data());
+    REQUIRE(a == b);
+  }
+  // 7 words (400 restarts, the last word partly used) on one thread and on two.
+  const auto one = anneal_bit_sliced(model, p, 21, 400, 1);
+  const auto two = anneal_bit_sliced(model, p, 21, 400, 2);
+  REQUIRE(one.ok());
+  REQUIRE(two.ok());
+  REQUIRE(one->restarts() == 400);
+  CHECK(one->energies() == two->energies());
+  CHECK(one->best().spins == two->best().spins);
+  CHECK(one->best().restart == two->best().restart);
+  CHECK(one->best().energy == model.energy(one->best().spins.data()));
+  // And the one-call function's restart 130 is restart 2 of a kernel on word 2.
+  BitSlicedAnnealer<Model, 1> word2(model, p, 21, 2);
+  word2.advance();
+  CHECK(one->energies()[130] == word2.best_energy(2));
+}
+
+TEST_CASE("bit_sliced_fits names the term that keeps a model out") {
+  IsingBuilder<std::int32_t> b(4);
+  b.add_coupling(0, 1, 1).add_coupling(1, 2, -1).add_coupling(2, 3, 3);
+  const Model magnitudes = b.build().value();
+  const Status s = bit_sliced_fits(magnitudes);
+  CHECK(s.code == StatusCode::invalid_argument);
+  CHECK(s.i == 2);
+  CHECK(s.j == 3);
+  BitSlicedAnnealer<Model, 1> refused(magnitudes, BitSlicedParams{}, 1);
+  CHECK_FALSE(refused.valid());
+  CHECK(refused.status().i == 2);
+  refused.step(3);  // does nothing, never crashes
+  CHECK(refused.sweeps_done() == 0);
+  CHECK_FALSE(anneal_bit_sliced(magnitudes, BitSlicedParams{}, 1, 64).ok());
+
+  IsingBuilder<std::int32_t> f(3);
+  f.add_coupling(0, 1, 1).add_coupling(1, 2, 1).add_field(1, 2);
+  const Status field = bit_sliced_fits(f.build().value());
+  CHECK(field.code == StatusCode::invalid_argument);
+  CHECK(field.i == 1);
+  CHECK(field.j == 1);
+
+  IsingBuilder<std::int32_t> star(17);
+  for (std::uint32_t j = 1; j < 17; ++j) star.add_coupling(0, j, -1);
+  const Status degree = bit_sliced_fits(star.build().value());
+  CHECK(degree.code == StatusCode::size_limit);
+  CHECK(degree.i == 0);
+
+  QuboBuilder<std::int32_t> q(2);
+  q.add_pair(0, 1, 1);
+  CHECK_FALSE(bit_sliced_fits(q.build().value()).ok());
+
+  // Fields of the coupling magnitude are taken (a bond to a fixed +1 spin).
+  IsingBuilder<std::int32_t> ok(3);
+  ok.add_coupling(0, 1, 1).add_coupling(1, 2, -1).add_field(0, -1).add_field(2, 1);
+  CHECK(bit_sliced_fits(ok.build().value()).ok());
+}
+
+TEST_CASE("arena constructor: bytes_needed is enough, too little leaves it not valid") {
+  const Model model = plus_minus_cubic_lattice<std::int32_t>(4, 1).value();
+  BitSlicedParams p;
+  p.sweeps = 20;
+  const std::size_t need = BitSlicedAnnealer<Model, 2>::bytes_needed(model, p);
+  std::vector<unsigned char> memory(need);
+  Arena arena(memory.data(), memory.size());
+  BitSlicedAnnealer<Model, 2> a(model, p, arena, 3);
+  REQUIRE(a.valid());
+  BitSlicedAnnealer<Model, 2> h(model, p, 3);
+  a.advance();
+  h.advance();
+  for (std::size_t k = 0; k < 128; ++k) CHECK(a.best_energy(k) == h.best_energy(k));
+  Arena small(memory.data(), need / 2);
+  BitSlicedAnnealer<Model, 2> cramped(model, p, small, 3);
+  CHECK_FALSE(cramped.valid());
+}
