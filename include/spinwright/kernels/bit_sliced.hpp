@@ -107,7 +107,7 @@ struct StreamSet {
     s3[w] = splitmix64(sm);
   }
 
-  void next(std::uint64_t* out, const std::uint64_t* move) noexcept {
+  SPINWRIGHT_BIT_INLINE void next(std::uint64_t* out, const std::uint64_t* move) noexcept {
     for (std::size_t w = 0; w < Words; ++w) {
       const std::uint64_t a = s0[w], b = s1[w], c = s2[w], d = s3[w];
       out[w] = rotl(a + d, 23) + a;
@@ -116,7 +116,8 @@ struct StreamSet {
       const std::uint64_t d1 = d ^ b;
       const std::uint64_t b1 = b ^ c1;
       const std::uint64_t a1 = a ^ d1;
-      const std::uint64_t keep = move[w] != 0 ? 0 : ~std::uint64_t{0};
+      // With one word the caller draws only when that word needs it: the stream always moves.
+      const std::uint64_t keep = (Words == 1 || move[w] != 0) ? 0 : ~std::uint64_t{0};
       s0[w] = (a & keep) | (a1 & ~keep);
       s1[w] = (b & keep) | (b1 & ~keep);
       s2[w] = (c & keep) | ((c1 ^ t) & ~keep);
@@ -418,10 +419,29 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     return b > 0 ? b : 0.0;
   }
 
-  // Unsatisfied bonds of every restart, by a bitwise counter of `planes_` planes per word.
+  // Unsatisfied bonds of every restart: the bonds' words are counted 15 at a time by the
+  // bitwise adders into 4 planes, which are added into a counter of `planes_` planes per word.
   void count_unsatisfied(std::int64_t* unsat) const noexcept {
     const std::size_t n = model_->num_spins();
-    std::uint64_t counter[Words][40] = {};
+    std::uint64_t total[Words][40] = {};
+    std::uint64_t batch[Words][15];
+    int fill = 0;
+    auto flush = [&]() {
+      for (std::size_t w = 0; w < Words; ++w) {
+        for (int t = fill; t < 15; ++t) batch[w][t] = 0;
+        std::uint64_t four[4];
+        detail::count_bits<15>(batch[w], four);
+        std::uint64_t carry = 0;
+        for (int p = 0; p < planes_; ++p) {
+          const std::uint64_t x = p < 4 ? four[p] : 0;
+          if (p >= 4 && carry == 0) break;
+          const std::uint64_t t = total[w][p];
+          total[w][p] = t ^ x ^ carry;
+          carry = (t & x) | (carry & (t ^ x));
+        }
+      }
+      fill = 0;
+    };
     const std::uint64_t* s = spins_.data();
     for (std::size_t i = 0; i < n; ++i) {
       for (std::uint32_t t = row_[i]; t < row_[i + 1]; ++t) {
@@ -429,20 +449,15 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
         const std::size_t j = slot & ~antiparallel_flag;
         if (j < i) continue;
         const std::uint64_t flip = (slot & antiparallel_flag) ? ~std::uint64_t{0} : 0;
-        for (std::size_t w = 0; w < Words; ++w) {
-          std::uint64_t carry = s[i * Words + w] ^ s[j * Words + w] ^ flip;
-          for (int p = 0; carry != 0 && p < planes_; ++p) {
-            const std::uint64_t next = counter[w][p] & carry;
-            counter[w][p] ^= carry;
-            carry = next;
-          }
-        }
+        for (std::size_t w = 0; w < Words; ++w) batch[w][fill] = s[i * Words + w] ^ s[j * Words + w] ^ flip;
+        if (++fill == 15) flush();
       }
     }
+    if (fill > 0) flush();
     for (std::size_t w = 0; w < Words; ++w) {
       for (unsigned b = 0; b < 64; ++b) {
         std::int64_t c = 0;
-        for (int p = 0; p < planes_; ++p) c |= static_cast<std::int64_t>((counter[w][p] >> b) & 1u) << p;
+        for (int p = 0; p < planes_; ++p) c |= static_cast<std::int64_t>((total[w][p] >> b) & 1u) << p;
         unsat[w * 64 + b] = c;
       }
     }
@@ -451,7 +466,8 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   // Bits set with probability p each, independently, among the bits of `undecided`: the bits
   // of a uniform u are drawn from the highest down and compared with p's, until every bit is
   // decided (u < p: set). Stream w draws only while word w has undecided bits.
-  void draw_mask(std::uint64_t* undecided, const detail::FixedProbability& p, std::uint64_t* out) noexcept {
+  SPINWRIGHT_BIT_INLINE static void draw_mask(detail::StreamSet<Words>& streams, std::uint64_t* undecided,
+                                              const detail::FixedProbability& p, std::uint64_t* out) noexcept {
     for (std::size_t w = 0; w < Words; ++w) out[w] = 0;
     if (p.one) {
       for (std::size_t w = 0; w < Words; ++w) out[w] = undecided[w];
@@ -464,7 +480,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
       if (any == 0) return;
       const std::uint64_t digit = ((p.threshold >> j) & 1u) ? ~std::uint64_t{0} : 0;
       std::uint64_t r[Words];
-      streams_.next(r, undecided);
+      streams.next(r, undecided);
       for (std::size_t w = 0; w < Words; ++w) {
         out[w] |= undecided[w] & ~r[w] & digit;
         undecided[w] &= ~(r[w] ^ digit);
@@ -478,7 +494,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   // exp(-2 beta J (D - 2 kmax)) and step = exp(-4 beta J): one trial of `base`, then one of
   // `step` for each further level, each trial only for the bits still in the running.
   template <int D>
-  void update_site(std::size_t i) noexcept {
+  SPINWRIGHT_BIT_INLINE void update_site(std::size_t i, detail::StreamSet<Words>& streams) noexcept {
     std::uint64_t* s = spins_.data();
     const std::uint32_t* slot = slots_.data() + row_[i];
     std::uint64_t x[Words];
@@ -497,13 +513,27 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
       constexpr unsigned kmax = (D - 1) / 2;
       std::uint64_t count[Words][planes];
       std::uint64_t running[Words];
+      std::uint64_t even[Words];  // k = D / 2: the flip leaves the energy unchanged
       for (std::size_t w = 0; w < Words; ++w) {
         detail::count_bits<D>(in[w], count[w]);
         running[w] = detail::at_most<planes>(count[w], kmax);
         accept[w] = ~running[w];
+        even[w] = D % 2 == 0 ? accept[w] & detail::at_most<planes>(count[w], kmax + 1) : 0;
+      }
+      if constexpr (D % 2 == 0) {
+        // Unchanged energy: accepted with probability 1/2 (one coin per bit), which keeps
+        // detailed balance and breaks the deterministic cycles a sequential sweep can fall
+        // into when every flip it meets leaves the energy unchanged (a 4 x 4 torus does).
+        std::uint64_t any = 0;
+        for (std::size_t w = 0; w < Words; ++w) any |= even[w];
+        if (any != 0) {
+          std::uint64_t coin[Words];
+          streams.next(coin, even);  // moves only the streams whose word has such bits
+          for (std::size_t w = 0; w < Words; ++w) accept[w] &= ~(even[w] & coin[w]);
+        }
       }
       std::uint64_t won[Words];
-      draw_mask(running, base_[D], won);
+      draw_mask(streams, running, base_[D], won);
       for (unsigned level = 1; level <= kmax; ++level) {
         std::uint64_t any = 0;
         for (std::size_t w = 0; w < Words; ++w) {
@@ -516,7 +546,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
           for (std::size_t w = 0; w < Words; ++w) won[w] = 0;
           break;
         }
-        draw_mask(running, step_, won);
+        draw_mask(streams, running, step_, won);
       }
       for (std::size_t w = 0; w < Words; ++w) accept[w] |= won[w];
     }
@@ -547,58 +577,62 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     const double beta = beta_at_sweep(sweeps_);
     if (sweeps_ == 0 || beta != beta_now_) set_beta(beta);
     const std::size_t n = model_->num_spins();
+    // The streams in a local whose address never leaves the inlined site updates, so that
+    // they stay in registers across the spin writes.
+    detail::StreamSet<Words> rng = streams_;
     for (std::size_t i = 0; i < n; ++i) {
       switch (row_[i + 1] - row_[i]) {
         case 0:
-          update_site<0>(i);
+          update_site<0>(i, rng);
           break;
         case 1:
-          update_site<1>(i);
+          update_site<1>(i, rng);
           break;
         case 2:
-          update_site<2>(i);
+          update_site<2>(i, rng);
           break;
         case 3:
-          update_site<3>(i);
+          update_site<3>(i, rng);
           break;
         case 4:
-          update_site<4>(i);
+          update_site<4>(i, rng);
           break;
         case 5:
-          update_site<5>(i);
+          update_site<5>(i, rng);
           break;
         case 6:
-          update_site<6>(i);
+          update_site<6>(i, rng);
           break;
         case 7:
-          update_site<7>(i);
+          update_site<7>(i, rng);
           break;
         case 8:
-          update_site<8>(i);
+          update_site<8>(i, rng);
           break;
         case 9:
-          update_site<9>(i);
+          update_site<9>(i, rng);
           break;
         case 10:
-          update_site<10>(i);
+          update_site<10>(i, rng);
           break;
         case 11:
-          update_site<11>(i);
+          update_site<11>(i, rng);
           break;
         case 12:
-          update_site<12>(i);
+          update_site<12>(i, rng);
           break;
         case 13:
-          update_site<13>(i);
+          update_site<13>(i, rng);
           break;
         case 14:
-          update_site<14>(i);
+          update_site<14>(i, rng);
           break;
         default:
-          update_site<15>(i);
+          update_site<15>(i, rng);
           break;
       }
     }
+    streams_ = rng;
     ++sweeps_;
     std::int64_t unsat[restarts_per_group];
     count_unsatisfied(unsat);

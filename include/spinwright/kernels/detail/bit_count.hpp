@@ -9,6 +9,13 @@
 
 #include <cstdint>  // std::uint64_t
 
+// The adders are a handful of instructions each and sit in the innermost loop: inlined always.
+#if defined(__GNUC__) || defined(__clang__)
+#define SPINWRIGHT_BIT_INLINE inline __attribute__((always_inline))
+#else
+#define SPINWRIGHT_BIT_INLINE inline
+#endif
+
 namespace spinwright {
 namespace detail {
 
@@ -16,8 +23,8 @@ namespace detail {
 constexpr int count_planes(int d) noexcept { return d >= 8 ? 4 : d >= 4 ? 3 : d >= 2 ? 2 : 1; }
 
 // Full adder on 64 bit positions at once: a + b + c = sum + 2 carry.
-inline void full_add(std::uint64_t a, std::uint64_t b, std::uint64_t c, std::uint64_t& sum,
-                     std::uint64_t& carry) noexcept {
+SPINWRIGHT_BIT_INLINE void full_add(std::uint64_t a, std::uint64_t b, std::uint64_t c, std::uint64_t& sum,
+                                    std::uint64_t& carry) noexcept {
   const std::uint64_t ab = a ^ b;
   sum = ab ^ c;
   carry = (a & b) | (ab & c);
@@ -25,7 +32,7 @@ inline void full_add(std::uint64_t a, std::uint64_t b, std::uint64_t c, std::uin
 
 // Adds a one-bit word of weight 2^from into the planes (ripple of half adders).
 template <int Planes>
-inline void add_carry(std::uint64_t* planes, std::uint64_t carry, int from) noexcept {
+SPINWRIGHT_BIT_INLINE void add_carry(std::uint64_t* planes, std::uint64_t carry, int from) noexcept {
   for (int p = from; p < Planes; ++p) {
     const std::uint64_t next = planes[p] & carry;
     planes[p] ^= carry;
@@ -37,7 +44,7 @@ inline void add_carry(std::uint64_t* planes, std::uint64_t carry, int from) noex
 // count is the number of inputs whose bit b is set. Inputs are taken three at a time by a
 // full adder whose sum has weight 1 and whose carry has weight 2.
 template <int D>
-inline void count_bits(const std::uint64_t* in, std::uint64_t* planes) noexcept {
+SPINWRIGHT_BIT_INLINE void count_bits(const std::uint64_t* in, std::uint64_t* planes) noexcept {
   constexpr int planes_used = count_planes(D);
   for (int p = 0; p < planes_used; ++p) planes[p] = 0;
   int k = 0;
@@ -54,7 +61,7 @@ inline void count_bits(const std::uint64_t* in, std::uint64_t* planes) noexcept 
 // (comparison from the highest plane down: greater as soon as a plane is 1 where the limit
 // has 0 and all higher planes were equal).
 template <int Planes>
-inline std::uint64_t at_most(const std::uint64_t* planes, unsigned limit) noexcept {
+SPINWRIGHT_BIT_INLINE std::uint64_t at_most(const std::uint64_t* planes, unsigned limit) noexcept {
   std::uint64_t greater = 0;
   std::uint64_t equal = ~std::uint64_t{0};
   for (int p = Planes - 1; p >= 0; --p) {
