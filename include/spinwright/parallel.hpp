@@ -4,6 +4,7 @@
 #define SPINWRIGHT_PARALLEL_HPP
 
 #include "config.hpp"
+#include "parallel/bit_sliced_restarts.hpp"
 #include "parallel/exact_threads.hpp"
 #include "parallel/restarts.hpp"
 

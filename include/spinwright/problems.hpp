@@ -8,6 +8,7 @@
 #include "problems/graph.hpp"
 #include "problems/independent_set.hpp"
 #include "problems/knapsack.hpp"
+#include "problems/lattice.hpp"
 #include "problems/max_cut.hpp"
 #include "problems/partition.hpp"
 #include "problems/penalty.hpp"

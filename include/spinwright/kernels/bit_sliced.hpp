@@ -1,0 +1,691 @@
+// spinwright — bit-sliced (multi-spin-coded) annealing for Ising models whose couplings are all
+// +-J, fields 0 or +-J, at most 15 neighbours a spin: 64 restarts per 64-bit word (restart k of a
+// word is bit k), Words words per site advanced together, unsatisfied bonds counted by bitwise
+// full adders, Metropolis acceptance from random bit masks, sequential sweeps.
+// bit_sliced_fits(model) says whether a model qualifies; the method: docs/kernels.md ("Bit-sliced").
+#ifndef SPINWRIGHT_KERNELS_BIT_SLICED_HPP
+#define SPINWRIGHT_KERNELS_BIT_SLICED_HPP
+
+#include "../arena.hpp"
+#include "../config.hpp"
+#include "../control.hpp"
+#include "../detail/buffer.hpp"
+#include "../model/form.hpp"
+#include "../rng/xoshiro.hpp"
+#include "../status.hpp"
+#include "beta_span.hpp"
+#include "detail/bit_count.hpp"
+#include "detail/drive.hpp"
+#include "schedule.hpp"
+#include "solution.hpp"
+
+#include <cmath>    // std::exp, std::ldexp
+#include <cstddef>  // std::size_t
+#include <cstdint>  // std::uint64_t, std::uint32_t, std::int8_t, std::int64_t
+
+#if !SPINWRIGHT_NO_HEAP
+#include <vector>  // std::vector (solutions() only)
+#endif
+
+namespace spinwright {
+
+/// Neighbours a spin may have in a model the bit-sliced kernel takes (a non-zero field counts as one).
+inline constexpr std::size_t bit_sliced_max_degree = 15;
+
+struct BitSlicedParams {
+  std::uint64_t sweeps = 1000;           // schedule length (a Budget's sweeps override it)
+  Schedule schedule{};                   // default: geometric over the beta span from the model
+  const std::int8_t* initial = nullptr;  // warm start of every restart (n spins, +1/-1); random otherwise
+  std::uint64_t progress_every = 0;      // observers' on_progress period in sweeps (0: never)
+};
+
+/// Whether the bit-sliced kernel takes `model`: an Ising model whose couplings all have one
+/// magnitude J, whose fields are 0 or +-J, and whose spins have at most bit_sliced_max_degree
+/// neighbours (a non-zero field counting as one). Otherwise the Status names the first term
+/// that does not fit (i, j; i == j for a field or a spin).
+template <class Model>
+Status bit_sliced_fits(const Model& model) {
+  using index_type = typename Model::index_type;
+  using value_type = typename Model::value_type;
+  if constexpr (Model::form != Form::ising) {
+    return Status::error(StatusCode::invalid_argument,
+                         "the bit-sliced kernel takes Ising models only (convert a QUBO model with ising_from)");
+  } else {
+    const std::size_t n = model.num_spins();
+    if (n >= (std::size_t{1} << 31) - 1) {
+      return Status::error(StatusCode::size_limit, "the bit-sliced kernel takes fewer than 2^31 - 1 spins");
+    }
+    value_type magnitude{0};
+    Status bad = Status::success();
+    auto see = [&](value_type v, std::size_t i, std::size_t j, const char* message) {
+      const value_type a = v < value_type{0} ? value_type(-v) : v;
+      if (a == value_type{0} || !bad.ok()) return;
+      if (magnitude == value_type{0}) magnitude = a;
+      if (a != magnitude) bad = Status::error(StatusCode::invalid_argument, message).at_term(no_term, i, j);
+    };
+    for (std::size_t i = 0; i < n && bad.ok(); ++i) {
+      const auto ii = static_cast<index_type>(i);
+      std::size_t degree = model.site_term(ii) != value_type{0} ? 1 : 0;
+      model.for_each_neighbour(ii, [&](index_type j, value_type v) {
+        if (j == ii || v == value_type{0}) return;
+        ++degree;
+        see(v, i, static_cast<std::size_t>(j),
+            "coupling magnitude differs from the others (the bit-sliced kernel needs couplings of one "
+            "magnitude, +-J)");
+      });
+      see(model.site_term(ii), i, i, "field is neither 0 nor +-J, the coupling magnitude (bit-sliced kernel)");
+      if (bad.ok() && degree > bit_sliced_max_degree) {
+        bad = Status::error(StatusCode::size_limit,
+                            "spin has more than 15 neighbours (a non-zero field counts as one) for the "
+                            "bit-sliced kernel")
+                  .at_term(no_term, i, i);
+      }
+    }
+    return bad;
+  }
+}
+
+namespace detail {
+
+// Words xoshiro256++ streams stepped side by side (state stored [word] per component, so the
+// loops vectorise); each stream is the same sequence Xoshiro256 gives from the same state.
+template <std::size_t Words>
+struct StreamSet {
+  std::uint64_t s0[Words], s1[Words], s2[Words], s3[Words];
+
+  static constexpr std::uint64_t rotl(std::uint64_t x, int k) noexcept { return (x << k) | (x >> (64 - k)); }
+
+  // Next output of every stream into out; streams w with move[w] == 0 stay where they are.
+  // Lane w becomes the stream of Xoshiro256::for_restart(seed, r) (the same seeding steps).
+  void seed_lane(std::size_t w, std::uint64_t seed, std::uint64_t r) noexcept {
+    std::uint64_t a = seed;
+    std::uint64_t b = r ^ 0xD1B54A32D192ED03ULL;
+    std::uint64_t sm = splitmix64(a) ^ (splitmix64(b) * 0xA24BAED4963EE407ULL);
+    s0[w] = splitmix64(sm);
+    s1[w] = splitmix64(sm);
+    s2[w] = splitmix64(sm);
+    s3[w] = splitmix64(sm);
+  }
+
+  SPINWRIGHT_BIT_INLINE void next(std::uint64_t* out, const std::uint64_t* move) noexcept {
+    for (std::size_t w = 0; w < Words; ++w) {
+      const std::uint64_t a = s0[w], b = s1[w], c = s2[w], d = s3[w];
+      out[w] = rotl(a + d, 23) + a;
+      const std::uint64_t t = b << 17;
+      const std::uint64_t c1 = c ^ a;
+      const std::uint64_t d1 = d ^ b;
+      const std::uint64_t b1 = b ^ c1;
+      const std::uint64_t a1 = a ^ d1;
+      // With one word the caller draws only when that word needs it: the stream always moves.
+      const std::uint64_t keep = (Words == 1 || move[w] != 0) ? 0 : ~std::uint64_t{0};
+      s0[w] = (a & keep) | (a1 & ~keep);
+      s1[w] = (b & keep) | (b1 & ~keep);
+      s2[w] = (c & keep) | ((c1 ^ t) & ~keep);
+      s3[w] = (d & keep) | (rotl(d1, 45) & ~keep);
+    }
+  }
+};
+
+// A probability as a 64-bit fraction: u < threshold for a uniform 64-bit u has probability
+// threshold / 2^64; `one` marks probability 1.
+struct FixedProbability {
+  std::uint64_t threshold = 0;
+  bool one = false;
+
+  static FixedProbability of(double p) noexcept {
+    FixedProbability f;
+    if (!(p < 1.0)) {
+      f.one = true;
+    } else if (p > 0) {
+      const double scaled = std::ldexp(p, 64);
+      f.threshold = scaled >= 18446744073709551615.0 ? ~std::uint64_t{0} : static_cast<std::uint64_t>(scaled);
+    }
+    return f;
+  }
+};
+
+}  // namespace detail
+
+/// The restart index r of Xoshiro256::for_restart(seed, r) that drives 64-bit word `word` of a
+/// bit-sliced run (its restarts 64 word .. 64 word + 63): 2^63 + word.
+constexpr std::uint64_t bit_sliced_stream(std::uint64_t word) noexcept { return (std::uint64_t{1} << 63) | word; }
+
+// The bit-sliced annealer over 64 * Words restarts side by side: those of the 64-bit words
+// first_word .. first_word + Words - 1 (restart 64 v + b is bit b of word v). Word v draws from
+// Xoshiro256::for_restart(seed, bit_sliced_stream(v)) only, and only while it has undecided
+// bits, so a restart's run does not depend on Words or on how words are spread over threads. Sweep k of a schedule of S
+// sweeps uses beta(k / (S - 1)) (negative beta counts as 0).
+template <class Model, std::size_t Words = 1>
+class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> {
+  static_assert(Words >= 1 && Words <= 16, "Words is the number of 64-bit words per site (1 to 16)");
+
+ public:
+  using model_type = Model;
+  using energy_type = typename Model::energy_type;
+  using value_type = typename Model::value_type;
+  using index_type = typename Model::index_type;
+  static constexpr std::size_t words = Words;
+  static constexpr std::size_t restarts_per_group = 64 * Words;
+
+  template <class... Args>
+  BitSlicedAnnealer(const Model&&, Args&&...) = delete;
+
+#if !SPINWRIGHT_NO_HEAP
+  /// Restarts 64 first_word ... 64 (first_word + Words) - 1 of a run seeded with `seed`. Allocates on the heap.
+  /// A model that bit_sliced_fits refuses leaves the kernel not valid() (status() says why).
+  BitSlicedAnnealer(const Model& model, const BitSlicedParams& params, std::uint64_t seed, std::uint64_t first_word = 0)
+      : model_(&model),
+        params_(params),
+        status_(bit_sliced_fits(model)),
+        row_(status_.ok() ? model.num_spins() + 1 : 0, 0),
+        slots_(status_.ok() ? count_slots(model) : 0, 0),
+        spins_(status_.ok() ? (model.num_spins() + 1) * Words : 0, 0),
+        best_(status_.ok() ? model.num_spins() * Words : 0, 0),
+        lane_spins_(status_.ok() ? model.num_spins() : 0, 1),
+        best_unsat_(status_.ok() ? restarts_per_group : 0, 0) {
+    if (valid()) init(seed, first_word);
+  }
+#endif
+
+  /// The same with the workspace carved from a caller's arena; check valid().
+  BitSlicedAnnealer(const Model& model, const BitSlicedParams& params, Arena& arena, std::uint64_t seed,
+                    std::uint64_t first_word = 0)
+      : model_(&model),
+        params_(params),
+        status_(bit_sliced_fits(model)),
+        row_(status_.ok() ? model.num_spins() + 1 : 0, arena, 0),
+        slots_(status_.ok() ? count_slots(model) : 0, arena, 0),
+        spins_(status_.ok() ? (model.num_spins() + 1) * Words : 0, arena, 0),
+        best_(status_.ok() ? model.num_spins() * Words : 0, arena, 0),
+        lane_spins_(status_.ok() ? model.num_spins() : 0, arena, 1),
+        best_unsat_(status_.ok() ? restarts_per_group : 0, arena, 0) {
+    if (valid()) init(seed, first_word);
+  }
+
+  /// Arena bytes the arena constructor needs.
+  static std::size_t bytes_needed(const Model& model, const BitSlicedParams&) {
+    const std::size_t n = model.num_spins();
+    return arena_bytes<std::uint32_t>(n + 1) + arena_bytes<std::uint32_t>(count_slots(model)) +
+           arena_bytes<std::uint64_t>((n + 1) * Words) + arena_bytes<std::uint64_t>(n * Words) +
+           arena_bytes<std::int8_t>(n) + arena_bytes<std::int64_t>(restarts_per_group);
+  }
+
+  /// False when the model does not qualify (status()) or an arena was too small.
+  bool valid() const noexcept {
+    return status_.ok() && row_.valid() && slots_.valid() && spins_.valid() && best_.valid() && lane_spins_.valid() &&
+           best_unsat_.valid();
+  }
+  /// Why the model does not qualify (bit_sliced_fits), or success.
+  const Status& status() const noexcept { return status_; }
+
+  /// New streams for the words from `first_word`, random spins in every restart; counters and bests cleared.
+  void reset(std::uint64_t seed, std::uint64_t first_word = 0) {
+    if (!valid()) return;
+    seed_streams(seed, first_word);
+    const std::size_t n = model_->num_spins();
+    std::uint64_t all[Words];
+    for (std::size_t w = 0; w < Words; ++w) all[w] = 1;
+    for (std::size_t i = 0; i < n; ++i) streams_.next(spins_.data() + i * Words, all);
+    start();
+  }
+
+  /// Every restart of the group starts from the given spins (+1/-1, n of them).
+  void warm_start(const std::int8_t* spins, std::uint64_t seed, std::uint64_t first_word = 0) {
+    if (!valid()) return;
+    seed_streams(seed, first_word);
+    const std::size_t n = model_->num_spins();
+    for (std::size_t i = 0; i < n; ++i)
+      for (std::size_t w = 0; w < Words; ++w) spins_[i * Words + w] = spins[i] < 0 ? ~std::uint64_t{0} : 0;
+    start();
+  }
+
+  /// Restarts in the group, and the index (seed, r) of the first of them.
+  std::size_t restarts() const noexcept { return restarts_per_group; }
+  std::uint64_t first_restart() const noexcept { return 64 * first_word_; }
+
+  /// Best energy restart k (0 .. restarts() - 1) of the group has reached at a sweep end.
+  energy_type best_energy(std::size_t k) const noexcept { return energy_of_unsat(best_unsat_[k]); }
+  /// Its best spins (+1/-1) into out[0 .. n - 1].
+  void best_spins(std::size_t k, std::int8_t* out) const noexcept { copy_lane(best_.data(), k, out); }
+  /// The current energy of every restart of the group into out[0 .. restarts() - 1] (counts
+  /// the unsatisfied bonds: O(bonds) word operations).
+  void current_energies(energy_type* out) const noexcept {
+    std::int64_t unsat[restarts_per_group];
+    count_unsatisfied(unsat);
+    for (std::size_t k = 0; k < restarts_per_group; ++k) out[k] = energy_of_unsat(unsat[k]);
+  }
+  /// Its current spins (+1/-1) into out[0 .. n - 1].
+  void current_spins(std::size_t k, std::int8_t* out) const noexcept { copy_lane(spins_.data(), k, out); }
+
+  /// The best restart of the group (lowest energy, ties to the lowest k) as a BestView; the
+  /// spins are unpacked into the kernel's own buffer, valid until the next call or sweep.
+  BestView<energy_type> best() const noexcept {
+    const std::size_t k = best_lane();
+    if (valid()) copy_lane(best_.data(), k, lane_spins_.data());
+    return {lane_spins_.data(), lane_spins_.size(), valid() ? best_energy(k) : energy_type{}, best_sweep_};
+  }
+  std::size_t best_restart() const noexcept { return best_lane(); }
+
+#if !SPINWRIGHT_NO_HEAP
+  /// The best restart as a Solution (energy recomputed from the model).
+  Solution<energy_type> solution() const { return solution_of(best_lane()); }
+  /// Restart k of the group as a Solution; restart = first_restart() + k.
+  Solution<energy_type> solution_of(std::size_t k) const {
+    Solution<energy_type> s;
+    if (!valid()) return s;
+    s.spins.assign(model_->num_spins(), 1);
+    copy_lane(best_.data(), k, s.spins.data());
+    s.energy = model_->energy(s.spins.data());
+    s.sweeps = sweeps_;
+    s.attempted = sweeps_ * model_->num_spins();
+    s.accepted = 0;  // not counted per restart (accepted() counts the whole group)
+    s.restart = first_restart() + k;
+    return s;
+  }
+  std::vector<Solution<energy_type>> solutions() const {
+    std::vector<Solution<energy_type>> all;
+    for (std::size_t k = 0; k < restarts_per_group; ++k) all.push_back(solution_of(k));
+    return all;
+  }
+#endif
+
+  const Model& model() const noexcept { return *model_; }
+  std::uint64_t sweeps_done() const noexcept { return sweeps_; }
+  /// Flip attempts of all restarts of the group together, and the accepted ones.
+  std::uint64_t attempted() const noexcept { return sweeps_ * model_->num_spins() * restarts_per_group; }
+  std::uint64_t accepted() const noexcept {
+    std::uint64_t a = 0;
+    for (std::size_t w = 0; w < Words; ++w) a += accepted_lane_[w];
+    return a;
+  }
+  double beta() const noexcept { return beta_at_sweep(sweeps_); }
+  const Schedule& schedule() const noexcept { return schedule_; }
+  const BetaSpan& beta_span() const noexcept { return range_; }
+  void set_schedule_sweeps(std::uint64_t s) noexcept { schedule_sweeps_ = s; }
+
+  std::uint64_t default_sweeps() const noexcept { return params_.sweeps; }
+  std::uint64_t progress_every() const noexcept { return params_.progress_every; }
+  double best_for_target() const noexcept { return valid() ? static_cast<double>(best_energy(best_lane())) : 0.0; }
+
+ private:
+  friend class detail::Drive<BitSlicedAnnealer>;
+
+  static constexpr std::uint32_t antiparallel_flag = std::uint32_t{1} << 31;
+
+  static std::size_t count_slots(const Model& model) {
+    std::size_t total = 0;
+    const std::size_t n = model.num_spins();
+    for (std::size_t i = 0; i < n; ++i) {
+      const auto ii = static_cast<index_type>(i);
+      if (model.site_term(ii) != value_type{0}) ++total;
+      model.for_each_neighbour(ii, [&](index_type j, value_type v) { total += (j != ii && v != value_type{0}); });
+    }
+    return total;
+  }
+
+  void begin_advance(std::uint64_t limit) noexcept {
+    schedule_sweeps_ = limit;
+    time_fraction_ = 0;
+  }
+  void before_sweep(double time_fraction) noexcept { time_fraction_ = time_fraction; }
+  bool settled() const noexcept { return !valid(); }
+
+  // Compressed rows of the model: neighbour j with the flag set where J_ij > 0 (a bond is
+  // unsatisfied when J s_i s_j > 0, i.e. bits equal for J > 0, different for J < 0); a field
+  // is a bond to the extra site n, whose bits stay 0 (spin +1).
+  void init(std::uint64_t seed, std::uint64_t first_word) {
+    const Model& m = *model_;
+    const std::size_t n = m.num_spins();
+    std::size_t k = 0;
+    bonds_ = 0;
+    magnitude_ = 0;
+    for (std::size_t i = 0; i < n; ++i) {
+      const auto ii = static_cast<index_type>(i);
+      row_[i] = static_cast<std::uint32_t>(k);
+      m.for_each_neighbour(ii, [&](index_type j, value_type v) {
+        if (j == ii || v == value_type{0}) return;
+        slots_[k++] = static_cast<std::uint32_t>(j) | (v > value_type{0} ? antiparallel_flag : 0u);
+        if (static_cast<std::size_t>(j) > i) ++bonds_;
+        if (magnitude_ == 0) magnitude_ = static_cast<energy_type>(v < value_type{0} ? value_type(-v) : v);
+      });
+      const value_type h = m.site_term(ii);
+      if (h != value_type{0}) {
+        slots_[k++] = static_cast<std::uint32_t>(n) | (h > value_type{0} ? antiparallel_flag : 0u);
+        ++bonds_;
+        if (magnitude_ == 0) magnitude_ = static_cast<energy_type>(h < value_type{0} ? value_type(-h) : h);
+      }
+    }
+    row_[n] = static_cast<std::uint32_t>(k);
+    planes_ = 1;
+    while (planes_ < 40 && (std::int64_t{1} << planes_) <= bonds_) ++planes_;
+    schedule_sweeps_ = params_.sweeps;
+    schedule_ = params_.schedule;
+    if (schedule_.automatic()) {
+      range_ = estimate_beta_span(m);
+      schedule_.beta_start = range_.beta_start;
+      schedule_.beta_end = range_.beta_end;
+    } else {
+      range_.beta_start = schedule_.beta_start;
+      range_.beta_end = schedule_.beta_end;
+    }
+    if (params_.initial != nullptr) {
+      warm_start(params_.initial, seed, first_word);
+    } else {
+      reset(seed, first_word);
+    }
+  }
+
+  void seed_streams(std::uint64_t seed, std::uint64_t first_word) noexcept {
+    first_word_ = first_word;
+    for (std::size_t w = 0; w < Words; ++w) {
+      streams_.seed_lane(w, seed, bit_sliced_stream(first_word + w));
+    }
+  }
+
+  void start() {
+    const std::size_t n = model_->num_spins();
+    for (std::size_t w = 0; w < Words; ++w) spins_[n * Words + w] = 0;
+    for (std::size_t w = 0; w < Words; ++w) accepted_lane_[w] = 0;
+    for (std::size_t k = 0; k < n * Words; ++k) best_[k] = spins_[k];
+    std::int64_t unsat[restarts_per_group];
+    count_unsatisfied(unsat);
+    for (std::size_t k = 0; k < restarts_per_group; ++k) best_unsat_[k] = unsat[k];
+    sweeps_ = 0;
+    best_sweep_ = 0;
+    time_fraction_ = 0;
+  }
+
+  energy_type energy_of_unsat(std::int64_t unsat) const noexcept {
+    return magnitude_ * static_cast<energy_type>(2 * unsat - bonds_) + model_->offset();
+  }
+
+  std::size_t best_lane() const noexcept {
+    std::size_t k = 0;
+    for (std::size_t q = 1; q < best_unsat_.size(); ++q)
+      if (best_unsat_[q] < best_unsat_[k]) k = q;
+    return k;
+  }
+
+  void copy_lane(const std::uint64_t* words, std::size_t k, std::int8_t* out) const noexcept {
+    const std::size_t n = model_->num_spins();
+    const std::size_t w = k / 64;
+    const unsigned bit = static_cast<unsigned>(k % 64);
+    for (std::size_t i = 0; i < n; ++i) out[i] = ((words[i * Words + w] >> bit) & 1u) ? -1 : 1;
+  }
+
+  double beta_at_sweep(std::uint64_t k) const noexcept {
+    const double f = schedule_sweeps_ > 1 ? static_cast<double>(k) / static_cast<double>(schedule_sweeps_ - 1) : 1.0;
+    const double b = schedule_.beta_at(f > time_fraction_ ? f : time_fraction_);
+    return b > 0 ? b : 0.0;
+  }
+
+  // Unsatisfied bonds of every restart: the bonds' words are counted 15 at a time by the
+  // bitwise adders into 4 planes, which are added into a counter of `planes_` planes per word.
+  void count_unsatisfied(std::int64_t* unsat) const noexcept {
+    const std::size_t n = model_->num_spins();
+    std::uint64_t total[Words][40] = {};
+    std::uint64_t batch[Words][15];
+    int fill = 0;
+    auto flush = [&]() {
+      for (std::size_t w = 0; w < Words; ++w) {
+        for (int t = fill; t < 15; ++t) batch[w][t] = 0;
+        std::uint64_t four[4];
+        detail::count_bits<15>(batch[w], four);
+        std::uint64_t carry = 0;
+        for (int p = 0; p < planes_; ++p) {
+          const std::uint64_t x = p < 4 ? four[p] : 0;
+          if (p >= 4 && carry == 0) break;
+          const std::uint64_t t = total[w][p];
+          total[w][p] = t ^ x ^ carry;
+          carry = (t & x) | (carry & (t ^ x));
+        }
+      }
+      fill = 0;
+    };
+    const std::uint64_t* s = spins_.data();
+    for (std::size_t i = 0; i < n; ++i) {
+      for (std::uint32_t t = row_[i]; t < row_[i + 1]; ++t) {
+        const std::uint32_t slot = slots_[t];
+        const std::size_t j = slot & ~antiparallel_flag;
+        if (j < i) continue;
+        const std::uint64_t flip = (slot & antiparallel_flag) ? ~std::uint64_t{0} : 0;
+        for (std::size_t w = 0; w < Words; ++w) batch[w][fill] = s[i * Words + w] ^ s[j * Words + w] ^ flip;
+        if (++fill == 15) flush();
+      }
+    }
+    if (fill > 0) flush();
+    for (std::size_t w = 0; w < Words; ++w) {
+      for (unsigned b = 0; b < 64; ++b) {
+        std::int64_t c = 0;
+        for (int p = 0; p < planes_; ++p) c |= static_cast<std::int64_t>((total[w][p] >> b) & 1u) << p;
+        unsat[w * 64 + b] = c;
+      }
+    }
+  }
+
+  // Bits set with probability p each, independently, among the bits of `undecided`: the bits
+  // of a uniform u are drawn from the highest down and compared with p's, until every bit is
+  // decided (u < p: set). Stream w draws only while word w has undecided bits.
+  SPINWRIGHT_BIT_INLINE static void draw_mask(detail::StreamSet<Words>& streams, std::uint64_t* undecided,
+                                              const detail::FixedProbability& p, std::uint64_t* out) noexcept {
+    for (std::size_t w = 0; w < Words; ++w) out[w] = 0;
+    if (p.one) {
+      for (std::size_t w = 0; w < Words; ++w) out[w] = undecided[w];
+      return;
+    }
+    if (p.threshold == 0) return;
+    for (int j = 63; j >= 0; --j) {
+      std::uint64_t any = 0;
+      for (std::size_t w = 0; w < Words; ++w) any |= undecided[w];
+      if (any == 0) return;
+      const std::uint64_t digit = ((p.threshold >> j) & 1u) ? ~std::uint64_t{0} : 0;
+      std::uint64_t r[Words];
+      streams.next(r, undecided);
+      for (std::size_t w = 0; w < Words; ++w) {
+        out[w] |= undecided[w] & ~r[w] & digit;
+        undecided[w] &= ~(r[w] ^ digit);
+      }
+    }
+  }
+
+  // One Metropolis update of site i (D neighbours) in every restart. With k of the D bonds
+  // unsatisfied, the flip changes the energy by 2 J (D - 2 k): accepted outright for
+  // k > kmax = (D - 1) / 2, otherwise with probability base * step^(kmax - k), base =
+  // exp(-2 beta J (D - 2 kmax)) and step = exp(-4 beta J): one trial of `base`, then one of
+  // `step` for each further level, each trial only for the bits still in the running.
+  template <int D>
+  SPINWRIGHT_BIT_INLINE void update_site(std::size_t i, detail::StreamSet<Words>& streams) noexcept {
+    std::uint64_t* s = spins_.data();
+    const std::uint32_t* slot = slots_.data() + row_[i];
+    std::uint64_t x[Words];
+    for (std::size_t w = 0; w < Words; ++w) x[w] = s[i * Words + w];
+    std::uint64_t in[Words][D > 0 ? D : 1];
+    for (int t = 0; t < D; ++t) {
+      const std::size_t j = slot[t] & ~antiparallel_flag;
+      const std::uint64_t flip = (slot[t] & antiparallel_flag) ? ~std::uint64_t{0} : 0;
+      for (std::size_t w = 0; w < Words; ++w) in[w][t] = s[j * Words + w] ^ x[w] ^ flip;
+    }
+    std::uint64_t accept[Words];
+    if constexpr (D == 0) {
+      for (std::size_t w = 0; w < Words; ++w) accept[w] = ~std::uint64_t{0};
+    } else {
+      constexpr int planes = detail::count_planes(D);
+      constexpr unsigned kmax = (D - 1) / 2;
+      std::uint64_t count[Words][planes];
+      std::uint64_t running[Words];
+      std::uint64_t even[Words];  // k = D / 2: the flip leaves the energy unchanged
+      for (std::size_t w = 0; w < Words; ++w) {
+        detail::count_bits<D>(in[w], count[w]);
+        running[w] = detail::at_most<planes>(count[w], kmax);
+        accept[w] = ~running[w];
+        even[w] = D % 2 == 0 ? accept[w] & detail::at_most<planes>(count[w], kmax + 1) : 0;
+      }
+      if constexpr (D % 2 == 0) {
+        // Unchanged energy: accepted with probability 1/2 (one coin per bit), which keeps
+        // detailed balance and breaks the deterministic cycles a sequential sweep can fall
+        // into when every flip it meets leaves the energy unchanged (a 4 x 4 torus does).
+        std::uint64_t any = 0;
+        for (std::size_t w = 0; w < Words; ++w) any |= even[w];
+        if (any != 0) {
+          std::uint64_t coin[Words];
+          streams.next(coin, even);  // moves only the streams whose word has such bits
+          for (std::size_t w = 0; w < Words; ++w) accept[w] &= ~(even[w] & coin[w]);
+        }
+      }
+      std::uint64_t won[Words];
+      draw_mask(streams, running, base_[D], won);
+      for (unsigned level = 1; level <= kmax; ++level) {
+        std::uint64_t any = 0;
+        for (std::size_t w = 0; w < Words; ++w) {
+          const std::uint64_t more = detail::at_most<planes>(count[w], kmax - level);
+          accept[w] |= won[w] & ~more;
+          running[w] = won[w] & more;
+          any |= running[w];
+        }
+        if (any == 0) {
+          for (std::size_t w = 0; w < Words; ++w) won[w] = 0;
+          break;
+        }
+        draw_mask(streams, running, step_, won);
+      }
+      for (std::size_t w = 0; w < Words; ++w) accept[w] |= won[w];
+    }
+    for (std::size_t w = 0; w < Words; ++w) {
+      s[i * Words + w] = x[w] ^ accept[w];
+      accepted_lane_[w] += popcount(accept[w]);
+    }
+  }
+
+  static std::uint64_t popcount(std::uint64_t v) noexcept {
+    v = v - ((v >> 1) & 0x5555555555555555ULL);
+    v = (v & 0x3333333333333333ULL) + ((v >> 2) & 0x3333333333333333ULL);
+    v = (v + (v >> 4)) & 0x0F0F0F0F0F0F0F0FULL;
+    return (v * 0x0101010101010101ULL) >> 56;
+  }
+
+  void set_beta(double beta) noexcept {
+    const double bj = beta * static_cast<double>(magnitude_);
+    for (int d = 1; d <= static_cast<int>(bit_sliced_max_degree); ++d) {
+      const int smallest = d - 2 * ((d - 1) / 2);  // 1 for odd d, 2 for even d
+      base_[d] = detail::FixedProbability::of(std::exp(-2.0 * bj * smallest));
+    }
+    step_ = detail::FixedProbability::of(std::exp(-4.0 * bj));
+    beta_now_ = beta;
+  }
+
+  bool sweep_once() {
+    const double beta = beta_at_sweep(sweeps_);
+    if (sweeps_ == 0 || beta != beta_now_) set_beta(beta);
+    const std::size_t n = model_->num_spins();
+    // The streams in a local whose address never leaves the inlined site updates, so that
+    // they stay in registers across the spin writes.
+    detail::StreamSet<Words> rng = streams_;
+    for (std::size_t i = 0; i < n; ++i) {
+      switch (row_[i + 1] - row_[i]) {
+        case 0:
+          update_site<0>(i, rng);
+          break;
+        case 1:
+          update_site<1>(i, rng);
+          break;
+        case 2:
+          update_site<2>(i, rng);
+          break;
+        case 3:
+          update_site<3>(i, rng);
+          break;
+        case 4:
+          update_site<4>(i, rng);
+          break;
+        case 5:
+          update_site<5>(i, rng);
+          break;
+        case 6:
+          update_site<6>(i, rng);
+          break;
+        case 7:
+          update_site<7>(i, rng);
+          break;
+        case 8:
+          update_site<8>(i, rng);
+          break;
+        case 9:
+          update_site<9>(i, rng);
+          break;
+        case 10:
+          update_site<10>(i, rng);
+          break;
+        case 11:
+          update_site<11>(i, rng);
+          break;
+        case 12:
+          update_site<12>(i, rng);
+          break;
+        case 13:
+          update_site<13>(i, rng);
+          break;
+        case 14:
+          update_site<14>(i, rng);
+          break;
+        default:
+          update_site<15>(i, rng);
+          break;
+      }
+    }
+    streams_ = rng;
+    ++sweeps_;
+    std::int64_t unsat[restarts_per_group];
+    count_unsatisfied(unsat);
+    bool improved_any = false;
+    const std::int64_t before = best_unsat_[best_lane()];
+    for (std::size_t w = 0; w < Words; ++w) {
+      std::uint64_t improved = 0;
+      for (unsigned b = 0; b < 64; ++b) {
+        const std::size_t k = w * 64 + b;
+        if (unsat[k] < best_unsat_[k]) {
+          best_unsat_[k] = unsat[k];
+          improved |= std::uint64_t{1} << b;
+        }
+      }
+      if (improved == 0) continue;
+      for (std::size_t i = 0; i < n; ++i) {
+        const std::size_t at = i * Words + w;
+        best_[at] = (best_[at] & ~improved) | (spins_[at] & improved);
+      }
+    }
+    if (best_unsat_[best_lane()] < before) {
+      improved_any = true;
+      best_sweep_ = sweeps_;
+    }
+    return improved_any;
+  }
+
+  const Model* model_;
+  BitSlicedParams params_;
+  Status status_;
+  detail::Buffer<std::uint32_t> row_;
+  detail::Buffer<std::uint32_t> slots_;
+  detail::Buffer<std::uint64_t> spins_;  // [site][word], site n is the field's fixed +1 spin
+  detail::Buffer<std::uint64_t> best_;   // [site][word], best state of every restart
+  mutable detail::Buffer<std::int8_t> lane_spins_;
+  detail::Buffer<std::int64_t> best_unsat_;
+  detail::StreamSet<Words> streams_{};
+  detail::FixedProbability base_[bit_sliced_max_degree + 1]{};
+  detail::FixedProbability step_{};
+  std::uint64_t accepted_lane_[Words]{};
+  Schedule schedule_{};
+  BetaSpan range_{};
+  energy_type magnitude_{0};
+  std::int64_t bonds_ = 0;
+  int planes_ = 1;
+  std::uint64_t first_word_ = 0;
+  std::uint64_t sweeps_ = 0;
+  std::uint64_t best_sweep_ = 0;
+  std::uint64_t schedule_sweeps_ = 0;
+  double beta_now_ = 0;
+  double time_fraction_ = 0;
+};
+
+}  // namespace spinwright
+
+#endif  // SPINWRIGHT_KERNELS_BIT_SLICED_HPP
