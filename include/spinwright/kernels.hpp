@@ -8,6 +8,7 @@
 #include "kernels/anneal.hpp"
 #include "kernels/auto.hpp"
 #include "kernels/beta_span.hpp"
+#include "kernels/breakout.hpp"
 #include "kernels/descent.hpp"
 #include "kernels/exact.hpp"
 #include "kernels/schedule.hpp"
