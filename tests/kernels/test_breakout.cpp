@@ -225,3 +225,33 @@ TEST_CASE("published values within a sweep budget") {
     CHECK(cut_value(m, s.spins.data()) == ref);
   }
 }
+
+// The automatic-choice predicate as documented in kernels/breakout.hpp (densities of the shared
+// instances: bqp500-1 12871 pairs of 125250, G11 1600 of 319600).
+TEST_CASE("breakout_fits and breakout_auto") {
+  const auto bqp = test_support::load_maxcut<std::int32_t>("bqp500-1");
+  const auto g11 = test_support::load_maxcut<std::int32_t>("G11");
+  CHECK(breakout_fits(bqp));
+  CHECK(!breakout_fits(g11));
+  Xoshiro256 rng(3);
+  const auto small = qubo_of(20, random_terms(20, 190, rng));
+  CHECK(!breakout_fits(small));  // exact enumeration's size
+  const auto big = qubo_of(40, random_terms(40, 10, rng));
+  CHECK(!breakout_fits(big));
+  CHECK(breakout_fits(DenseQuboModel<std::int32_t>::from(big).value()));
+  // A time limit with no sweep count fills the time: a clock that advances 1 ms per reading.
+  struct Ticks {
+    double now = 0;
+    static double read(void* self) {
+      auto* t = static_cast<Ticks*>(self);
+      t->now += 0.001;
+      return t->now;
+    }
+  } ticks;
+  const auto s = breakout_auto(g11, 1, 0, Budget{}.with_time_limit(0.05, Clock{&Ticks::read, &ticks}));
+  CHECK(s.reason == StopReason::deadline);
+  CHECK(s.sweeps >= 40);
+  CHECK(cut_value(g11, s.spins.data()) == cut_from_energy(total_weight(g11), s.energy));
+  const auto f = breakout_auto(g11, 1, 0, Budget{}.with_sweeps(3));
+  CHECK(f.sweeps == 3);
+}

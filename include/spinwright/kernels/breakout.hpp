@@ -33,6 +33,7 @@
 #include <cmath>    // std::exp
 #include <cstddef>  // std::size_t
 #include <cstdint>  // std::int8_t, std::uint32_t, std::uint64_t
+#include <limits>   // std::numeric_limits
 
 namespace spinwright {
 
@@ -289,6 +290,35 @@ Solution<typename Model::energy_type> breakout(const Model& model, const Breakou
                                                std::uint64_t restart, const Budget& budget, Observer& observer) {
   BreakoutSearch<Model> b(model, params, seed, restart);
   return b.run(budget, observer);
+}
+
+/// Where the breakout search is the measured choice of an automatic rule (docs/quality.md):
+/// dense models, and sparse ones whose pair density pairs / (N (N - 1) / 2) is at least 0.10
+/// (the 0-1 quadratic programs of the bqp and Billionnet-Elloumi sets, in either form). On sparser
+/// graphs (the G-set) annealing and tempering were better at equal time. Models of 20 spins or
+/// fewer are left to exact enumeration.
+template <class Model>
+bool breakout_fits(const Model& model) noexcept {
+  const std::size_t n = model.num_spins();
+  if (n <= 20) return false;
+  if constexpr (Model::is_dense) {
+    return true;
+  } else {
+    const double all_pairs = 0.5 * static_cast<double>(n) * static_cast<double>(n - 1);
+    return static_cast<double>(model.num_pairs()) >= 0.10 * all_pairs;
+  }
+}
+
+/// The breakout search with the default parameters as an automatic rule runs it: with a time
+/// limit and no sweep count (Budget::sweeps == 0), it fills the time (no sweep limit); otherwise
+/// the Budget's sweeps, or BreakoutParams::sweeps.
+template <class Model>
+Solution<typename Model::energy_type> breakout_auto(const Model& model, std::uint64_t seed, std::uint64_t restart = 0,
+                                                    const Budget& budget = Budget{}) {
+  Budget b = budget;
+  if (b.sweeps == 0 && b.clock.valid() && b.seconds < std::numeric_limits<double>::infinity())
+    b.sweeps = unlimited_sweeps;
+  return breakout(model, BreakoutParams{}, seed, restart, b);
 }
 #endif  // !SPINWRIGHT_NO_HEAP
 
