@@ -5,6 +5,7 @@
 #include <spinwright/kernels/breakout.hpp>
 #include <spinwright/kernels/exact.hpp>
 #include <spinwright/model/dense_model.hpp>
+#include <spinwright/parallel/breakout_threads.hpp>
 #include <spinwright/problems/graph_families.hpp>
 #include <spinwright/problems/max_cut.hpp>
 #include <spinwright/spinwright.hpp>
@@ -254,4 +255,31 @@ TEST_CASE("breakout_fits and breakout_auto") {
   CHECK(cut_value(g11, s.spins.data()) == cut_from_energy(total_weight(g11), s.energy));
   const auto f = breakout_auto(g11, 1, 0, Budget{}.with_sweeps(3));
   CHECK(f.sweeps == 3);
+}
+
+// Cooperating searches (parallel/breakout_threads.hpp): the same result for the same (seed,
+// threads) under a sweep budget; every thread count reaches the bqp500-3 best-known value
+// (Beasley's OR-Library, 1998) within a sweep budget; the energy is that of the returned spins.
+TEST_CASE("breakout threads: determinism for (seed, threads) and a published value") {
+  const auto edges = planar_type_graph(400, EdgeWeights::plus_minus_one, 8);
+  const auto problem = MaxCutProblem<std::int32_t>::encode(400, edges).value();
+  CooperationParams cp;
+  cp.round_sweeps = 5;
+  cp.patience = 1;
+  const auto a = breakout_threads(problem.model(), cp, 2, 3, Budget{}.with_sweeps(40));
+  const auto b = breakout_threads(problem.model(), cp, 2, 3, Budget{}.with_sweeps(40));
+  CHECK(a.spins == b.spins);
+  CHECK(a.sweeps == 40);
+  CHECK(a.attempted == 2 * 40 * 400);
+  CHECK(problem.total_weight() - 2 * cut_of(edges, a.spins) == a.energy);
+  const auto bqp = test_support::load_maxcut<std::int32_t>("bqp500-3");
+  const std::int64_t ref = test_support::reference_cut(test_support::maxcut_path("reference.csv"), "bqp500-3");
+  const std::int64_t w = total_weight(bqp);
+  for (unsigned threads : {1u, 2u, 3u}) {
+    Budget budget = Budget{}.with_target(static_cast<double>(energy_from_cut(w, ref)));
+    budget.sweeps = 400;
+    const auto s = breakout_threads(bqp, CooperationParams{}, threads, 1, budget);
+    CHECK(s.reason == StopReason::target_reached);
+    CHECK(cut_value(bqp, s.spins.data()) == ref);
+  }
 }
