@@ -9,15 +9,19 @@
 //                            each variant at equal time (no reference value: the best variant wins)
 // Variants: breakout (the defaults), fixed_jump (adaptive_jump = false), random_jump (directed =
 // false), tabu (TabuWalker defaults, no time rule), anneal_ref (benchmarks/kernels/reference_anneal.hpp,
-// geometric beta over the model's beta span, following the elapsed fraction of the time).
+// geometric beta over the model's beta span, following the elapsed fraction of the time), auto
+// (solve_auto filling the time: the baseline), auto_polish (solve_auto for 80 % of the
+// time, then the breakout search from its best), dense (qubo/ only: breakout on the dense copy).
 // The "*/summary" lines aggregate the runs before them. Results and commands: docs/quality.md.
 #include <benchmark/benchmark.h>
 
+#include <spinwright/kernels/auto.hpp>
 #include <spinwright/kernels/beta_span.hpp>
 #include <spinwright/kernels/breakout.hpp>
 #include <spinwright/kernels/schedule.hpp>
 #include <spinwright/kernels/tabu.hpp>
 #include <spinwright/problems/graph_families.hpp>
+#include <spinwright/model/dense_model.hpp>
 #include <spinwright/problems/max_cut.hpp>
 
 #include "kernels/cpu_clock.hpp"
@@ -54,7 +58,7 @@ double run_seconds() { return env_double("SPINWRIGHT_QUALITY_SECONDS", 5.0); }
 int run_seeds() { return env_int("SPINWRIGHT_QUALITY_SEEDS", 3); }
 double qubo_cap() { return env_double("SPINWRIGHT_QUALITY_CAP", 2.0); }
 
-enum class Variant { breakout, fixed_jump, random_jump, tabu, anneal_ref };
+enum class Variant { breakout, fixed_jump, random_jump, tabu, anneal_ref, auto_fill, auto_polish, dense };
 const char* name_of(Variant v) {
   switch (v) {
     case Variant::breakout:
@@ -67,6 +71,12 @@ const char* name_of(Variant v) {
       return "tabu";
     case Variant::anneal_ref:
       return "anneal_ref";
+    case Variant::auto_fill:
+      return "auto";
+    case Variant::auto_polish:
+      return "auto_polish";
+    case Variant::dense:
+      return "dense";
   }
   return "?";
 }
@@ -94,6 +104,22 @@ std::int64_t run_variant(const Model& m, Variant v, std::uint64_t seed, double s
   double s = seconds;
   if (v == Variant::anneal_ref) {
     e = plain_anneal(m, seed, seconds);
+  } else if (v == Variant::auto_fill) {
+    const auto sol = solve_auto(m, seed, 0, budget);
+    e = sol.energy;
+    s = sol.seconds;
+  } else if (v == Variant::auto_polish) {
+    // solve_auto for 80 % of the time, then the breakout search from its best for the rest.
+    const auto first = solve_auto(m, seed, 0, Budget{}.with_time_limit(0.8 * seconds, cpu_clock()));
+    BreakoutSearch<Model> bo(m, BreakoutParams{}, seed);
+    bo.warm_start(first.spins.data(), seed, 0);
+    Budget rest = Budget{}.with_time_limit(seconds - first.seconds, cpu_clock());
+    rest.sweeps = unlimited_sweeps;
+    bo.advance(rest);
+    e = bo.best().energy;
+  } else if (v == Variant::dense) {
+    const auto d = DenseModel<Form::ising, std::int32_t>::from(m).value();
+    e = breakout(d, BreakoutParams{}, seed, 0, b).energy;
   } else if (v == Variant::tabu) {
     const auto sol = tabu_walk(m, TabuParams{}, seed, 0, b);
     e = sol.energy;
@@ -158,7 +184,7 @@ void bm_summary(benchmark::State& state, std::string group) {
   state.counters["min_ratio"] = count > 0 ? lowest : 0.0;
 }
 
-void bm_qubo(benchmark::State& state, std::string name) {
+void bm_qubo(benchmark::State& state, std::string name, Variant v) {
   const Model m = test_support::load_maxcut<std::int32_t>(name);
   const std::int64_t reference = test_support::reference_cut(test_support::maxcut_path("reference.csv"), name);
   const std::int64_t w = total_weight(m);
@@ -170,7 +196,18 @@ void bm_qubo(benchmark::State& state, std::string name) {
     for (int seed = 1; seed <= run_seeds(); ++seed) {
       Budget b = Budget{}.with_time_limit(qubo_cap(), cpu_clock()).with_target(target);
       b.sweeps = unlimited_sweeps;
-      const auto s = breakout(m, BreakoutParams{}, static_cast<std::uint64_t>(seed), 0, b);
+      Solution<std::int64_t> s;
+      if (v == Variant::tabu) {
+        s = tabu_walk(m, TabuParams{}, static_cast<std::uint64_t>(seed), 0, b);
+      } else if (v == Variant::dense) {
+        const auto d = DenseModel<Form::ising, std::int32_t>::from(m).value();
+        s = breakout(d, BreakoutParams{}, static_cast<std::uint64_t>(seed), 0, b);
+      } else {
+        BreakoutParams p;
+        p.adaptive_jump = v != Variant::fixed_jump;
+        p.directed = v != Variant::random_jump;
+        s = breakout(m, p, static_cast<std::uint64_t>(seed), 0, b);
+      }
       const bool ok = cut_from_energy(w, s.energy) >= reference;
       reached += ok ? 1 : 0;
       worst = std::max(worst, ok ? s.seconds : std::numeric_limits<double>::infinity());
@@ -233,11 +270,12 @@ const bool registered = [] {
                         "be120.3.2", "be120.3.3", "be120.8.1", "be120.8.2", "be120.8.3", "be150.3.1",
                         "be150.3.2", "be150.3.3", "be150.8.1", "be150.8.2", "be150.8.3"};
   const Variant variants[] = {Variant::breakout, Variant::fixed_jump, Variant::random_jump, Variant::tabu,
-                              Variant::anneal_ref};
-  for (const char* q : qubo)
-    benchmark::RegisterBenchmark((std::string("qubo/") + q).c_str(), bm_qubo, std::string(q))
-        ->Iterations(1)
-        ->Unit(benchmark::kSecond);
+                              Variant::anneal_ref,  Variant::auto_fill,  Variant::auto_polish};
+  for (const Variant v : {Variant::breakout, Variant::fixed_jump, Variant::random_jump, Variant::dense, Variant::tabu})
+    for (const char* q : qubo)
+      benchmark::RegisterBenchmark((std::string("qubo/") + q + "/" + name_of(v)).c_str(), bm_qubo, std::string(q), v)
+          ->Iterations(1)
+          ->Unit(benchmark::kSecond);
   for (const Variant v : variants) {
     for (const char* g : gset)
       benchmark::RegisterBenchmark((std::string("gset/") + g + "/" + name_of(v)).c_str(), bm_gset, std::string(g), v)

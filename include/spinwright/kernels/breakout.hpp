@@ -45,6 +45,7 @@ struct BreakoutParams {
   double directed_floor = 0.8;    // P0: least probability of a directed jump
   bool adaptive_jump = true;      // false: every ordinary jump is L0 long (for measurements)
   bool directed = true;           // false: every jump is random (for measurements)
+  bool reshuffle = false;         // true: also a new cycle (tenure, order of equal deltas) every N flips
   std::size_t tenure = 3;         // least tabu tenure (at least 1)
   std::size_t tenure_spread = 0;  // random extra tenure per cycle; 0: automatic, N / 10 - tenure
   const std::int8_t* initial = nullptr;  // warm start (n spins); random spins otherwise
@@ -191,6 +192,7 @@ class BreakoutSearch : public detail::Drive<BreakoutSearch<Model>> {
     have_last_ = false;
     last_minimum_ = energy_type{};
     best_at_last_ = walk_.best_energy();
+    cycle_start_ = 0;
   }
 
   // At a local minimum: the breakout rule picks the next jump's length and kind.
@@ -217,10 +219,15 @@ class BreakoutSearch : public detail::Drive<BreakoutSearch<Model>> {
     last_minimum_ = e;
     have_last_ = true;
     left_ = jump_;
+    if (strong || (params_.reshuffle && walk_.moves_done() - cycle_start_ >= n_)) {
+      // A fresh cycle (tenure drawn anew, tabu list emptied, new random order of equal deltas)
+      // at a strong jump, and after every N flips: O(N), so at most once per N flips.
+      walk_.new_cycle();
+      cycle_start_ = walk_.moves_done();
+    }
     if (strong) {
       directed_now_ = false;
       ++strong_jumps_;
-      walk_.new_cycle();  // fresh tenure for the next cycle
     } else if (params_.directed) {
       double p = std::exp(-static_cast<double>(omega_) / static_cast<double>(plan_.stagnation));
       if (p < params_.directed_floor) p = params_.directed_floor;
@@ -273,6 +280,7 @@ class BreakoutSearch : public detail::Drive<BreakoutSearch<Model>> {
   std::uint64_t random_jumps_ = 0;
   std::uint64_t strong_jumps_ = 0;
   std::uint64_t restart_ = 0;
+  std::uint64_t cycle_start_ = 0;
 };
 
 #if !SPINWRIGHT_NO_HEAP
