@@ -28,6 +28,9 @@
 //
 // Allocation: the constructor allocates (state, trees, tabu list, best copy, permutation);
 // step(), reset() and warm_start() allocate nothing.
+//
+// Hooks (descent_move, tabu_move, forced_move, new_cycle, jump_to): single moves on the same
+// trees and tabu list for searches built on the walk (kernels/breakout.hpp).
 #ifndef SPINWRIGHT_KERNELS_TABU_HPP
 #define SPINWRIGHT_KERNELS_TABU_HPP
 
