@@ -9,6 +9,7 @@
 #include "kernels/auto.hpp"
 #include "kernels/beta_span.hpp"
 #include "kernels/bit_sliced.hpp"
+#include "kernels/breakout.hpp"
 #include "kernels/descent.hpp"
 #include "kernels/exact.hpp"
 #include "kernels/population.hpp"

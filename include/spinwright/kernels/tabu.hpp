@@ -28,6 +28,9 @@
 //
 // Allocation: the constructor allocates (state, trees, tabu list, best copy, permutation);
 // step(), reset() and warm_start() allocate nothing.
+//
+// Hooks (descent_move, tabu_move, forced_move, new_cycle, jump_to): single moves on the same
+// trees and tabu list for searches built on the walk (kernels/breakout.hpp).
 #ifndef SPINWRIGHT_KERNELS_TABU_HPP
 #define SPINWRIGHT_KERNELS_TABU_HPP
 
@@ -176,6 +179,67 @@ class TabuWalker : public detail::Drive<TabuWalker<Model>> {
   }
 #endif
 
+  // Hooks for searches built on the walk (kernels/breakout.hpp). Each move below keeps the
+  // trees, the tabu list, the move counter and the best state exact; none runs the stagnation
+  // rule (params.stagnation) and none advances the sweep counter.
+
+  /// The least flip delta over every spin, tabu or not (O(1): the smaller tree root).
+  energy_type least_delta() const noexcept {
+    const energy_type a = free_.top_key();
+    const energy_type b = tabu_.top_key();
+    return b < a ? b : a;
+  }
+  /// One steepest-descent move that ignores tabu status: flips the spin of least delta when
+  /// that delta is negative (the flip still enters the tabu list). False at a local minimum.
+  bool descent_move() {
+    if (n_ == 0) return false;
+    release_due();
+    const energy_type a = free_.top_key();
+    const energy_type b = tabu_.top_key();
+    if (!(a < 0) && !(b < 0)) return false;
+    if (b < a) {
+      apply_move(spin_at_[tabu_.top()], b);
+    } else {
+      apply_move(spin_at_[free_.top()], a);
+    }
+    return true;
+  }
+  /// One tabu move (the best non-tabu flip, or a tabu one by aspiration); true at a new best.
+  bool tabu_move() {
+    if (n_ == 0) return false;
+    release_due();
+    const energy_type e = state_.energy();
+    const energy_type d_free = free_.top_key();
+    const energy_type d_tabu = tabu_.top_key();
+    if (d_tabu != inf && d_tabu < d_free && e + d_tabu < best_energy_) return apply_move(spin_at_[tabu_.top()], d_tabu);
+    if (d_free != inf) return apply_move(spin_at_[free_.top()], d_free);
+    return apply_move(spin_at_[tabu_.top()], d_tabu);
+  }
+  /// Flips spin i whatever its delta or tabu status (the flip enters the tabu list); true at a new best.
+  bool forced_move(index_type i) {
+    SPINWRIGHT_ASSERT(i < n_, "spin index out of range");
+    release_due();
+    return apply_move(i, state_.delta(i));
+  }
+  /// Empty tabu list, a freshly drawn tenure and leaf order, trees rebuilt (O(N)).
+  void new_cycle() { begin_cycle(); }
+  /// Moves the walk to the given spins (+1/-1) and begins a new cycle; the best so far is kept.
+  void jump_to(const std::int8_t* spins) {
+    sync_best();
+    state_.set_spins(spins);
+    if (state_.energy() < best_energy_) {
+      best_energy_ = state_.energy();
+      at_best_ = true;
+    }
+    begin_cycle();
+  }
+  /// The best energy so far (O(1), no copy of the spins).
+  energy_type best_energy() const noexcept { return best_energy_; }
+  /// The walk's random stream (drawn from by the hooks' callers as well).
+  Xoshiro256& random() noexcept { return rng_; }
+  /// Spin i is tabu now.
+  bool is_tabu(index_type i) const noexcept { return tabu_until_[i] > moves_; }
+
   const state_type& state() const noexcept { return state_; }
   const Model& model() const noexcept { return *model_; }
   std::uint64_t sweeps_done() const noexcept { return sweeps_; }
@@ -313,7 +377,13 @@ class TabuWalker : public detail::Drive<TabuWalker<Model>> {
 
   // One move; true when it reached a new best.
   bool move_once() {
-    // Release the spin whose tenure ends now (the FIFO front), if it was not flipped again since.
+    if (tabu_move()) return true;
+    if (++since_best_ >= stagnation_) perturb();
+    return false;
+  }
+
+  // Release the spin whose tenure ends now (the FIFO front), if it was not flipped again since.
+  void release_due() noexcept {
     if (ring_size_ > 0) {
       const std::size_t cap = ring_spin_.size();
       const std::size_t front = ring_head_;
@@ -327,21 +397,10 @@ class TabuWalker : public detail::Drive<TabuWalker<Model>> {
         }
       }
     }
-    const energy_type e = state_.energy();
-    const energy_type d_free = free_.top_key();
-    const energy_type d_tabu = tabu_.top_key();
-    index_type i;
-    energy_type d;
-    if (d_tabu != inf && d_tabu < d_free && e + d_tabu < best_energy_) {
-      i = spin_at_[tabu_.top()];  // aspiration
-      d = d_tabu;
-    } else if (d_free != inf) {
-      i = spin_at_[free_.top()];
-      d = d_free;
-    } else {
-      i = spin_at_[tabu_.top()];
-      d = d_tabu;
-    }
+  }
+
+  // Flips spin i (delta d), makes it tabu, updates the trees; true when it reached a new best.
+  bool apply_move(index_type i, energy_type d) {
     if (at_best_ && !(d < 0)) sync_best();  // leaving a best state: keep a copy
     state_.flip_with_delta(i, d);
     const std::uint64_t m = moves_;
@@ -368,7 +427,6 @@ class TabuWalker : public detail::Drive<TabuWalker<Model>> {
       since_best_ = 0;
       return true;
     }
-    if (++since_best_ >= stagnation_) perturb();
     return false;
   }
 
