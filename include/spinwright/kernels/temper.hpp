@@ -272,10 +272,14 @@ class Tempering : public detail::Drive<Tempering<Model>> {
 
   std::size_t temperatures() const noexcept { return temps_; }
   std::size_t replicas() const noexcept { return replicas_.size(); }
-  double beta(std::size_t k) const noexcept { return betas_[k]; }
+  double beta(std::size_t k) const noexcept {
+    SPINWRIGHT_ASSERT(k < temps_, "rung index beyond the ladder (beta)");
+    return betas_[k];
+  }
   Span<double> betas() const noexcept { return {betas_.data(), betas_.size()}; }
   /// The replica on rung k of replica set `set` (0, or 1 with Houdayer moves).
   const state_type& state(std::size_t k, std::size_t set = 0) const noexcept {
+    SPINWRIGHT_ASSERT(k < temps_ && set < sets_, "rung or replica set beyond the kernel (state)");
     return replicas_[slot_[set * temps_ + k]];
   }
   /// The replica on the coldest rung.
