@@ -30,6 +30,7 @@ const std::vector<OptionSpec>& bench_options() {
       {"threads", "T", "threads; 0 = one per hardware thread (default 0)"},
       {"seed", "N", "seed; restart r uses the stream (seed, r) (default 1)"},
       {"time-limit", "SECONDS", "wall-clock limit per kernel (default: none)"},
+      {"value-type", "TYPE", "auto, int32, int64 or double: the values the model is held with (default auto)"},
       {"report", "text|json", "table for people (text, default) or for programs (json)"},
       {"quiet", nullptr, "no progress line"},
       {"help", nullptr, "show this help"},
@@ -112,8 +113,10 @@ int run_bench(int argc, const char* const* argv) {
   if ((f = report_option(args, cmd, json)).failed()) return fail(f);
   const std::string kernel_text = args.value("kernel") != nullptr ? *args.value("kernel") : "auto";
 
+  ValueChoice values;
+  if ((f = value_type_option(args, cmd, values)).failed()) return fail(f);
   LoadedModel m;
-  if ((f = load_model(args.positional[0], format, m)).failed()) return fail(f);
+  if ((f = load_model(args.positional[0], format, m, values)).failed()) return fail(f);
   if ((f = check_restarts(m, base.restarts, "bench")).failed()) return fail(f);
   std::vector<Entry> kernels;
   if ((f = parse_kernels(kernel_text, m, kernels)).failed()) return fail(f);
@@ -151,7 +154,7 @@ int run_bench(int argc, const char* const* argv) {
   double best = std::numeric_limits<double>::infinity();
   for (const auto& r : rows) best = std::min(best, r.result.tally.best().energy);
   if (!has_target) target = best;
-  const double scale = visit(m, [](const auto& model) { return model.energy_bound(); });
+  const double scale = m.energy_bound();
   const double tol = 1e-9 * (scale > 1 ? scale : 1.0);
 
   std::string report;
@@ -164,6 +167,7 @@ int run_bench(int argc, const char* const* argv) {
     j.member("form", m.form_name());
     j.member("nodes", static_cast<std::uint64_t>(m.num_spins()));
     j.member("pairs", static_cast<std::uint64_t>(m.num_pairs()));
+    j.member("value_type", value_type_name(m.value_type));
     j.member("target", target);
     j.member("target_given", has_target);
     j.member("seed", base.seed);
@@ -191,6 +195,7 @@ int run_bench(int argc, const char* const* argv) {
     TextReport head;
     head.line("file", m.path + " (" + std::to_string(m.num_spins()) + (m.graph ? " nodes, " : " variables, ") +
                           std::to_string(m.num_pairs()) + (m.graph ? " edges)" : " pairs)"));
+    head.line("values", value_type_name(m.value_type));
     head.line("target", number_text(target) + (has_target ? "" : " (best energy found in this bench)"));
     head.line("seed", std::to_string(base.seed));
     if (interrupted_run) head.line("stopped", "interrupted (Ctrl-C); figures cover the restarts run so far");

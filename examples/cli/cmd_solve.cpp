@@ -26,6 +26,7 @@ const std::vector<OptionSpec>& solve_options() {
       {"restarts", "R", "independent restarts (default 8; one per thread when auto fills a time limit)"},
       {"threads", "T", "threads; 0 = one per hardware thread (default 0)"},
       {"seed", "N", "seed; restart r uses the stream (seed, r) (default 1)"},
+      {"value-type", "TYPE", "auto, int32, int64 or double: the values the model is held with (default auto)"},
       {"target", "ENERGY", "stop a restart once it reaches this energy; report the success rate"},
       {"warm-start", "STATEFILE", "start every restart from this state"},
       {"state-out", "FILE", "write the best state to FILE"},
@@ -46,6 +47,7 @@ struct SolveSettings {
   bool quiet = false;
   std::string warm_path;
   std::string state_out;
+  ValueChoice values;
 };
 
 Failure read_settings(const Args& args, SolveSettings& s) {
@@ -75,6 +77,7 @@ Failure read_settings(const Args& args, SolveSettings& s) {
     if ((f = parse_real(args, "target", false, cmd, s.run.target)).failed()) return f;
   }
   if ((f = report_option(args, cmd, s.json)).failed()) return f;
+  if ((f = value_type_option(args, cmd, s.values)).failed()) return f;
   s.quiet = args.has("quiet");
   if (const std::string* w = args.value("warm-start")) s.warm_path = *w;
   if (const std::string* o = args.value("state-out")) s.state_out = *o;
@@ -92,6 +95,7 @@ std::string solve_json(const LoadedModel& m, const SolveSettings& s, const RunRe
   j.member("graph", m.graph);
   j.member("nodes", static_cast<std::uint64_t>(m.num_spins()));
   j.member("pairs", static_cast<std::uint64_t>(m.num_pairs()));
+  j.member("value_type", value_type_name(r.value_type));
   j.member("kernel", kernel_name(s.run.kernel));
   j.member("kernel_requested", s.kernel_text);
   j.member("time_filling", s.run.fill_time);
@@ -104,8 +108,8 @@ std::string solve_json(const LoadedModel& m, const SolveSettings& s, const RunRe
   j.member("cut_short", r.cut_short);
   j.member("energy", best.energy);
   if (m.graph) {
-    j.member("cut", static_cast<double>(spinwright::cut_value(m.ising, best.spins.data())));
-    j.member("total_weight", static_cast<double>(spinwright::total_weight(m.ising)));
+    j.member("cut", m.cut(best.spins));
+    j.member("total_weight", m.total_weight());
   }
   if (r.exact) {
     j.member("exact", true);
@@ -131,7 +135,7 @@ std::string solve_json(const LoadedModel& m, const SolveSettings& s, const RunRe
   mean = es.empty() ? 0 : mean / static_cast<double>(es.size());
   j.member("mean", mean);
   j.member("worst", worst);
-  const double scale = visit(m, [](const auto& model) { return model.energy_bound(); });
+  const double scale = m.energy_bound();
   j.member("restarts_at_best", count_at(r.tally, best.energy, scale));
   j.member("median_restart_seconds", r.tally.median_seconds());
   if (s.run.has_target) {
@@ -158,6 +162,7 @@ std::string solve_text(const LoadedModel& m, const SolveSettings& s, const RunRe
          std::string(kernel_name(s.run.kernel)) + (s.run.fill_time ? " (chosen automatically, filling the time limit)"
                                                    : s.kernel_auto ? " (chosen automatically)"
                                                                    : ""));
+  t.line("values", value_type_name(r.value_type));
   if (r.exact) {
     t.line("threads", std::to_string(r.threads));
   } else {
@@ -176,10 +181,9 @@ std::string solve_text(const LoadedModel& m, const SolveSettings& s, const RunRe
                                                    (r.ground_count == 1 ? " ground state)" : " ground states)")
                                              : ""));
   if (m.graph) {
-    t.line("cut", number_text(static_cast<double>(spinwright::cut_value(m.ising, best.spins.data()))) +
-                      " (total weight " + number_text(static_cast<double>(spinwright::total_weight(m.ising))) + ")");
+    t.line("cut", number_text(m.cut(best.spins)) + " (total weight " + number_text(m.total_weight()) + ")");
   }
-  const double scale = visit(m, [](const auto& model) { return model.energy_bound(); });
+  const double scale = m.energy_bound();
   if (!r.exact) {
     t.line("best found by", std::to_string(count_at(r.tally, best.energy, scale)) + " of " +
                                 std::to_string(r.tally.restarts()) + " restarts");
@@ -210,7 +214,7 @@ int run_solve(int argc, const char* const* argv) {
   if ((f = read_settings(args, s)).failed()) return fail(f);
 
   LoadedModel m;
-  if ((f = load_model(args.positional[0], s.format, m)).failed()) return fail(f);
+  if ((f = load_model(args.positional[0], s.format, m, s.values)).failed()) return fail(f);
   if ((f = check_restarts(m, s.run.restarts, "solve")).failed()) return fail(f);
   std::vector<std::int8_t> warm;
   if (!s.warm_path.empty()) {

@@ -42,8 +42,8 @@ int run_verify(int argc, const char* const* argv) {
   const double energy = m.energy(spins);
   double cut = 0, weight = 0;
   if (m.graph) {
-    cut = static_cast<double>(spinwright::cut_value(m.ising, spins.data()));
-    weight = static_cast<double>(spinwright::total_weight(m.ising));
+    cut = m.cut(spins);
+    weight = m.total_weight();
   }
   std::size_t minus = 0;
   for (const auto s : spins) minus += s < 0;

@@ -203,8 +203,9 @@ TEST_CASE("cli: every bad input exits 1 with file:line: reason and no output") {
       // An integer Matrix Market file: the value type is int64_t, and this entry does not fit it.
       {"overflow_int.mtx", "%%MatrixMarket matrix coordinate integer general\n2 2 1\n1 2 99999999999999999999999\n",
        "overflow_int.mtx:3:"},
-      // Fits int64_t, but the program keeps integer models exact in double only below 2^53.
-      {"beyond_2_53.txt", "3 2\n1 2 18014398509481984\n2 3 1\n", "beyond_2_53.txt:"},
+      // Fits int64_t, but the energy range passes the library's integer_energy_limit
+      // (INT64_MAX / 4): refused, never run with overflowing energies. (2^54 now runs as int64.)
+      {"beyond_limit.txt", "3 2\n1 2 4611686018427387904\n2 3 1\n", "beyond_limit.txt:"},
       {"absurd.txt", "1000000000000 1\n1 2 1\n", "absurd.txt:1:"},
       {"absurd_edges.txt", "4 1000000000000\n1 2 1\n", "absurd_edges.txt:"},
       {"array.mtx", "%%MatrixMarket matrix array real general\n2 2\n1\n2\n3\n4\n", "array.mtx:1:"},
@@ -751,4 +752,56 @@ TEST_CASE("cli: on a terminal a long run shows the progress line on stderr, unle
       CHECK(tty.find('\n') == std::string::npos);  // a single line, never scrolled
     }
   }
+}
+
+TEST_CASE("cli: integer files run on int32 or int64 values, real files on double; the report names the type") {
+  // The rule of docs/cli.md: all-integer values with an energy range (sum of |coefficients|)
+  // up to 2^31 - 1 -> int32; other all-integer files -> int64; real values -> double. Integer
+  // kernels use the same random stream for int32 and int64 (common practice: the value type
+  // changes the arithmetic width, never the chain), so both give the same spins.
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const Graph g = random_graph(50, 200, -4, 6, 5);
+  const std::string small = dir.write("small.txt", g.edge_list());
+  const std::vector<std::string> common = {"--kernel", "anneal", "--restarts", "3",   "--threads", "1",
+                                           "--seed",   "9",      "--sweeps",   "200", "--report",  "json"};
+  auto solve = [&](const std::string& path, std::vector<std::string> extra) {
+    std::vector<std::string> a = {"solve", path};
+    a.insert(a.end(), common.begin(), common.end());
+    a.insert(a.end(), extra.begin(), extra.end());
+    return run(dir, a);
+  };
+  const RunOutput r32 = solve(small, {});
+  REQUIRE(r32.code == 0);
+  const Json j32 = parse_ok(r32);
+  CHECK(j32["value_type"].text == "int32");
+  const RunOutput r64 = solve(small, {"--value-type", "int64"});
+  REQUIRE(r64.code == 0);
+  const Json j64 = parse_ok(r64);
+  CHECK(j64["value_type"].text == "int64");
+  CHECK(spins_of(j32) == spins_of(j64));
+  CHECK(j32["energy"].num == j64["energy"].num);
+  CHECK(static_cast<std::int64_t>(j32["energy"].num) == g.energy(spins_of(j32)));
+  const RunOutput text = run(dir, {"solve", small, "--sweeps", "50", "--restarts", "1", "--quiet"});
+  CHECK(text.out.find("\nvalues ") != std::string::npos);
+  CHECK(text.out.find("int32\n") != std::string::npos);
+
+  // Weights of 10^9: the energy range passes 2^31 - 1, so int64; int32 is refused by name.
+  Graph big = g;
+  for (auto& e : big.edges) e.w *= 1000000000;
+  const std::string wide = dir.write("wide.txt", big.edge_list());
+  const RunOutput rb = solve(wide, {});
+  REQUIRE(rb.code == 0);
+  const Json jb = parse_ok(rb);
+  CHECK(jb["value_type"].text == "int64");
+  CHECK(static_cast<std::int64_t>(jb["energy"].num) == big.energy(spins_of(jb)));
+  const RunOutput refused = solve(wide, {"--value-type", "int32"});
+  check_input_error(refused, wide + ": --value-type int32");
+
+  // A real weight anywhere: double.
+  const std::string real = dir.write("real.txt", "3 2\n1 2 1.5\n2 3 -2\n");
+  const RunOutput rr = solve(real, {});
+  REQUIRE(rr.code == 0);
+  CHECK(parse_ok(rr)["value_type"].text == "double");
+  check_usage_error(solve(small, {"--value-type", "int16"}));
 }
