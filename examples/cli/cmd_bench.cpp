@@ -204,9 +204,10 @@ int run_bench(int argc, const char* const* argv) {
       const auto& t = r.result.tally;
       const double per =
           t.restarts() == 0 ? 0 : static_cast<double>(t.total_sweeps()) / static_cast<double>(t.restarts());
-      table.row({kernel_name(r.kernel), std::to_string(t.restarts()), short_number(per), number_text(t.best().energy),
-                 probability_text(t.success_probability(target, tol)), number_text(t.residual_energy(target)),
-                 seconds_text(t.median_seconds()), seconds_text(t.tts99(target, tol))});
+      table.row({kernel_name(r.kernel), std::to_string(t.restarts()), short_number(per),
+                 energy_text(t.best().energy, scale), probability_text(t.success_probability(target, tol)),
+                 energy_text(t.residual_energy(target), scale), seconds_text(t.median_seconds()),
+                 seconds_text(t.tts99(target, tol))});
     }
     report = head.str() + "\n" + table.str();
   }

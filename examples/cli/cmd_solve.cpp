@@ -22,13 +22,20 @@ const std::vector<OptionSpec>& solve_options() {
       {"format", "edges|mtx", "input format (default: detected from the content)"},
       {"kernel", "NAME", "auto, anneal, temper, tabu, descent or exact (default auto)"},
       {"time-limit", "SECONDS", "wall-clock limit for the whole run; auto without --sweeps fills it (default: none)"},
-      {"sweeps", "N", "sweeps per restart (default: the kernel's own, 1000 for anneal)"},
+      {"sweeps", "N",
+       "sweeps per restart (default: with auto, the rule's 4000 / 2000 / 1000 by size, see 'inspect'; "
+       "otherwise 1000 for anneal, temper and tabu; with --time-limit, as many as fit)"},
       {"restarts", "R", "independent restarts (default 8; one per thread when auto fills a time limit)"},
       {"threads", "T", "threads; 0 = one per hardware thread (default 0)"},
       {"seed", "N", "seed; restart r uses the stream (seed, r) (default 1)"},
       {"value-type", "TYPE", "auto, int32, int64 or double: the values the model is held with (default auto)"},
       {"target", "ENERGY", "stop a restart once it reaches this energy; report the success rate"},
-      {"warm-start", "STATEFILE", "start every restart from this state"},
+      {"warm-start", "STATEFILE", "start every restart from this state (state file: see below)"},
+      {"beta-start", "BETA", "anneal/temper: inverse temperature at the start (hot end) of the schedule"},
+      {"beta-end", "BETA", "anneal/temper: inverse temperature at the end (cold end)"},
+      {"accept-start", "P",
+       "instead of --beta-start: a typical uphill flip is accepted with probability P at the start"},
+      {"accept-end", "P", "instead of --beta-end: the smallest uphill step is accepted with probability P at the end"},
       {"state-out", "FILE", "write the best state to FILE"},
       {"report", "text|json", "report for people (text, default) or for programs (json)"},
       {"quiet", nullptr, "no progress line"},
@@ -78,6 +85,7 @@ Failure read_settings(const Args& args, SolveSettings& s) {
   }
   if ((f = report_option(args, cmd, s.json)).failed()) return f;
   if ((f = value_type_option(args, cmd, s.values)).failed()) return f;
+  if ((f = schedule_options(args, cmd, s.run.schedule)).failed()) return f;
   s.quiet = args.has("quiet");
   if (const std::string* w = args.value("warm-start")) s.warm_path = *w;
   if (const std::string* o = args.value("state-out")) s.state_out = *o;
@@ -99,6 +107,7 @@ std::string solve_json(const LoadedModel& m, const SolveSettings& s, const RunRe
   j.member("kernel", kernel_name(s.run.kernel));
   j.member("kernel_requested", s.kernel_text);
   j.member("time_filling", s.run.fill_time);
+  j.member("time_driven", s.run.time_driven);
   j.member("seed", s.run.seed);
   j.member("restarts", static_cast<std::uint64_t>(r.tally.restarts()));
   j.member("threads", r.threads);
@@ -106,6 +115,10 @@ std::string solve_json(const LoadedModel& m, const SolveSettings& s, const RunRe
   j.member("seconds", r.seconds);
   j.member("interrupted", r.interrupted);
   j.member("cut_short", r.cut_short);
+  if (r.beta_end > 0) {
+    j.member("beta_start", r.beta_start);
+    j.member("beta_end", r.beta_end);
+  }
   j.member("energy", best.energy);
   if (m.graph) {
     j.member("cut", m.cut(best.spins));
@@ -161,7 +174,8 @@ std::string solve_text(const LoadedModel& m, const SolveSettings& s, const RunRe
   t.line("kernel",
          std::string(kernel_name(s.run.kernel)) + (s.run.fill_time ? " (chosen automatically, filling the time limit)"
                                                    : s.kernel_auto ? " (chosen automatically)"
-                                                                   : ""));
+                                                   : s.run.time_driven ? " (filling the time limit)"
+                                                                       : ""));
   t.line("values", value_type_name(r.value_type));
   if (r.exact) {
     t.line("threads", std::to_string(r.threads));
@@ -176,12 +190,13 @@ std::string solve_text(const LoadedModel& m, const SolveSettings& s, const RunRe
   } else if (r.cut_short > 0 && s.run.time_limit < std::numeric_limits<double>::infinity()) {
     t.line("stopped", std::to_string(r.cut_short) + " restarts cut short by the time limit");
   }
-  t.line("energy",
-         number_text(best.energy) + (r.exact ? " (ground state, " + std::to_string(r.ground_count) +
-                                                   (r.ground_count == 1 ? " ground state)" : " ground states)")
-                                             : ""));
+  t.line("energy", energy_text(best.energy, m.energy_bound()) +
+                       (r.exact ? " (ground state, " + std::to_string(r.ground_count) +
+                                      (r.ground_count == 1 ? " ground state)" : " ground states)")
+                                : ""));
   if (m.graph) {
-    t.line("cut", number_text(m.cut(best.spins)) + " (total weight " + number_text(m.total_weight()) + ")");
+    t.line("cut",
+           energy_text(m.cut(best.spins), m.energy_bound()) + " (total weight " + energy_text(m.total_weight(), m.energy_bound()) + ")");
   }
   const double scale = m.energy_bound();
   if (!r.exact) {
@@ -196,8 +211,15 @@ std::string solve_text(const LoadedModel& m, const SolveSettings& s, const RunRe
                          std::to_string(r.tally.restarts()) + " restarts (p = " + probability_text(p) + "), TTS99 " +
                          seconds_text(r.tally.tts99(s.run.target, tol)));
   }
+  if (r.beta_end > 0) t.line("schedule", "beta " + energy_text(r.beta_start, 1e8) + " .. " + energy_text(r.beta_end, 1e8));
   if (!s.state_out.empty()) t.line("state written to", s.state_out);
-  t.line(m.form == spinwright::Form::qubo ? "bits" : "spins", spins_text(best.spins, m.form == spinwright::Form::qubo));
+  const char* label = m.form == spinwright::Form::qubo ? "bits" : "spins";
+  if (best.spins.size() <= max_text_spins) {
+    t.line(label, spins_text(best.spins, m.form == spinwright::Form::qubo));
+  } else {
+    t.line(label, std::string("not shown for more than ") + std::to_string(max_text_spins) + " " + label +
+                      (s.state_out.empty() ? " (use --state-out FILE or --report json)" : " (see the state file)"));
+  }
   return t.str();
 }
 
@@ -205,8 +227,9 @@ std::string solve_text(const LoadedModel& m, const SolveSettings& s, const RunRe
 
 int run_solve(int argc, const char* const* argv) {
   Args args;
-  const int early = parse_or_exit(argc, argv, solve_options(), "solve", "FILE [options]",
-                                  "Finds a low-energy state of the model in FILE (edge list: max-cut graph).", args);
+  const int early =
+      parse_or_exit(argc, argv, solve_options(), "solve", "FILE [options]",
+                    "Finds a low-energy state of the model in FILE (edge list: max-cut graph).", args, state_file_help);
   if (early >= 0) return early;
   Failure f = expect_positional(args, 1, "solve", "FILE");
   if (f.failed()) return fail(f);
@@ -238,6 +261,17 @@ int run_solve(int argc, const char* const* argv) {
         s.run.restarts = s.run.threads != 0 ? s.run.threads : std::max(1u, std::thread::hardware_concurrency());
       }
     }
+  }
+  // A kernel named on the command line with a time limit and no sweep count fills the limit:
+  // annealing then follows the elapsed fraction of the limit along its schedule (ends cold).
+  if (!s.kernel_auto && !args.has("sweeps") && s.run.time_limit < std::numeric_limits<double>::infinity() &&
+      s.run.kernel != Kernel::exact && s.run.kernel != Kernel::descent) {
+    s.run.time_driven = true;
+  }
+  if (s.run.schedule.given() && s.run.kernel != Kernel::anneal && s.run.kernel != Kernel::temper) {
+    return fail(usage_failure(std::string("the schedule options apply to anneal and temper, not to ") +
+                                  kernel_name(s.run.kernel) + (s.kernel_auto ? " (chosen by auto)" : ""),
+                              "add --kernel anneal or --kernel temper"));
   }
   if (s.run.kernel == Kernel::exact && m.num_spins() > exact_limit()) {
     return fail(input_failure(m.path + ": the exact kernel is limited to " + std::to_string(exact_limit()) +

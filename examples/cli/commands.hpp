@@ -11,6 +11,8 @@
 
 namespace spinwright_cli {
 
+struct ScheduleOptions;  // runner.hpp
+
 int run_solve(int argc, const char* const* argv);
 int run_exact(int argc, const char* const* argv);
 int run_inspect(int argc, const char* const* argv);
@@ -21,7 +23,11 @@ int run_bench(int argc, const char* const* argv);
 // Shared by the commands: parses argv against `specs`, prints help (exit 0) or a usage
 // error (exit 2). Returns -1 when the command should go on.
 int parse_or_exit(int argc, const char* const* argv, const std::vector<OptionSpec>& specs, const std::string& command,
-                  const char* synopsis, const char* description, Args& args);
+                  const char* synopsis, const char* description, Args& args, const char* epilogue = nullptr);
+// The state-file format, for --help texts (io/state_file.hpp).
+extern const char* const state_file_help;
+// The schedule options --beta-start, --beta-end, --accept-start, --accept-end (usage errors).
+Failure schedule_options(const Args& args, const std::string& command, ScheduleOptions& out);
 // Prints a failure and returns its exit code.
 int fail(const Failure& f);
 // --report text|json; usage error otherwise.
