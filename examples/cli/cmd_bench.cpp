@@ -13,8 +13,10 @@
 #include "runner.hpp"
 #include "text.hpp"
 
-#include <cstdio>  // std::snprintf
-#include <limits>  // std::numeric_limits
+#include <algorithm>  // std::max, std::min
+#include <cmath>      // std::log
+#include <cstdio>     // std::snprintf
+#include <limits>     // std::numeric_limits
 
 namespace spinwright_cli {
 
@@ -32,6 +34,7 @@ const std::vector<OptionSpec>& bench_options() {
       {"time-limit", "SECONDS", "wall-clock limit per kernel (default: none)"},
       {"value-type", "TYPE", "auto, int32, int64 or double: the values the model is held with (default auto)"},
       {"report", "text|json", "table for people (text, default) or for programs (json)"},
+      {"plot", "FILE.svg", "write an SVG: success probability and TTS99 against sweeps, per kernel"},
       {"quiet", nullptr, "no progress line"},
       {"help", nullptr, "show this help"},
   };
@@ -47,7 +50,49 @@ std::string short_number(double v) {
 struct Row {
   Kernel kernel;
   RunResult result;
+  std::vector<Trace> traces;  // --plot
 };
+
+// TTS99 after k sweeps of a restart: k times the median seconds per sweep, times
+// ln(0.01) / ln(1 - p(k)) (stats/tally.hpp's rule; Roennow et al., Science 345, 2014); one run
+// when p = 1, none (no point) when p = 0.
+Series tts_against_sweeps(const Series& success, double seconds_per_sweep, const std::string& name) {
+  Series t;
+  t.name = name;
+  for (std::size_t k = 0; k < success.x.size(); ++k) {
+    const double p = success.y[k];
+    if (!(p > 0)) continue;
+    const double runs = p >= 1 ? 1.0 : std::max(1.0, std::log(0.01) / std::log(1 - p));
+    t.x.push_back(success.x[k]);
+    t.y.push_back(success.x[k] * seconds_per_sweep * runs);
+  }
+  return t;
+}
+
+std::string bench_figure(const LoadedModel& m, const std::vector<Row>& rows, double target, double tol) {
+  Panel success;
+  success.title = "Success probability against sweeps (target " + energy_text(target, m.energy_bound()) + ")";
+  success.x_label = "sweeps into a restart (log scale)";
+  success.y_label = "P(best <= target)";
+  success.log_x = true;
+  success.unit_y = true;
+  Panel tts;
+  tts.title = "TTS99 against sweeps";
+  tts.x_label = "sweeps per restart (log scale)";
+  tts.y_label = "TTS99 (seconds)";
+  tts.log_x = true;
+  for (const Row& r : rows) {
+    const Series p = success_against_sweeps(r.traces, target, tol, kernel_name(r.kernel));
+    success.series.push_back(p);
+    const auto& t = r.result.tally;
+    const double per =
+        t.restarts() == 0 || t.total_sweeps() == 0
+            ? 0
+            : t.median_seconds() / (static_cast<double>(t.total_sweeps()) / static_cast<double>(t.restarts()));
+    tts.series.push_back(tts_against_sweeps(p, per, kernel_name(r.kernel)));
+  }
+  return svg_figure("spinwright bench " + m.path, nullptr, {success, tts});
+}
 
 struct Entry {
   Kernel kernel;
@@ -141,7 +186,11 @@ int run_bench(int argc, const char* const* argv) {
     counters.restarts_total = k == Kernel::exact ? 1 : o.restarts;
     counters.time_limit = o.time_limit < std::numeric_limits<double>::infinity() ? o.time_limit : 0;
     o.progress = &counters;
-    Row row{k, {}};
+    Row row{k, {}, {}};
+    if (args.has("plot")) {
+      row.traces.resize(static_cast<std::size_t>(std::min<std::uint64_t>(o.restarts, max_plot_restarts)));
+      o.traces = &row.traces;
+    }
     {
       ProgressLine line(counters, !args.has("quiet"));
       f = run_kernel(m, o, row.result);
@@ -157,6 +206,9 @@ int run_bench(int argc, const char* const* argv) {
   const double scale = m.energy_bound();
   const double tol = 1e-9 * (scale > 1 ? scale : 1.0);
 
+  if (const std::string* plot = args.value("plot")) {
+    if ((f = write_plot(*plot, bench_figure(m, rows, target, tol))).failed()) return fail(f);
+  }
   std::string report;
   if (json) {
     JsonWriter j;

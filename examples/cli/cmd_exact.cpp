@@ -87,7 +87,8 @@ std::string exact_report(const LoadedModel& m, const spinwright::ExactResult<dou
   t.line("time", seconds_text(seconds) + " on " + std::to_string(threads) + (threads == 1 ? " thread" : " threads"));
   t.line("ground energy", energy_text(r.energy, m.energy_bound()));
   if (m.graph)
-    t.line("maximum cut", energy_text(cut, m.energy_bound()) + " (total weight " + energy_text(weight, m.energy_bound()) + ")");
+    t.line("maximum cut",
+           energy_text(cut, m.energy_bound()) + " (total weight " + energy_text(weight, m.energy_bound()) + ")");
   t.line("ground states", std::to_string(r.ground_count));
   if (r.levels.size() > 1) {
     for (std::size_t k = 1; k < r.levels.size(); ++k) {

@@ -37,6 +37,7 @@ const std::vector<OptionSpec>& solve_options() {
        "instead of --beta-start: a typical uphill flip is accepted with probability P at the start"},
       {"accept-end", "P", "instead of --beta-end: the smallest uphill step is accepted with probability P at the end"},
       {"state-out", "FILE", "write the best state to FILE"},
+      {"plot", "FILE.svg", "write an SVG: energy histogram over restarts, best energy against sweeps and time"},
       {"report", "text|json", "report for people (text, default) or for programs (json)"},
       {"quiet", nullptr, "no progress line"},
       {"help", nullptr, "show this help"},
@@ -54,6 +55,7 @@ struct SolveSettings {
   bool quiet = false;
   std::string warm_path;
   std::string state_out;
+  std::string plot;
   ValueChoice values;
 };
 
@@ -89,6 +91,7 @@ Failure read_settings(const Args& args, SolveSettings& s) {
   s.quiet = args.has("quiet");
   if (const std::string* w = args.value("warm-start")) s.warm_path = *w;
   if (const std::string* o = args.value("state-out")) s.state_out = *o;
+  if (const std::string* p = args.value("plot")) s.plot = *p;
   return {};
 }
 
@@ -195,8 +198,8 @@ std::string solve_text(const LoadedModel& m, const SolveSettings& s, const RunRe
                                       (r.ground_count == 1 ? " ground state)" : " ground states)")
                                 : ""));
   if (m.graph) {
-    t.line("cut",
-           energy_text(m.cut(best.spins), m.energy_bound()) + " (total weight " + energy_text(m.total_weight(), m.energy_bound()) + ")");
+    t.line("cut", energy_text(m.cut(best.spins), m.energy_bound()) + " (total weight " +
+                      energy_text(m.total_weight(), m.energy_bound()) + ")");
   }
   const double scale = m.energy_bound();
   if (!r.exact) {
@@ -211,7 +214,8 @@ std::string solve_text(const LoadedModel& m, const SolveSettings& s, const RunRe
                          std::to_string(r.tally.restarts()) + " restarts (p = " + probability_text(p) + "), TTS99 " +
                          seconds_text(r.tally.tts99(s.run.target, tol)));
   }
-  if (r.beta_end > 0) t.line("schedule", "beta " + energy_text(r.beta_start, 1e8) + " .. " + energy_text(r.beta_end, 1e8));
+  if (r.beta_end > 0)
+    t.line("schedule", "beta " + energy_text(r.beta_start, 1e8) + " .. " + energy_text(r.beta_end, 1e8));
   if (!s.state_out.empty()) t.line("state written to", s.state_out);
   const char* label = m.form == spinwright::Form::qubo ? "bits" : "spins";
   if (best.spins.size() <= max_text_spins) {
@@ -221,6 +225,32 @@ std::string solve_text(const LoadedModel& m, const SolveSettings& s, const RunRe
                       (s.state_out.empty() ? " (use --state-out FILE or --report json)" : " (see the state file)"));
   }
   return t.str();
+}
+
+// The --plot figure: the histogram of the restarts' best energies, and the best energy over
+// all restarts against sweeps (within a restart) and against time (since a restart began).
+std::string solve_figure(const LoadedModel& m, const SolveSettings& s, const RunResult& r,
+                         const std::vector<Trace>& traces) {
+  Histogram h;
+  h.title = "Best energy of each restart (" + std::to_string(r.tally.restarts()) + " restarts)";
+  h.x_label = "energy";
+  h.values = r.tally.energies();
+  Panel sweeps;
+  sweeps.title = "Best energy against sweeps";
+  sweeps.x_label = "sweeps into a restart (log scale)";
+  sweeps.y_label = "best energy";
+  sweeps.log_x = true;
+  sweeps.series.push_back(best_against_sweeps(traces, "all restarts"));
+  if (!traces.empty()) sweeps.series.push_back(best_against_sweeps({traces.front()}, "restart 0"));
+  Panel time;
+  time.title = "Best energy against time";
+  time.x_label = "seconds into a restart";
+  time.y_label = "best energy";
+  time.series.push_back(best_against_seconds(traces, "all restarts"));
+  const std::string heading = "spinwright solve " + m.path + ": " + kernel_name(s.run.kernel) + ", " +
+                              value_type_name(r.value_type) + ", seed " + std::to_string(s.run.seed) + ", best " +
+                              energy_text(r.tally.best().energy, m.energy_bound());
+  return svg_figure(heading, &h, {sweeps, time});
 }
 
 }  // namespace
@@ -282,6 +312,11 @@ int run_solve(int argc, const char* const* argv) {
   counters.restarts_total = s.run.kernel == Kernel::exact ? 1 : s.run.restarts;
   counters.time_limit = s.run.time_limit < std::numeric_limits<double>::infinity() ? s.run.time_limit : 0;
   s.run.progress = &counters;
+  std::vector<Trace> traces;
+  if (!s.plot.empty()) {
+    traces.resize(static_cast<std::size_t>(std::min<std::uint64_t>(s.run.restarts, max_plot_restarts)));
+    s.run.traces = &traces;
+  }
   RunResult r;
   {
     ProgressLine line(counters, !s.quiet);
@@ -291,6 +326,9 @@ int run_solve(int argc, const char* const* argv) {
   if (f.failed()) return fail(f);
   if (!s.state_out.empty()) {
     if ((f = save_state(s.state_out, r.tally.best().spins, m.form == spinwright::Form::qubo)).failed()) return fail(f);
+  }
+  if (!s.plot.empty()) {
+    if ((f = write_plot(s.plot, solve_figure(m, s, r, traces))).failed()) return fail(f);
   }
   const std::string report = s.json ? solve_json(m, s, r) : solve_text(m, s, r);
   if (!write_stdout(report)) return fail(input_failure("spinwright: cannot write the report to standard output"));

@@ -72,7 +72,9 @@ int run_verify(int argc, const char* const* argv) {
     t.line("state", args.positional[1] + " (" + std::to_string(spins.size()) + " values, " + std::to_string(minus) +
                         (m.form == spinwright::Form::qubo ? " ones)" : " spins -1)"));
     t.line("energy", energy_text(energy, m.energy_bound()));
-    if (m.graph) t.line("cut", energy_text(cut, m.energy_bound()) + " (total weight " + energy_text(weight, m.energy_bound()) + ")");
+    if (m.graph)
+      t.line("cut",
+             energy_text(cut, m.energy_bound()) + " (total weight " + energy_text(weight, m.energy_bound()) + ")");
     report = t.str();
   }
   if (!write_stdout(report)) return fail(input_failure("spinwright: cannot write the report to standard output"));

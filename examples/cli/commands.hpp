@@ -6,8 +6,9 @@
 
 #include "args.hpp"
 
-#include <string>  // std::string
-#include <vector>  // std::vector
+#include <cstdint>  // std::uint64_t
+#include <string>   // std::string
+#include <vector>   // std::vector
 
 namespace spinwright_cli {
 
@@ -24,6 +25,10 @@ int run_bench(int argc, const char* const* argv);
 // error (exit 2). Returns -1 when the command should go on.
 int parse_or_exit(int argc, const char* const* argv, const std::vector<OptionSpec>& specs, const std::string& command,
                   const char* synopsis, const char* description, Args& args, const char* epilogue = nullptr);
+// --plot: at most this many restarts keep a trace; writes an SVG text to PATH (input error
+// naming PATH when it cannot).
+inline constexpr std::uint64_t max_plot_restarts = 100000;
+Failure write_plot(const std::string& path, const std::string& svg);
 // The state-file format, for --help texts (io/state_file.hpp).
 extern const char* const state_file_help;
 // The schedule options --beta-start, --beta-end, --accept-start, --accept-end (usage errors).

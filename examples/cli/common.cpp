@@ -4,6 +4,8 @@
 #include "runner.hpp"
 #include "text.hpp"
 
+#include <spinwright/io/text_input.hpp>
+
 #include <cstdio>  // std::fputs
 
 namespace spinwright_cli {
@@ -25,6 +27,12 @@ int parse_or_exit(int argc, const char* const* argv, const std::vector<OptionSpe
   }
   if (f.failed()) return fail(f);
   return -1;
+}
+
+Failure write_plot(const std::string& path, const std::string& svg) {
+  const auto st = spinwright::io::write_file_text(path, svg);
+  if (!st.ok()) return input_failure(st.line == 0 ? st.file + ": " + st.reason : st.message);
+  return {};
 }
 
 const char* const state_file_help =

@@ -6,6 +6,7 @@
 #define SPINWRIGHT_CLI_RUNNER_HPP
 
 #include "loaded_model.hpp"
+#include "plot.hpp"
 #include "progress.hpp"
 
 #include <spinwright/kernels/auto.hpp>
@@ -77,6 +78,9 @@ struct RunOptions {
   // what the report names. Ending at the deadline is that mode's normal end, not a cut.
   bool fill_time = false;
   ProgressCounters* progress = nullptr;
+  // When set (sized by the caller), restart r < traces->size() records its trace: every new
+  // best the kernel reports, and the final (polished) state (`--plot`).
+  std::vector<Trace>* traces = nullptr;
 };
 
 struct RunResult {

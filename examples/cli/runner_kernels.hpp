@@ -85,8 +85,11 @@ spinwright::Solution<typename Model::energy_type> finish(const Model& model,
 // Feeds the progress line; kernels call it from their own thread.
 struct ProgressObserver {
   ProgressCounters* counters = nullptr;
-  void on_improvement(std::uint64_t, double energy) {
+  Trace* trace = nullptr;  // --plot: this restart's trace
+  double start = 0;
+  void on_improvement(std::uint64_t sweep, double energy) {
     if (counters != nullptr) counters->best.offer(energy);
+    if (trace != nullptr) trace->push_back({sweep, spinwright::steady_seconds(nullptr) - start, energy});
   }
 };
 
@@ -133,7 +136,9 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
   } else {
     budget.clock = spinwright::steady_clock();  // for Solution::seconds
   }
-  ProgressObserver observer{o.progress};
+  Trace* trace = o.traces != nullptr && r < o.traces->size() ? &(*o.traces)[static_cast<std::size_t>(r)] : nullptr;
+  const double restart_start = spinwright::steady_seconds(nullptr);
+  ProgressObserver observer{o.progress, trace, restart_start};
   const std::int8_t* warm = o.warm != nullptr ? o.warm->data() : nullptr;
   spinwright::Solution<double> s;
   bool counts_as_cut = false;
@@ -183,6 +188,7 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
     counts_as_cut = o.time_driven ? s.reason == spinwright::StopReason::stopped : cut(s.reason);
   }
   if (counts_as_cut) cut_short.fetch_add(1, std::memory_order_relaxed);
+  if (trace != nullptr) trace->push_back({s.sweeps, spinwright::steady_seconds(nullptr) - restart_start, s.energy});
   if (o.progress != nullptr) {
     o.progress->best.offer(s.energy);
     o.progress->restarts_done.fetch_add(1, std::memory_order_relaxed);

@@ -990,3 +990,104 @@ TEST_CASE("cli: unweighted edge lists read with weight 1; a file without its hea
   check_input_error(r, headless + ":2: ");
   CHECK(r.err.find("header line missing") != std::string::npos);
 }
+
+namespace {
+
+// The SVG's elements as name and attributes, checking that every tag is closed in order
+// (a small XML reader: enough for the program's own output; W3C XML 1.0 well-formedness).
+struct SvgElement {
+  std::string name;
+  std::map<std::string, std::string> attr;
+};
+
+bool read_svg(const std::string& text, std::vector<SvgElement>& out) {
+  std::vector<std::string> open;
+  std::size_t at = 0;
+  while ((at = text.find('<', at)) != std::string::npos) {
+    const std::size_t end = text.find('>', at);
+    if (end == std::string::npos) return false;
+    std::string tag = text.substr(at + 1, end - at - 1);
+    at = end + 1;
+    if (tag.empty() || tag[0] == '?') continue;
+    if (tag[0] == '/') {
+      if (open.empty() || open.back() != tag.substr(1)) return false;
+      open.pop_back();
+      continue;
+    }
+    const bool self_closing = tag.back() == '/';
+    if (self_closing) tag.pop_back();
+    SvgElement e;
+    std::size_t k = tag.find_first_of(" \n");
+    e.name = tag.substr(0, k);
+    while (k != std::string::npos && k < tag.size()) {
+      const std::size_t eq = tag.find('=', k);
+      if (eq == std::string::npos) break;
+      std::string key = tag.substr(k, eq - k);
+      key.erase(0, key.find_first_not_of(" \n"));
+      if (eq + 1 >= tag.size() || tag[eq + 1] != '"') return false;
+      const std::size_t close = tag.find('"', eq + 2);
+      if (close == std::string::npos) return false;
+      e.attr[key] = tag.substr(eq + 2, close - eq - 2);
+      k = close + 1;
+    }
+    if (!self_closing) open.push_back(e.name);
+    out.push_back(e);
+  }
+  return open.empty() && !out.empty() && out.front().name == "svg";
+}
+
+}  // namespace
+
+TEST_CASE("cli: solve --plot and bench --plot write SVG figures whose numbers match the report") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const Graph g = random_graph(120, 360, -1, 1, 17);
+  const std::string path = dir.write("g.txt", g.edge_list());
+  const std::string svg = dir.file("solve.svg");
+  const Json j = parse_ok(run(dir, {"solve", path, "--kernel", "anneal", "--sweeps", "300", "--restarts", "12",
+                                    "--report", "json", "--plot", svg}));
+  std::vector<SvgElement> el;
+  REQUIRE(read_svg(cli_test::read_file(svg), el));
+  // Histogram: one bar per bin, the counts add up to the restarts; every energy in some bin.
+  std::uint64_t total = 0;
+  double lowest_bin = 1e300;
+  std::size_t curves = 0;
+  for (const auto& e : el) {
+    if (e.name == "rect" && e.attr.count("data-count") != 0) {
+      total += std::stoull(e.attr.at("data-count"));
+      lowest_bin = std::min(lowest_bin, std::stod(e.attr.at("data-lo")));
+    }
+    if (e.name == "path" && e.attr.count("data-last") != 0) {
+      ++curves;
+      // The best-energy curves over all restarts end at the reported best energy.
+      if (e.attr.at("data-name") == "all restarts") CHECK(std::stod(e.attr.at("data-last")) == j["energy"].num);
+    }
+  }
+  CHECK(total == 12);
+  CHECK(lowest_bin == j["energy"].num);
+  CHECK(curves == 3);  // against sweeps (all restarts, restart 0) and against time
+
+  const std::string bsvg = dir.file("bench.svg");
+  const RunOutput b = run(dir, {"bench", path, "--kernel", "anneal,descent", "--sweeps", "300", "--restarts", "8",
+                                "--report", "json", "--quiet", "--plot", bsvg});
+  REQUIRE(b.code == 0);
+  const Json jb = parse_ok(b);
+  std::vector<SvgElement> be;
+  REQUIRE(read_svg(cli_test::read_file(bsvg), be));
+  std::map<std::string, double> last_success;
+  for (const auto& e : be) {
+    if (e.name == "path" && e.attr.count("data-last") != 0 && last_success.count(e.attr.at("data-name")) == 0) {
+      last_success[e.attr.at("data-name")] = std::stod(e.attr.at("data-last"));  // first panel: P(success)
+    }
+  }
+  // The success curve ends at the success probability of the table (common practice: the
+  // empirical fraction of restarts at or below the target).
+  for (const auto& k : jb["kernels"].items) {
+    CAPTURE(k["kernel"].text);
+    REQUIRE(last_success.count(k["kernel"].text) == 1);
+    CHECK(last_success[k["kernel"].text] == doctest::Approx(k["success_probability"].num));
+  }
+  // An unwritable figure is an input error naming the file.
+  check_input_error(run(dir, {"solve", path, "--sweeps", "10", "--plot", "/nonexistent-folder/f.svg"}),
+                    "/nonexistent-folder/f.svg");
+}
