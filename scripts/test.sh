@@ -4,9 +4,9 @@
 set -euo pipefail
 cd "$(dirname "$0")/.."
 
-packages=(cmake g++ doctest-dev libbenchmark-dev clang libclang-rt-14-dev glpk-utils libglpk-dev
+packages=(cmake g++ doctest-dev libbenchmark-dev clang libclang-rt-14-dev glpk-utils libglpk-dev libeigen3-dev
           gcc-arm-none-eabi libstdc++-arm-none-eabi-newlib libnewlib-arm-none-eabi qemu-system-arm
-          g++-aarch64-linux-gnu qemu-user)
+          g++-aarch64-linux-gnu qemu-user libopenmpi-dev openmpi-bin)
 missing=()
 for p in "${packages[@]}"; do
   dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing+=("$p")

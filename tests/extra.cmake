@@ -29,3 +29,27 @@ if(TARGET kernels_test_glpk_reference)
   target_link_libraries(kernels_test_glpk_reference PRIVATE ${SPINWRIGHT_GLPK_LIBRARY})
 endif()
 # ---- kernels (tempering / tabu / exact): end ----
+
+# ---- mpi: begin ----
+# Restarts over MPI ranks, run under mpirun (tests/mpi/). Off by default so the core's tests
+# need no MPI; the test preset turns it on and scripts/test.sh installs Open MPI.
+option(SPINWRIGHT_TEST_MPI "Build and run the MPI tests (needs an MPI library and mpirun)" OFF)
+if(SPINWRIGHT_TEST_MPI)
+  add_subdirectory(${CMAKE_CURRENT_SOURCE_DIR}/mpi ${CMAKE_CURRENT_BINARY_DIR}/mpi)
+endif()
+# ---- mpi: end ----
+
+# ---- kernels (quantum annealing): begin ----
+# Eigen is a test-only dependency of kernels_test_quantum_anneal: small transverse-field models
+# are checked against exact diagonalisation. Debian: apt-get install libeigen3-dev.
+if(TARGET kernels_test_quantum_anneal)
+  find_package(Eigen3 3.3 NO_MODULE QUIET)
+  if(NOT TARGET Eigen3::Eigen)
+    message(FATAL_ERROR
+      "Eigen not found (needed by tests/kernels/test_quantum_anneal.cpp): install libeigen3-dev "
+      "(apt-get install libeigen3-dev) or set Eigen3_DIR.")
+  endif()
+  get_target_property(SPINWRIGHT_EIGEN_INCLUDE Eigen3::Eigen INTERFACE_INCLUDE_DIRECTORIES)
+  target_include_directories(kernels_test_quantum_anneal SYSTEM PRIVATE ${SPINWRIGHT_EIGEN_INCLUDE})
+endif()
+# ---- kernels (quantum annealing): end ----

@@ -9,6 +9,15 @@
 //                       (capped at 256x; a cap hit counts at the cap)
 // Models: a 256-variable dense integer QUBO (invented random data, fixed seed) and a
 // 2,000-node sparse random 3-regular-like graph with integer weights (invented, fixed seed).
+//
+// BM_warm_gap/<edit permille>/<heat percent>/<sweeps>: when to re-solve from scratch. On the
+// sparse graph, 50 rounds of edits (each round re-draws that share of the pair coefficients),
+// each followed by a warm re-solve from the previous answer (warm_start from the held state +
+// step(sweeps) on warm_schedule(model, heat)). After rounds 1, 10 and 50 the warm answer is
+// compared with a fresh solve of the same model (anneal() from random spins, 4,000 sweeps):
+//   gap_r1, gap_r10, gap_r50  (warm energy - fresh energy) / |fresh energy|, percent, mean over
+//                             3 edit streams (positive: the warm answer is worse)
+//   warm_us                   median time of one warm re-solve
 #include <benchmark/benchmark.h>
 
 #include <spinwright/kernels/anneal.hpp>
@@ -124,8 +133,73 @@ void run(benchmark::State& st, Model model, std::uint64_t warm_sweeps) {
 void BM_warm_resolve_dense_qubo_256(benchmark::State& st) { run(st, dense_qubo(256), 10); }
 void BM_warm_resolve_sparse_2000(benchmark::State& st) { run(st, sparse_graph(2000), 20); }
 
+void BM_warm_gap(benchmark::State& st) {
+  const double share = static_cast<double>(st.range(0)) / 1000.0;
+  const double heat = static_cast<double>(st.range(1)) / 100.0;
+  const auto sweeps = static_cast<std::uint64_t>(st.range(2));
+  const int streams = 3;
+  double gap[3] = {0, 0, 0};
+  std::vector<double> warm_us;
+  for (auto _ : st) {
+    for (int stream = 0; stream < streams; ++stream) {
+      auto model = sparse_graph(2000);
+      using Model = decltype(model);
+      const auto pairs = pairs_of(model);
+      const std::size_t edits = std::max<std::size_t>(1, static_cast<std::size_t>(share * pairs.size()));
+      AnnealParams fresh;
+      fresh.sweeps = 4000;
+      AnnealParams warm;
+      warm.sweeps = sweeps;
+      warm.schedule = warm_schedule(model, heat);
+      const auto first = anneal(model, fresh, 100 + static_cast<std::uint64_t>(stream));
+      SpinState<Model> held(model);
+      held.set_spins(first.spins.data());
+      Annealer<Model> solver(model, warm, 1);
+      Xoshiro256 rng = Xoshiro256::for_restart(31, static_cast<std::uint64_t>(stream));
+      int slot = 0;
+      for (int r = 1; r <= 50; ++r) {
+        for (std::size_t e = 0; e < edits; ++e) {
+          const auto& p = pairs[rng.below(static_cast<std::uint32_t>(pairs.size()))];
+          const auto v = static_cast<typename Model::value_type>(static_cast<int>(rng.below(21)) - 10);
+          if (v == 0) continue;
+          (void)edit_pair(model, held, static_cast<typename Model::index_type>(p.first),
+                          static_cast<typename Model::index_type>(p.second), v);
+        }
+        const auto t0 = clock_type::now();
+        solver.warm_start(held, 7, static_cast<std::uint64_t>(r));
+        solver.step(sweeps);
+        warm_us.push_back(micros(clock_type::now() - t0));
+        held.set_spins(solver.best().spins);
+        if (r == 1 || r == 10 || r == 50) {
+          const auto f = anneal(model, fresh, 500 + static_cast<std::uint64_t>(r), static_cast<std::uint64_t>(stream));
+          const double fe = static_cast<double>(f.energy);
+          gap[slot++] += 100.0 * (static_cast<double>(held.energy()) - fe) / (fe < 0 ? -fe : fe) / streams;
+        }
+      }
+    }
+  }
+  std::sort(warm_us.begin(), warm_us.end());
+  st.counters["gap_r1"] = gap[0];
+  st.counters["gap_r10"] = gap[1];
+  st.counters["gap_r50"] = gap[2];
+  st.counters["warm_us"] = warm_us[warm_us.size() / 2];
+}
+
 }  // namespace
 
+BENCHMARK(BM_warm_gap)
+    ->Args({10, 10, 100})
+    ->Args({10, 30, 100})
+    ->Args({10, 60, 100})
+    ->Args({200, 10, 100})
+    ->Args({200, 30, 100})
+    ->Args({200, 60, 100})
+    ->Args({10, 100, 100})
+    ->Args({200, 100, 100})
+    ->Args({10, 60, 400})
+    ->Args({200, 60, 400})
+    ->Iterations(1)
+    ->Unit(benchmark::kMillisecond);
 BENCHMARK(BM_warm_resolve_dense_qubo_256)->Iterations(1)->Unit(benchmark::kMillisecond);
 BENCHMARK(BM_warm_resolve_sparse_2000)->Iterations(1)->Unit(benchmark::kMillisecond);
 BENCHMARK_MAIN();

@@ -3,6 +3,7 @@
 // assignment is preserved, offset included; the command checks this on a few assignments
 // before writing, and refuses when it does not hold to within rounding.
 #include "commands.hpp"
+#include "spread.hpp"
 #include "loaded_model.hpp"
 #include "text.hpp"
 
@@ -50,6 +51,7 @@ double largest_difference(const A& a, const B& b) {
 
 template <class Model>
 Failure write_model(const std::string& path, const std::string& out_format, const Model& model) {
+  if (!is_report_rank()) return {};  // spinwright-mpi: rank 0 writes the file
   spinwright::io::IoStatus st;
   if (out_format == "mtx") {
     st = spinwright::io::write_matrix_market(path, model);

@@ -55,7 +55,7 @@ std::string exact_report(const LoadedModel& m, const spinwright::ExactResult<dou
       j.member("cut", cut);
       j.member("total_weight", weight);
     }
-    j.member("ground_states", r.ground_count);
+    j.member("ground_states", r.ground_states);
     j.member("states_visited", r.states);
     j.member("used_flip_symmetry", r.used_flip_symmetry);
     j.key("spins").begin_array();
@@ -89,7 +89,7 @@ std::string exact_report(const LoadedModel& m, const spinwright::ExactResult<dou
   if (m.graph)
     t.line("maximum cut",
            energy_text(cut, m.energy_bound()) + " (total weight " + energy_text(weight, m.energy_bound()) + ")");
-  t.line("ground states", std::to_string(r.ground_count));
+  t.line("ground states", std::to_string(r.ground_states));
   if (r.levels.size() > 1) {
     for (std::size_t k = 1; k < r.levels.size(); ++k) {
       t.line("level " + std::to_string(k + 1),

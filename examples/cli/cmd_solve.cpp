@@ -5,6 +5,7 @@
 #include "loaded_model.hpp"
 #include "progress.hpp"
 #include "runner.hpp"
+#include "spread.hpp"
 #include "text.hpp"
 
 #include <spinwright/problems/max_cut.hpp>
@@ -20,7 +21,7 @@ namespace {
 const std::vector<OptionSpec>& solve_options() {
   static const std::vector<OptionSpec> specs = {
       {"format", "edges|mtx", "input format (default: detected from the content)"},
-      {"kernel", "NAME", "auto, anneal, temper, tabu, descent or exact (default auto)"},
+      {"kernel", "NAME", "auto, anneal, temper, tabu, descent, exact, sqa or population (default auto)"},
       {"time-limit", "SECONDS", "wall-clock limit for the whole run; auto without --sweeps fills it (default: none)"},
       {"sweeps", "N",
        "sweeps per restart (default: with auto, the rule's 4000 / 2000 / 1000 by size, see 'inspect'; "
@@ -66,7 +67,8 @@ Failure read_settings(const Args& args, SolveSettings& s) {
   if (const std::string* k = args.value("kernel")) {
     s.kernel_text = *k;
     if (!kernel_from_name(*k, s.kernel_auto, s.kernel)) {
-      return usage_failure("unknown kernel '" + *k + "'", "kernels are: auto, anneal, temper, tabu, descent, exact");
+      return usage_failure("unknown kernel '" + *k + "'",
+                           "kernels are: auto, anneal, temper, tabu, descent, exact, sqa, population");
     }
   }
   std::uint64_t v = 0;
@@ -114,6 +116,7 @@ std::string solve_json(const LoadedModel& m, const SolveSettings& s, const RunRe
   j.member("seed", s.run.seed);
   j.member("restarts", static_cast<std::uint64_t>(r.tally.restarts()));
   j.member("threads", r.threads);
+  j.member("ranks", static_cast<std::uint64_t>(job_ranks()));
   j.member("sweeps", r.tally.total_sweeps());
   j.member("seconds", r.seconds);
   j.member("interrupted", r.interrupted);
@@ -184,7 +187,9 @@ std::string solve_text(const LoadedModel& m, const SolveSettings& s, const RunRe
     t.line("threads", std::to_string(r.threads));
   } else {
     t.line("restarts", std::to_string(r.tally.restarts()) + " on " + std::to_string(r.threads) +
-                           (r.threads == 1 ? " thread" : " threads") + ", seed " + std::to_string(s.run.seed));
+                           (r.threads == 1 ? " thread" : " threads") +
+                           (job_ranks() > 1 ? " on each of " + std::to_string(job_ranks()) + " ranks" : "") +
+                           ", seed " + std::to_string(s.run.seed));
     t.line("sweeps", std::to_string(r.tally.total_sweeps()) + " in total");
   }
   t.line("time", seconds_text(r.seconds));
@@ -295,7 +300,7 @@ int run_solve(int argc, const char* const* argv) {
   // A kernel named on the command line with a time limit and no sweep count fills the limit:
   // annealing then follows the elapsed fraction of the limit along its schedule (ends cold).
   if (!s.kernel_auto && !args.has("sweeps") && s.run.time_limit < std::numeric_limits<double>::infinity() &&
-      s.run.kernel != Kernel::exact && s.run.kernel != Kernel::descent) {
+      (s.run.kernel == Kernel::anneal || s.run.kernel == Kernel::temper || s.run.kernel == Kernel::tabu)) {
     s.run.time_driven = true;
   }
   if (s.run.schedule.given() && s.run.kernel != Kernel::anneal && s.run.kernel != Kernel::temper) {

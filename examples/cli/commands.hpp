@@ -14,6 +14,9 @@ namespace spinwright_cli {
 
 struct ScheduleOptions;  // runner.hpp
 
+// The whole program: subcommand dispatch (main.cpp); main() of spinwright and of spinwright-mpi.
+int run_command_line(int argc, char** argv);
+
 int run_solve(int argc, const char* const* argv);
 int run_exact(int argc, const char* const* argv);
 int run_inspect(int argc, const char* const* argv);

@@ -2,6 +2,7 @@
 // the value type a model is held with: int32 or int64 for all-integer files (exact), double for
 // files with real values (see load_model in loaded_model.hpp).
 #include "loaded_model.hpp"
+#include "spread.hpp"
 
 #include <spinwright/io/model_file.hpp>
 #include <spinwright/io/state_file.hpp>
@@ -117,7 +118,9 @@ Failure load_raw_model(const std::string& path, const std::string& forced, spinw
   return {};
 }
 
-Failure load_model(const std::string& path, const std::string& forced, LoadedModel& out, const ValueChoice& values) {
+namespace {
+
+Failure read_model(const std::string& path, const std::string& forced, LoadedModel& out, const ValueChoice& values) {
   namespace io = spinwright::io;
   io::LoadedModel raw;
   Failure f = load_raw_model(path, forced, raw);
@@ -178,6 +181,17 @@ Failure load_model(const std::string& path, const std::string& forced, LoadedMod
   });
 }
 
+}  // namespace
+
+Failure load_model(const std::string& path, const std::string& forced, LoadedModel& out, const ValueChoice& values) {
+  Failure f = read_model(path, forced, out, values);
+  // Under spinwright-mpi every rank reads the file; all go on only if all could.
+  if (!job_agree(!f.failed()) && !f.failed()) {
+    return input_failure(path + ": another rank of the job could not read this file (its message is on that rank)");
+  }
+  return f;
+}
+
 Failure load_state(const std::string& path, std::size_t n, std::vector<std::int8_t>& spins) {
   auto read = spinwright::io::read_state(path, n);
   if (!read.ok()) return input_failure(io_message(read.status()));
@@ -186,6 +200,7 @@ Failure load_state(const std::string& path, std::size_t n, std::vector<std::int8
 }
 
 Failure save_state(const std::string& path, const std::vector<std::int8_t>& spins, bool as_bits) {
+  if (!is_report_rank()) return {};
   const auto st = spinwright::io::write_state(
       path, spins, as_bits ? spinwright::io::StateStyle::bits : spinwright::io::StateStyle::spins);
   if (!st.ok()) return input_failure(io_message(st));

@@ -3,6 +3,7 @@
 #include "args.hpp"
 #include "commands.hpp"
 #include "progress.hpp"
+#include "spread.hpp"
 #include "text.hpp"
 
 #include <spinwright/version.hpp>
@@ -31,8 +32,9 @@ const char* const overview =
 
 }  // namespace
 
-int main(int argc, char** argv) {
-  using namespace spinwright_cli;
+namespace spinwright_cli {
+
+int run_command_line(int argc, char** argv) {
   if (argc < 2) {
     print_failure(usage_failure("no command given", "run 'spinwright --help' for the list of commands"));
     return exit_usage;
@@ -61,3 +63,9 @@ int main(int argc, char** argv) {
       near.empty() ? "commands are: solve, exact, inspect, convert, verify, bench" : "did you mean '" + near + "'?"));
   return exit_usage;
 }
+
+}  // namespace spinwright_cli
+
+#if !SPINWRIGHT_CLI_MPI
+int main(int argc, char** argv) { return spinwright_cli::run_command_line(argc, argv); }
+#endif

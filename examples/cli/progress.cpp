@@ -1,6 +1,8 @@
 // spinwright command-line program — Ctrl-C handling and the progress line.
 #include "progress.hpp"
 
+#include "spread.hpp"
+
 #include <spinwright/control/steady_clock.hpp>
 
 #include <chrono>   // std::chrono::milliseconds
@@ -56,6 +58,10 @@ void install_interrupt_handler() {
   sigemptyset(&action.sa_mask);
   action.sa_flags = SA_RESETHAND;  // a second Ctrl-C ends the program at once
   sigaction(SIGINT, &action, nullptr);
+#if SPINWRIGHT_CLI_MPI
+  // mpirun passes a Ctrl-C on to the ranks as SIGTERM: the same graceful end.
+  sigaction(SIGTERM, &action, nullptr);
+#endif
 }
 
 void SharedBest::offer(double e) noexcept {

@@ -2,6 +2,8 @@
 // instantiated in runner_<type>.cpp, one translation unit per value type (runner_kernels.hpp).
 #include "runner.hpp"
 
+#include "spread.hpp"
+
 #include <spinwright/control/steady_clock.hpp>
 #include <spinwright/kernels/auto.hpp>
 
@@ -10,10 +12,22 @@
 
 namespace spinwright_cli {
 
+const char* kernel_name(Kernel k) {
+  switch (k) {
+    case Kernel::sqa:
+      return "sqa";
+    case Kernel::population:
+      return "population";
+    default:
+      return spinwright::to_string(static_cast<spinwright::KernelKind>(k));
+  }
+}
+
 bool kernel_from_name(const std::string& name, bool& is_auto, Kernel& out) {
   is_auto = name == "auto";
   if (is_auto) return true;
-  for (const Kernel k : {Kernel::anneal, Kernel::temper, Kernel::tabu, Kernel::descent, Kernel::exact}) {
+  for (const Kernel k : {Kernel::anneal, Kernel::temper, Kernel::tabu, Kernel::descent, Kernel::exact, Kernel::sqa,
+                         Kernel::population}) {
     if (name == kernel_name(k)) {
       out = k;
       return true;
@@ -27,14 +41,14 @@ std::size_t exact_limit() { return spinwright::exact_default_limit; }
 AutoPick auto_choice(const LoadedModel& m) {
   const spinwright::AutoChoice c = visit(m, [](const auto& model) { return spinwright::choose_kernel(model); });
   AutoPick pick;
-  pick.kernel = c.kernel;
+  pick.kernel = kernel_of(c.kernel);
   pick.sweeps = c.sweeps;
   pick.reason = c.reason;
   return pick;
 }
 
 Kernel auto_fill_choice(const LoadedModel& m) {
-  return visit(m, [](const auto& model) { return spinwright::auto_fill_kernel(model); });
+  return kernel_of(visit(m, [](const auto& model) { return spinwright::auto_fill_kernel(model); }));
 }
 
 std::uint64_t count_at(const spinwright::Tally<double>& tally, double energy, double scale) {
@@ -80,7 +94,7 @@ Failure run_kernel(const LoadedModel& m, const RunOptions& options, RunResult& o
       out.tally = spinwright::Tally<double>();
       out.tally.add(std::move(s));
       out.exact = true;
-      out.ground_count = r.ground_count;
+      out.ground_count = r.ground_states;
       out.threads = o.threads;
       if (o.progress != nullptr) o.progress->restarts_done.store(1);
     }

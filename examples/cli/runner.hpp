@@ -22,10 +22,20 @@
 
 namespace spinwright_cli {
 
-// The kernels are the library's own KernelKind (kernels/auto.hpp); names by spinwright::to_string.
-using Kernel = spinwright::KernelKind;
-
-inline const char* kernel_name(Kernel k) { return spinwright::to_string(k); }
+// The library's KernelKind (kernels/auto.hpp), with the same values, and after them the
+// kernels that the automatic choice never picks (quantum annealing, population annealing).
+enum class Kernel : std::uint8_t {
+  anneal = static_cast<std::uint8_t>(spinwright::KernelKind::anneal),
+  temper = static_cast<std::uint8_t>(spinwright::KernelKind::temper),
+  tabu = static_cast<std::uint8_t>(spinwright::KernelKind::tabu),
+  descent = static_cast<std::uint8_t>(spinwright::KernelKind::descent),
+  exact = static_cast<std::uint8_t>(spinwright::KernelKind::exact),
+  sqa = 64,
+  population,
+};
+inline Kernel kernel_of(spinwright::KernelKind k) { return static_cast<Kernel>(k); }
+// spinwright::to_string for the library's kinds.
+const char* kernel_name(Kernel k);
 // "auto" is resolved by choose_kernel; false for an unknown name.
 bool kernel_from_name(const std::string& name, bool& is_auto, Kernel& out);
 

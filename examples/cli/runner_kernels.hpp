@@ -5,6 +5,7 @@
 #define SPINWRIGHT_CLI_RUNNER_KERNELS_HPP
 
 #include "runner.hpp"
+#include "spread.hpp"
 
 #include <spinwright/control/steady_clock.hpp>
 #include <spinwright/kernels/anneal.hpp>
@@ -12,6 +13,8 @@
 #include <spinwright/kernels/beta_span.hpp>
 #include <spinwright/kernels/descent.hpp>
 #include <spinwright/kernels/exact.hpp>
+#include <spinwright/kernels/population.hpp>
+#include <spinwright/kernels/quantum_anneal.hpp>
 #include <spinwright/kernels/tabu.hpp>
 #include <spinwright/kernels/temper.hpp>
 #include <spinwright/parallel/exact_threads.hpp>
@@ -127,9 +130,10 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
   budget.stop = &interrupt_token();
   if (o.has_target) budget.with_target(o.target);
   if (o.time_limit < std::numeric_limits<double>::infinity()) {
-    // An equal share of the limit per restart (the restarts run `threads` at a time), and
-    // never more than what is left of the whole run.
-    const double waves = std::ceil(static_cast<double>(o.restarts) / static_cast<double>(o.threads));
+    // An equal share of the limit per restart (the restarts run `threads` at a time on each
+    // rank), and never more than what is left of the whole run.
+    const double waves = std::ceil(static_cast<double>(o.restarts) /
+                                   (static_cast<double>(o.threads) * static_cast<double>(job_ranks())));
     const double share = o.time_limit / (waves < 1 ? 1 : waves);
     const double left = o.time_limit - (spinwright::steady_seconds(nullptr) - run_start);
     budget.with_time_limit(std::max(0.0, std::min(share, left)), spinwright::steady_clock());
@@ -180,6 +184,18 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
         raw = spinwright::tabu_walk(model, p, o.seed, r, budget, observer);
         break;
       }
+      case Kernel::sqa: {
+        spinwright::QuantumAnnealParams p;
+        p.initial = warm;
+        raw = finish(model, spinwright::quantum_anneal(model, p, o.seed, r, budget, observer));
+        break;
+      }
+      case Kernel::population: {
+        spinwright::PopulationParams p;
+        p.initial = warm;
+        raw = finish(model, spinwright::population_anneal(model, p, o.seed, r, budget, observer));
+        break;
+      }
       case Kernel::exact:
         break;  // exact_on
     }
@@ -214,7 +230,7 @@ Failure run_restarts_on(const LoadedModel& m, const Model& model, const RunOptio
   out.beta_start = b0;
   out.beta_end = b1;
   std::atomic<std::uint64_t> cut_short{0};
-  out.tally = spinwright::run_restarts<double>(
+  out.tally = spread_restarts<double>(
       o.restarts, o.threads, [&](std::uint64_t r) { return one_restart(model, o, r, start, b0, b1, cut_short); });
   out.cut_short = cut_short.load();
   return {};
@@ -232,7 +248,7 @@ Failure exact_on(const LoadedModel& m, const Model& model, const spinwright::Exa
   out = spinwright::ExactResult<double>{};
   out.energy = static_cast<double>(r.energy);
   out.spins = std::move(r.spins);
-  out.ground_count = r.ground_count;
+  out.ground_states = r.ground_states;
   out.states = r.states;
   out.used_flip_symmetry = r.used_flip_symmetry;
   for (const auto& l : r.levels) out.levels.push_back({static_cast<double>(l.energy), l.count, l.first_index});

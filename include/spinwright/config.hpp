@@ -29,9 +29,21 @@
 #define SPINWRIGHT_HAS_RTTI 0
 #endif
 
-// A user may define SPINWRIGHT_ASSERT_HANDLER(file, line, message) to log before the abort.
+// A failed assertion calls SPINWRIGHT_ASSERT_HANDLER(file, line, message), then std::abort().
+// Without a handler of the user's, the default prints "file:line: spinwright assertion failed:
+// message" to stderr (<cstdio>); firmware defines its own handler (or SPINWRIGHT_ASSERTS=0) to
+// keep stdio out of the image.
 #if SPINWRIGHT_ASSERTS
-#if defined(SPINWRIGHT_ASSERT_HANDLER)
+#if !defined(SPINWRIGHT_ASSERT_HANDLER)
+#include <cstdio>  // std::fprintf, stderr (the default handler)
+namespace spinwright::detail {
+inline void print_assert_failure(const char* file, int line, const char* message) noexcept {
+  std::fprintf(stderr, "%s:%d: spinwright assertion failed: %s\n", file, line, message);
+  std::fflush(stderr);
+}
+}  // namespace spinwright::detail
+#define SPINWRIGHT_ASSERT_HANDLER(file, line, message) ::spinwright::detail::print_assert_failure(file, line, message)
+#endif
 #define SPINWRIGHT_ASSERT(cond, msg)                      \
   do {                                                    \
     if (!(cond)) {                                        \
@@ -39,12 +51,6 @@
       std::abort();                                       \
     }                                                     \
   } while (false)
-#else
-#define SPINWRIGHT_ASSERT(cond, msg) \
-  do {                               \
-    if (!(cond)) std::abort();       \
-  } while (false)
-#endif
 #else
 #define SPINWRIGHT_ASSERT(cond, msg) static_cast<void>(0)
 #endif

@@ -10,6 +10,8 @@
 #include "kernels/beta_span.hpp"
 #include "kernels/descent.hpp"
 #include "kernels/exact.hpp"
+#include "kernels/population.hpp"
+#include "kernels/quantum_anneal.hpp"
 #include "kernels/schedule.hpp"
 #include "kernels/solution.hpp"
 #include "kernels/tabu.hpp"

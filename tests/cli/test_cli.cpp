@@ -597,6 +597,46 @@ TEST_CASE("cli: verify, warm starts and state files") {
   check_input_error(w, nowhere + ":");
 }
 
+TEST_CASE("cli: bench over a set of instances gives one combined report") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  dir.write("c11.txt", cycle(11).edge_list());
+  dir.write("c8.txt", cycle(8).edge_list());
+  // Optima by hand: an odd cycle C_11 cuts 10 of 11 edges (E = 11 - 20 = -9), an even cycle
+  // C_8 cuts all 8 (E = 8 - 16 = -8). Paths in the list are relative to the list's folder.
+  const std::string list = dir.write("set.txt", "# a set\nc11.txt -9\n\nc8.txt   # no target: the best found\n");
+  const RunOutput r = run(dir, {"bench", "--list", list, "--restarts", "4", "--kernel", "tabu", "--sweeps", "40",
+                                "--threads", "1", "--report", "json"});
+  REQUIRE(r.code == 0);
+  const Json j = parse_ok(r);
+  REQUIRE(j["instances"].items.size() == 2);
+  const Json& a = j["instances"].items[0];
+  const Json& b = j["instances"].items[1];
+  CHECK(a["file"].text.find("c11.txt") != std::string::npos);
+  CHECK(a["target"].num == -9);
+  CHECK(a["target_given"].b);
+  CHECK(a["kernels"].items[0]["best"].num == -9);
+  CHECK(a["kernels"].items[0]["success_probability"].num == 1.0);
+  CHECK(b["target"].num == -8);
+  CHECK_FALSE(b["target_given"].b);
+  CHECK(b["nodes"].num == 8);
+  CHECK(j["ranks"].num == 1);
+  // The same set as FILE arguments, text report: every block, then the summary.
+  const RunOutput t = run(dir, {"bench", dir.file("c11.txt"), dir.file("c8.txt"), "--restarts", "2", "--kernel",
+                                "descent", "--threads", "1"});
+  REQUIRE(t.code == 0);
+  CHECK(t.out.find("summary of 2 instances") != std::string::npos);
+  CHECK(t.out.find("c8.txt") != std::string::npos);
+  // Misuse: one --target for several files, FILE and --list together, a bad list line.
+  check_usage_error(run(dir, {"bench", dir.file("c11.txt"), dir.file("c8.txt"), "--target", "-9"}));
+  check_usage_error(run(dir, {"bench", dir.file("c11.txt"), "--list", list}));
+  const std::string bad = dir.write("bad.txt", "c11.txt -9\nc8.txt minus-eight\n");
+  const RunOutput e = run(dir, {"bench", "--list", bad});
+  CHECK(e.code == 1);
+  CHECK(e.err.find("bad.txt:2") != std::string::npos);
+  CHECK(e.err.find("minus-eight") != std::string::npos);
+}
+
 TEST_CASE("cli: bench reports success probability, residual energy and TTS99 per kernel") {
   TempDir dir;
   REQUIRE(dir.ok());

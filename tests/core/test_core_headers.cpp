@@ -43,5 +43,5 @@ TEST_CASE("every kernel runs in this build mode") {
   pp.sweeps = 100;
   CHECK(temper(m, pp, 1).energy == -3);
   CHECK(solve_exact(m).value().energy == -3);
-  CHECK(solve_exact(m).value().ground_count == 10);  // 5 positions of the uncut edge, times the global flip
+  CHECK(solve_exact(m).value().ground_states == 10);  // 5 positions of the uncut edge, times the global flip
 }

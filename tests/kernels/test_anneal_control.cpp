@@ -89,8 +89,12 @@ TEST_CASE("budget: sweeps, deadline, stop token and target") {
     const Clock c{&TickClock::read, &clock};
     const auto s = anneal(model, p, 1, 0, Budget{}.with_time_limit(10.5, c));
     CHECK(s.reason == StopReason::deadline);
-    CHECK(s.sweeps == 10u);
+    // The limit counts from anneal()'s entry (read 1); advance() reads at its start (2) and
+    // before every sweep; each sweep "takes" one second, so the sweep begun at 9 ends at 10, and
+    // the one that would begin at 10 would end at 11 > 10.5: 8 sweeps (at 2, 3, ..., 9).
+    CHECK(s.sweeps == 8u);
     CHECK(s.seconds > 10.0);
+    CHECK(s.seconds <= 12.0);  // two reads after the last check: advance's end, the result
   }
   SUBCASE("a stop token set from an observer stops the run within one sweep") {
     StopToken token;
@@ -156,11 +160,33 @@ TEST_CASE("warm start: the best is never worse than the start, and cold annealin
   p.sweeps = 200;
   p.initial = ground.data();
   p.schedule = Schedule::constant(5.0);
-  const auto s = anneal(model, p, 3);
+  // The best includes the warm start, so it says nothing about the sweeps: the final state
+  // must be checked too. At beta = 5 every uphill flip from the aligned state costs 8 and is
+  // accepted with probability e^-40 < 1e-17 per attempt (Metropolis et al., J. Chem. Phys. 21,
+  // 1087 (1953)): over 200 x 256 attempts the state stays where it started.
+  Annealer<IsingModel<std::int32_t>> cold(model, p, 3);
+  const auto s = cold.run();
   CHECK(s.energy == -512);  // all aligned: 2 bonds per spin, each -1 (common practice)
+  CHECK(cold.state().energy() == -512);
+  for (std::size_t i = 0; i < 256; ++i) CHECK(cold.state().spins()[i] == -1);
+  // The default schedule starts hot (beta_start = ln 2 / hot_delta), melts the warm start and
+  // cools to beta_end = ln 1000 / cold_delta, where an uphill flip of 8 is accepted with
+  // probability 1e-12: the final state is a ground state or a stripe state (two straight walls
+  // winding the torus, E = -512 + 2 * 2 * 16 = -448; common practice for quenched tori). A
+  // kernel that does not cool ends near E = 0; one that never heats keeps -512 exactly (the
+  // energy after the first sweep shows the melt).
   p.schedule = Schedule{};
-  const auto t = anneal(model, p, 3);
-  CHECK(t.energy <= -512);
+  for (std::uint64_t seed = 3; seed < 7; ++seed) {
+    CAPTURE(seed);
+    Annealer<IsingModel<std::int32_t>> warm(model, p, seed);
+    warm.step(1);
+    const std::int64_t melted = warm.state().energy();
+    CHECK(melted > -400);  // after one hot sweep (beta_start = ln 2 / 8): far from aligned
+    const auto t = warm.run();
+    CHECK(t.energy <= -512);
+    CHECK(warm.state().energy() <= -448);
+    CHECK(warm.state().check().exact);
+  }
 }
 
 TEST_CASE("QUBO and dense models: annealing finds the exact ground state (enumeration)") {

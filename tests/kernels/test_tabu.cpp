@@ -208,3 +208,58 @@ TEST_CASE("bqp250 instances: tabu search reaches the proven optimum cut") {
     CHECK(cut_from_energy(w, s.energy) == ref);
   }
 }
+
+// Properties of the trajectory alone, without re-deriving each choice (a second path beside
+// the move-by-move check above). Tabu rule and aspiration as defined by F. Glover, ORSA J.
+// Comput. 1, 190 (1989): a spin flipped at move m is tabu for the next `tenure` moves, unless
+// flipping it gives an energy below the best found so far. So on the record of flips:
+//  * a spin flipped again within `tenure` moves of its last flip reached a new best then;
+//  * with 9 spins and tenure 8 one spin is free at a time, so the shortest gap of a plain re-flip is
+//    exactly tenure + 1: neither tenure (one too short) nor tenure + 2 (one too long);
+//  * on a random glass the search does use aspiration now and then.
+TEST_CASE("tabu trajectory: re-flips inside the tenure only at new bests, shortest plain gap tenure + 1") {
+  for (const std::uint32_t n : {9u, 24u}) {
+    CAPTURE(n);
+    Xoshiro256 rng(40 + n);
+    IsingBuilder<std::int32_t> b(n);
+    for (std::uint32_t i = 0; i < n; ++i) b.add_field(i, static_cast<int>(rng.below(11)) - 5);
+    for (std::uint32_t k = 0; k < 4 * n; ++k)
+      b.add_coupling(rng.below(n), rng.below(n), static_cast<int>(rng.below(21)) - 10);
+    const auto q = b.build().value();
+    const std::size_t tenure = 8;
+    TabuParams p;
+    p.tenure = tenure;
+    p.tenure_spread = 0;
+    p.stagnation = 1000000;  // one cycle: no perturbation resets the list
+    TabuWalker<IsingModel<std::int32_t>> t(q, p, 5);
+    REQUIRE(t.tenure() == tenure);
+    std::vector<std::uint64_t> last(n, 0);  // 1 + move of the last flip
+    std::int64_t best = t.state().energy();
+    std::uint64_t shortest_plain = ~std::uint64_t{0};
+    int inside = 0;
+    for (std::uint64_t m = 0; m < 4000; ++m) {
+      std::vector<std::int8_t> before(t.state().spins(), t.state().spins() + n);
+      t.step_moves(1);
+      std::uint32_t flipped = n;
+      for (std::uint32_t i = 0; i < n; ++i) {
+        if (t.state().spin(i) != before[i]) flipped = i;
+      }
+      REQUIRE(flipped < n);
+      const std::int64_t e = t.state().energy();
+      const bool new_best = e < best;
+      if (last[flipped] != 0) {
+        const std::uint64_t gap = m + 1 - last[flipped];
+        if (gap <= tenure) {
+          CHECK(new_best);
+          ++inside;
+        } else if (gap < shortest_plain) {
+          shortest_plain = gap;
+        }
+      }
+      last[flipped] = m + 1;
+      if (new_best) best = e;
+    }
+    CHECK(shortest_plain == tenure + 1);
+    if (n == 24) CHECK(inside > 0);
+  }
+}

@@ -11,6 +11,7 @@
 #include <vector>
 
 #include "support/anneal_graph.hpp"
+#include "support/enumerate.hpp"
 #include "support/temper_graph.hpp"
 
 using namespace spinwright;
@@ -60,9 +61,12 @@ TEST_CASE_TEMPLATE("4x4 ferromagnet: every model type reaches E = -32", Model, I
   CHECK(static_cast<double>(s.energy) == -32.0);
   CHECK(static_cast<double>(model.energy(s.spins.data())) == -32.0);
   REQUIRE(s.swap_acceptance.size() == s.betas.size() - 1);
+  // One attempt per pair after every sweep (header comment); each rate is a count over them.
+  CHECK(s.swap_attempts == 300);
   for (double a : s.swap_acceptance) {
-    CHECK(a >= 0.0);
-    CHECK(a <= 1.0);
+    const double accepted = a * static_cast<double>(s.swap_attempts);
+    CHECK(accepted == doctest::Approx(std::round(accepted)).epsilon(1e-9));
+    CHECK(accepted >= 1);  // geometric ladder on 16 spins: every pair swaps now and then
   }
   for (std::size_t k = 0; k + 1 < s.betas.size(); ++k) CHECK(s.betas[k] < s.betas[k + 1]);
 }
@@ -223,9 +227,12 @@ TEST_CASE("Houdayer cluster moves on a 2D +-J glass") {
   CHECK(s.cluster_moves > 0);
   CHECK(s.cluster_sites >= s.cluster_moves);
   CHECK(s.energy == exact->energy);
+  // Both replica sets attempt every pair after every sweep, pooled (TemperSolution comment).
+  CHECK(s.swap_attempts % 2 == 0);
   for (double a : s.swap_acceptance) {
-    CHECK(a >= 0.0);
-    CHECK(a <= 1.0);
+    const double accepted = a * static_cast<double>(s.swap_attempts);
+    CHECK(accepted == doctest::Approx(std::round(accepted)).epsilon(1e-9));
+    CHECK(accepted >= 1);
   }
 }
 
@@ -316,5 +323,169 @@ TEST_CASE("bqp250 instances: tempering reaches the proven optimum cut") {
         temper(m, p, 2026, 0, Budget{}.with_sweeps(5000).with_target(static_cast<double>(energy_from_cut(w, ref))));
     CHECK(cut_value(m, s.spins.data()) == ref);
     CHECK(cut_from_energy(w, s.energy) == ref);
+  }
+}
+
+namespace {
+
+// A 12-spin glass with double couplings and fields: fields break the global flip symmetry that
+// hides a frozen spin on the zero-field ferromagnet, and non-integer energies take the uniform
+// sweep (no hazard path). Couplings on a ring plus random chords, all drawn with a fixed seed.
+IsingModel<double> double_glass_12() {
+  IsingBuilder<double> b(12);
+  Xoshiro256 rng(1212);
+  for (std::uint32_t i = 0; i < 12; ++i) {
+    b.add_coupling(i, (i + 1) % 12, 2 * rng.uniform() - 1);
+    b.add_field(i, 1.5 * (2 * rng.uniform() - 1));
+  }
+  for (int k = 0; k < 18; ++k) {
+    const std::uint32_t i = rng.below(12), j = rng.below(12);
+    if (i != j) b.add_coupling(i, j, 2 * rng.uniform() - 1);
+  }
+  return b.build().value();
+}
+
+// Exact equilibrium swap acceptance of the pair (beta_a, beta_b): E over independent
+// E_a ~ P_beta_a, E_b ~ P_beta_b of min(1, exp((beta_a - beta_b)(E_a - E_b))) (the replica-exchange
+// rule of Hukushima & Nemoto, J. Phys. Soc. Jpn. 65, 1604 (1996)), from all 2^n states.
+template <class Model>
+double exact_swap_acceptance(const Model& model, double beta_a, double beta_b) {
+  const std::size_t n = model.num_spins();
+  std::vector<double> e(std::size_t{1} << n);
+  std::vector<std::int8_t> s(n);
+  double ground = 0;
+  for (std::uint64_t code = 0; code < e.size(); ++code) {
+    for (std::size_t k = 0; k < n; ++k) s[k] = ((code >> k) & 1) ? -1 : 1;
+    e[code] = static_cast<double>(model.energy(s.data()));
+    if (code == 0 || e[code] < ground) ground = e[code];
+  }
+  // Distinct levels with their weights at each beta (the integer torus has few levels).
+  std::vector<double> levels;
+  std::vector<double> count;
+  for (double x : e) {
+    std::size_t j = 0;
+    while (j < levels.size() && levels[j] != x) ++j;
+    if (j == levels.size()) {
+      levels.push_back(x);
+      count.push_back(0);
+    }
+    count[j] += 1;
+  }
+  std::vector<double> pa(levels.size()), pb(levels.size());
+  double za = 0, zb = 0;
+  for (std::size_t j = 0; j < levels.size(); ++j) {
+    pa[j] = count[j] * std::exp(-beta_a * (levels[j] - ground));
+    pb[j] = count[j] * std::exp(-beta_b * (levels[j] - ground));
+    za += pa[j];
+    zb += pb[j];
+  }
+  double acc = 0;
+  for (std::size_t i = 0; i < levels.size(); ++i) {
+    for (std::size_t j = 0; j < levels.size(); ++j) {
+      const double x = (beta_a - beta_b) * (levels[i] - levels[j]);
+      acc += pa[i] / za * pb[j] / zb * (x >= 0 ? 1.0 : std::exp(x));
+    }
+  }
+  return acc;
+}
+
+}  // namespace
+
+// Every rung of a model with fields samples its Boltzmann distribution. Reference: the exact
+// mean energy from enumerating all 2^12 states through model.energy (Boltzmann average,
+// common practice; an enumeration independent of the tempering kernel). The ground energy of
+// the same enumeration is checked against solve_exact's (a second, separate enumeration).
+// A sweep that never visits one site, or swaps with the wrong sign, moves the rung means by
+// many standard errors. Tolerance 4 standard errors from 100 bins; both site orders.
+TEST_CASE("12-spin glass with fields: every rung reproduces the exact mean energy") {
+  const auto model = double_glass_12();
+  const double betas[] = {0.3, 0.6, 1.2, 2.5};
+  const auto exact = solve_exact(model);
+  REQUIRE(exact.ok());
+  double ground = 0;
+  test_support::for_each_assignment(12, [&](const std::int8_t* s) {
+    const double e = model.energy(s);
+    ground = e < ground ? e : ground;
+  });
+  CHECK(exact->energy == doctest::Approx(ground).epsilon(1e-12));
+  for (const SiteOrder order : {SiteOrder::random, SiteOrder::sequential}) {
+    CAPTURE(static_cast<int>(order));
+    TemperParams p;
+    p.ladder.shape = LadderShape::listed;
+    p.ladder.temperatures = 4;
+    p.ladder.betas = betas;
+    p.order = order;
+    Tempering<IsingModel<double>> t(model, p, 29);
+    t.step(500);
+    const std::size_t bins = 100, per = 400;
+    std::vector<std::vector<double>> bin_means(4, std::vector<double>(bins, 0.0));
+    for (std::size_t b = 0; b < bins; ++b) {
+      for (std::size_t k = 0; k < per; ++k) {
+        t.step(1);
+        for (std::size_t r = 0; r < 4; ++r) bin_means[r][b] += t.state(r).energy() / per;
+      }
+    }
+    double previous = 0;
+    for (std::size_t r = 0; r < 4; ++r) {
+      CAPTURE(r);
+      double mean = 0, var = 0;
+      for (double m : bin_means[r]) mean += m / bins;
+      for (double m : bin_means[r]) var += (m - mean) * (m - mean) / (bins - 1);
+      const double error = std::sqrt(var / bins);
+      const double want = anneal_support::exact_mean_energy(model, betas[r]);
+      CAPTURE(mean);
+      CAPTURE(want);
+      CAPTURE(error);
+      CHECK(std::abs(mean - want) <= 4 * error);
+      // d<E>/d beta = -Var(E) < 0 (common practice): colder rungs sit lower, by more than
+      // the noise (the exact means of neighbouring rungs differ by far more than 8 errors).
+      if (r > 0) CHECK(mean < previous);
+      previous = mean;
+    }
+  }
+}
+
+// Swap acceptance of a two-rung ladder against the exact equilibrium value (exact_swap_acceptance
+// above, from all 2^16 states of the 4x4 ferromagnetic torus). Independent runs give the
+// standard error; tolerance 4 standard errors. A swap with the wrong sign, or counters that
+// count the wrong event, move the rate far outside.
+TEST_CASE("two rungs: the swap acceptance equals the exact equilibrium value") {
+  const auto model = anneal_support::square_lattice<std::int32_t>(4, -1);
+  const double betas[] = {0.3, 0.4};
+  const double want = exact_swap_acceptance(model, betas[0], betas[1]);
+  CAPTURE(want);
+  REQUIRE(want > 0.2);
+  REQUIRE(want < 0.95);
+  const int runs = 24;
+  double mean = 0, sq = 0;
+  for (int r = 0; r < runs; ++r) {
+    TemperParams p;
+    p.ladder.shape = LadderShape::listed;
+    p.ladder.temperatures = 2;
+    p.ladder.betas = betas;
+    p.sweeps = 3000;
+    const auto s = temper(model, p, 77, static_cast<std::uint64_t>(r));
+    REQUIRE(s.swap_acceptance.size() == 1);
+    CHECK(s.swap_attempts == 3000);  // one attempt per pair after every sweep (header comment)
+    mean += s.swap_acceptance[0] / runs;
+    sq += s.swap_acceptance[0] * s.swap_acceptance[0] / runs;
+  }
+  const double error = std::sqrt((sq - mean * mean) * runs / (runs - 1) / runs);
+  CAPTURE(mean);
+  CAPTURE(error);
+  CHECK(std::abs(mean - want) <= 4 * error);
+}
+
+// The best state on the same glass is the exact ground state (solve_exact), at a fixed budget
+// and the default ladder (a wrong swap sign is caught by the rung means and the two-rung rate).
+TEST_CASE("12-spin glass with fields: tempering finds the exact ground state") {
+  const auto model = double_glass_12();
+  const auto exact = solve_exact(model);
+  REQUIRE(exact.ok());
+  for (std::uint64_t seed = 1; seed <= 5; ++seed) {
+    TemperParams p;
+    p.sweeps = 200;
+    const auto s = temper(model, p, seed);
+    CHECK(s.energy == doctest::Approx(exact->energy).epsilon(1e-12));
   }
 }

@@ -6,6 +6,7 @@
 #include <cstdint>
 #include <limits>
 #include <map>
+#include <string>
 #include <utility>
 #include <vector>
 
@@ -106,7 +107,8 @@ TEST_CASE("Builders refuse indices beyond the index type or the declared size") 
   REQUIRE_FALSE(m.ok());
   CHECK(m.status().code == StatusCode::index_out_of_range);
   CHECK(m.status().term == 0);
-  CHECK(m.status().i == 65535);
+  CHECK(m.status().i == 1);  // the caller's (i, j) order, whichever index is refused
+  CHECK(m.status().j == 65535);
 
   IsingBuilder<std::int32_t> fixed(10);
   fixed.add_field(9, 1).add_field(10, 1);
@@ -117,6 +119,123 @@ TEST_CASE("Builders refuse indices beyond the index type or the declared size") 
 
   IsingBuilder<std::int32_t, std::uint16_t> too_big(70000);
   CHECK(too_big.build().status().code == StatusCode::index_out_of_range);
+}
+
+TEST_CASE("Errors keep the caller's (i, j) order and say \"negative\" for negative indices") {
+  IsingBuilder<std::int32_t> fixed(5);
+  fixed.add_coupling(3, 10, 1);  // j is the refused one
+  auto a = fixed.build();
+  REQUIRE_FALSE(a.ok());
+  CHECK(a.status().i == 3);
+  CHECK(a.status().j == 10);
+  IsingBuilder<std::int32_t> first(5);
+  first.add_coupling(10, 3, 1);  // i is the refused one
+  CHECK(first.build().status().i == 10);
+  CHECK(first.build().status().j == 3);
+
+  IsingBuilder<std::int32_t> neg;
+  neg.add_coupling(0, 1, 1).add_coupling(2, -1, 1);
+  auto n = neg.build();
+  REQUIRE_FALSE(n.ok());
+  CHECK(n.status().code == StatusCode::index_out_of_range);
+  CHECK(n.status().term == 1);
+  CHECK(std::string(n.status().message).find("negative") != std::string::npos);
+  CHECK(n.status().i == 2);
+  QuboBuilder<double> qneg;
+  qneg.add_unary(static_cast<std::int64_t>(-3), 1.0);
+  CHECK(std::string(qneg.build().status().message).find("negative") != std::string::npos);
+  // A large unsigned index is "too large", not "negative".
+  IsingBuilder<std::int32_t> big;
+  big.add_field(std::uint64_t{1} << 40, 1);
+  CHECK(std::string(big.build().status().message).find("negative") == std::string::npos);
+}
+
+TEST_CASE("Integer builders refuse a coefficient that does not convert exactly, never truncating it") {
+  SUBCASE("a fraction into int32") {
+    IsingBuilder<std::int32_t> b;
+    b.add_coupling(0, 1, 2.7);
+    auto m = b.build();
+    REQUIRE_FALSE(m.ok());
+    CHECK(m.status().code == StatusCode::value_out_of_range);
+    CHECK(std::string(m.status().message).find("fractional") != std::string::npos);
+    CHECK(m.status().term == 0);
+    CHECK(m.status().i == 0);
+    CHECK(m.status().j == 1);
+  }
+  SUBCASE("an int64 5e9 into int32") {
+    IsingBuilder<std::int32_t> b;
+    b.add_field(0, std::int64_t{5000000000});
+    CHECK(b.build().status().code == StatusCode::value_out_of_range);
+    QuboBuilder<std::int32_t> q;
+    q.add_pair(0, 1, std::uint64_t{1} << 31);  // 2^31: one beyond INT32_MAX
+    CHECK(q.build().status().code == StatusCode::value_out_of_range);
+    QuboBuilder<std::int32_t> edge;
+    edge.add_pair(0, 1, std::int64_t{2147483647}).add_unary(0, std::int64_t{-2147483647} - 1);
+    auto e = edge.build();
+    REQUIRE(e.ok());  // the extremes themselves convert exactly
+    CHECK(e->pair(0, 1) == 2147483647);
+  }
+  SUBCASE("doubles beyond the range, non-finite, and whole doubles") {
+    IsingBuilder<std::int32_t> b;
+    b.add_coupling(0, 1, 2147483648.0);
+    CHECK(b.build().status().code == StatusCode::value_out_of_range);
+    IsingBuilder<std::int64_t> w;
+    w.add_field(0, 9.3e18);  // beyond INT64_MAX (about 9.22e18)
+    CHECK(w.build().status().code == StatusCode::value_out_of_range);
+    IsingBuilder<std::int32_t> f;
+    f.add_field(0, std::numeric_limits<double>::quiet_NaN());
+    CHECK(f.build().status().code == StatusCode::non_finite_value);
+    IsingBuilder<std::int32_t> whole;
+    whole.add_coupling(0, 1, 3.0).add_field(1, -2.0f).add_offset(5.0);
+    auto m = whole.build();
+    REQUIRE(m.ok());
+    CHECK(m->coupling(0, 1) == 3);
+    CHECK(m->field(1) == -2);
+    CHECK(m->offset() == 5);
+  }
+  SUBCASE("a fractional offset into an integer builder") {
+    QuboBuilder<std::int64_t> q;
+    q.add_unary(0, 1).add_offset(0.5);
+    auto m = q.build();
+    REQUIRE_FALSE(m.ok());
+    CHECK(m.status().code == StatusCode::value_out_of_range);
+    CHECK(m.status().term == 1);
+  }
+  SUBCASE("floating builders round to nearest, and refuse beyond float's range") {
+    IsingBuilder<float> b;
+    b.add_coupling(0, 1, 0.1);
+    auto m = b.build();
+    REQUIRE(m.ok());
+    CHECK(m->coupling(0, 1) == 0.1f);
+    IsingBuilder<float> over;
+    over.add_field(0, 1e300);
+    CHECK(over.build().status().code == StatusCode::value_out_of_range);
+  }
+}
+
+TEST_CASE("One spin limit for builders and views: uint16_t addresses 65535 spins") {
+  IsingBuilder<std::int32_t, std::uint16_t> at_limit(65535);
+  at_limit.add_coupling(0, 65534, 1);
+  auto m = at_limit.build();
+  REQUIRE(m.ok());
+  CHECK(m->num_spins() == 65535);
+  // A view over the same arrays is accepted too (it used to refuse 65535).
+  std::vector<std::int32_t> linear(65535, 0);
+  std::vector<std::size_t> rows(65536, 0);
+  for (std::size_t i = 1; i <= 65535; ++i) rows[i] = 1;
+  rows[65535] = 2;  // row 0 holds 65534, row 65534 holds 0
+  const std::uint16_t nbr[2] = {65534, 0};
+  const std::int32_t val[2] = {1, 1};
+  auto v = IsingModelView<std::int32_t, std::uint16_t>::over(65535, linear.data(), rows.data(), nbr, val);
+  REQUIRE(v.ok());
+  CHECK(v->energy(std::vector<std::int8_t>(65535, 1).data()) == m->energy(std::vector<std::int8_t>(65535, 1).data()));
+  // One more spin is refused by both.
+  IsingBuilder<std::int32_t, std::uint16_t> beyond(65536);
+  CHECK(beyond.build().status().code == StatusCode::index_out_of_range);
+  linear.push_back(0);
+  rows.push_back(2);
+  CHECK(IsingModelView<std::int32_t, std::uint16_t>::over(65536, linear.data(), rows.data(), nbr, val).status().code ==
+        StatusCode::index_out_of_range);
 }
 
 TEST_CASE("Merged coefficients that leave the value type are refused") {

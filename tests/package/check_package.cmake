@@ -20,7 +20,7 @@ endfunction()
 set(prefix ${WORK_DIR}/prefix)
 # A plain user configure of the source tree: the library and the CLI, no tests, no examples.
 run(${CMAKE_COMMAND} -S ${SOURCE_DIR} -B ${WORK_DIR}/lib -DCMAKE_CXX_COMPILER=${CXX}
-    -DSPINWRIGHT_BUILD_TESTS=OFF -DSPINWRIGHT_BUILD_EXAMPLES=OFF -DSPINWRIGHT_BUILD_CLI=ON
+    -DSPINWRIGHT_BUILD_TESTS=OFF -DSPINWRIGHT_BUILD_EXAMPLES=OFF -DSPINWRIGHT_BUILD_CLI=ON -DSPINWRIGHT_BUILD_MPI_CLI=OFF
     -DCMAKE_INSTALL_PREFIX=${prefix})
 run(${CMAKE_COMMAND} --build ${WORK_DIR}/lib -j 2)
 run(${CMAKE_COMMAND} --install ${WORK_DIR}/lib)

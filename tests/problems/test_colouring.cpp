@@ -94,7 +94,7 @@ TEST_CASE("colouring: K_4 needs 4 colours (16 bits enumerated)") {
   REQUIRE(e4.ok());
   CHECK(e3->energy == 1);  // one conflict (or one vertex left uncoloured) is unavoidable
   CHECK(e4->energy == 0);
-  CHECK(e4->ground_count == 24);  // 4! proper colourings of K_4
+  CHECK(e4->ground_states == 24);  // 4! proper colourings of K_4
   CHECK(p4->check(p4->decode(e4->spins.data())).valid);
   CHECK(p4->check(p4->decode(e4->spins.data())).colours_used == 4);
 }

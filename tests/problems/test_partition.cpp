@@ -31,7 +31,7 @@ TEST_CASE("partition: {4,5,6,7,8} is perfect, 2 ground states ({4,5,6} | {7,8})"
   auto ex = solve_exact(p->model());
   REQUIRE(ex.ok());
   CHECK(ex->energy == 0);
-  CHECK(ex->ground_count == 2);
+  CHECK(ex->ground_states == 2);
   auto g = problems_test::ground_states(p->model());
   REQUIRE(g.states.size() == 2);
   for (const auto& s : g.states) {
@@ -73,7 +73,7 @@ TEST_CASE("partition: {3,1,1,2,2,1} has 10 perfect ground states") {
   auto ex = solve_exact(p->model());
   REQUIRE(ex.ok());
   CHECK(ex->energy == 0);
-  CHECK(ex->ground_count == 10);
+  CHECK(ex->ground_states == 10);
   for (const auto& s : problems_test::ground_states(p->model()).states)
     CHECK(p->check(p->decode(s.data())).difference == 0);
 }

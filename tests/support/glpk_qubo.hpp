@@ -22,32 +22,51 @@ struct GlpkAnswer {
   std::vector<std::uint8_t> bits;
 };
 
-template <class QuboModel>
-GlpkAnswer glpk_qubo_minimum(const QuboModel& q) {
-  using index_type = typename QuboModel::index_type;
-  using value_type = typename QuboModel::value_type;
-  const int n = static_cast<int>(q.num_spins());
-  struct Pair {
+// A QUBO as the raw terms a caller wrote, before any builder saw them: pairs in either order,
+// repeated pairs, and (i, i) pairs (x_i x_i = x_i) all kept as given. The reference reads this,
+// never a library-built model, so a builder that merges terms wrongly cannot agree with it.
+struct RawQubo {
+  struct Term {
     int i;
     int j;
     double v;
   };
-  std::vector<Pair> pairs;
-  for (int i = 0; i < n; ++i) {
-    q.for_each_neighbour(static_cast<index_type>(i), [&](index_type j, value_type v) {
-      if (static_cast<int>(j) > i && v != value_type{0})
-        pairs.push_back({i, static_cast<int>(j), static_cast<double>(v)});
-    });
+  int n = 0;
+  double offset = 0;
+  std::vector<Term> unary;  // j unused
+  std::vector<Term> pairs;
+
+  // offset + sum unary v x_i + sum pairs v x_i x_j, term by term (common practice).
+  double energy(const std::vector<std::uint8_t>& x) const {
+    double e = offset;
+    for (const auto& t : unary) e += t.v * x[static_cast<std::size_t>(t.i)];
+    for (const auto& t : pairs) e += t.v * x[static_cast<std::size_t>(t.i)] * x[static_cast<std::size_t>(t.j)];
+    return e;
+  }
+};
+
+inline GlpkAnswer glpk_qubo_minimum(const RawQubo& q) {
+  const int n = q.n;
+  using Pair = RawQubo::Term;
+  std::vector<double> linear(static_cast<std::size_t>(n), 0.0);
+  for (const auto& t : q.unary) linear[static_cast<std::size_t>(t.i)] += t.v;
+  std::vector<Pair> pairs;  // one product variable per raw term (repeats linearise separately)
+  for (const auto& t : q.pairs) {
+    if (t.i == t.j) {
+      linear[static_cast<std::size_t>(t.i)] += t.v;
+    } else {
+      pairs.push_back(t);
+    }
   }
   glp_term_out(GLP_OFF);
   glp_prob* lp = glp_create_prob();
   glp_set_obj_dir(lp, GLP_MIN);
-  glp_set_obj_coef(lp, 0, static_cast<double>(q.offset()));
+  glp_set_obj_coef(lp, 0, q.offset);
   const int cols = n + static_cast<int>(pairs.size());
   if (cols > 0) glp_add_cols(lp, cols);
   for (int i = 0; i < n; ++i) {
     glp_set_col_kind(lp, i + 1, GLP_BV);
-    glp_set_obj_coef(lp, i + 1, static_cast<double>(q.site_term(static_cast<index_type>(i))));
+    glp_set_obj_coef(lp, i + 1, linear[static_cast<std::size_t>(i)]);
   }
   std::vector<int> ia{0};
   std::vector<int> ja{0};

@@ -1,21 +1,8 @@
 // spinwright — Matrix Market coordinate files (the NIST exchange format) holding an Ising or a
-// QUBO model:
-//
-//   %%MatrixMarket matrix coordinate real|integer general|symmetric
-//   % spinwright form ising|qubo          (optional; QUBO when absent)
-//   % spinwright offset <value>           (optional; 0 when absent)
-//   N N K                                 (square; K stored entries)
-//   i j v                                 (K lines, 1-based)
-//
-// The file denotes a square matrix M; entries at the same position are summed, and in
-// symmetric storage an off-diagonal entry stands for both M_ij and M_ji. The model is
-//   QUBO:  E(x) = c + x^T M x    so Q_ii = M_ii and Q_ij = M_ij + M_ji (i < j);
-//   Ising: E(s) = c + sum_i M_ii s_i + sum_{i != j} M_ij s_i s_j,  so h_i = M_ii and
-//          J_ij = M_ij + M_ji (the diagonal holds fields, since s_i s_i = 1).
-// An upper-triangle general file therefore lists the coefficients themselves; a symmetric
-// file's off-diagonal entries count twice. The writer emits general storage, upper triangle.
-// Refused variants: array, complex, pattern, hermitian, skew-symmetric, non-square, vector.
-// See docs/file-formats.md.
+// QUBO model: the `% spinwright form` / `% spinwright offset` directives, how a stored matrix
+// M becomes the model (entries summed; symmetric storage counts off-diagonals twice; the
+// Ising diagonal holds fields), the variants refused and the writer's layout are in
+// docs/file-formats.md.
 #ifndef SPINWRIGHT_IO_MATRIX_MARKET_HPP
 #define SPINWRIGHT_IO_MATRIX_MARKET_HPP
 

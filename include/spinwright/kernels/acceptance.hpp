@@ -63,6 +63,51 @@ std::uint64_t max_flip_delta(const Model& model) {
   return Model::form == Form::ising ? 2 * best : best;
 }
 
+// Floating models whose coefficients are all integers (a max-cut graph read as double, say):
+// their local fields and flip deltas are exact integers as long as every sum stays below
+// 2^53, so the integer threshold table decides them exactly. True when every coefficient is
+// an integer of magnitude below 2^31 and the largest |delta| below 2^50; `shift` and
+// `max_delta` are then the integer model's (delta_shift, max_flip_delta).
+template <class Model>
+bool integral_float_model(const Model& model, unsigned& shift, std::uint64_t& max_delta) {
+  using index_type = typename Model::index_type;
+  using value_type = typename Model::value_type;
+  constexpr double value_limit = 2147483648.0;  // 2^31
+  constexpr std::uint64_t delta_limit = std::uint64_t{1} << 50;
+  bool ok = true;
+  std::uint64_t bits = 0;
+  std::uint64_t best = 0;
+  auto magnitude = [&ok](double v) -> std::uint64_t {
+    const double a = v < 0 ? -v : v;
+    if (!(a < value_limit) || a != static_cast<double>(static_cast<std::int64_t>(a))) {
+      ok = false;
+      return 0;
+    }
+    return static_cast<std::uint64_t>(a);
+  };
+  for (std::size_t i = 0; i < model.num_spins() && ok; ++i) {
+    const auto ii = static_cast<index_type>(i);
+    std::uint64_t row = magnitude(static_cast<double>(model.site_term(ii)));
+    bits |= row;
+    model.for_each_neighbour(ii, [&](index_type, value_type v) {
+      const std::uint64_t m = magnitude(static_cast<double>(v));
+      bits |= m;
+      add_bounded(row, m, delta_limit);
+    });
+    if (row > best) best = row;
+  }
+  if (!ok || bits == 0) return false;
+  best = Model::form == Form::ising ? 2 * best : best;
+  if (best >= delta_limit) return false;
+  shift = Model::form == Form::ising ? 1 : 0;
+  while ((bits & 1) == 0) {
+    bits >>= 1;
+    ++shift;
+  }
+  max_delta = best;
+  return true;
+}
+
 }  // namespace detail
 
 // 53 ln 2: beyond this |beta * delta| no 53-bit uniform can change an acceptance decision.
@@ -91,7 +136,9 @@ class Acceptor {
       : rule_(rule),
         shift_(shift),
         table_(table_entries(shift, max_delta, table_limit), 0),
-        hazard_(hazard_entries(rule, hazard, table_.size()), 0) {}
+        hazard_(hazard_entries(rule, hazard, table_.size()), 0) {
+    table_mode_ = integer || table_.size() != 0;
+  }
 #endif
 
   // The same with the table carved from an arena; check valid().
@@ -100,7 +147,9 @@ class Acceptor {
       : rule_(rule),
         shift_(shift),
         table_(table_entries(shift, max_delta, table_limit), arena, 0),
-        hazard_(hazard_entries(rule, hazard, table_.size()), arena, 0) {}
+        hazard_(hazard_entries(rule, hazard, table_.size()), arena, 0) {
+    table_mode_ = integer || table_.size() != 0;
+  }
 
   // Arena bytes of the tables.
   static std::size_t bytes_needed(Acceptance rule, unsigned shift, std::uint64_t max_delta, std::size_t table_limit,
@@ -111,8 +160,8 @@ class Acceptor {
 
   // Entries of the threshold table (0 for floating models).
   static std::size_t table_entries(unsigned shift, std::uint64_t max_delta, std::size_t table_limit) noexcept {
-    if constexpr (!integer) {
-      return 0;
+    if (!integer && max_delta == 0) {
+      return 0;  // floating model with non-integer coefficients: no table
     } else {
       std::uint64_t entries = (max_delta >> shift) + 1;
       if (entries > table_limit) entries = table_limit;
@@ -138,9 +187,22 @@ class Acceptor {
         shift_ = shift;
         set_beta(beta_);
       }
+    } else if (table_.size() != 0) {
+      // A floating model built with integer coefficients: edits may have left them.
+      unsigned shift = 0;
+      std::uint64_t max_delta = 0;
+      const bool integral = detail::integral_float_model(model, shift, max_delta);
+      if (integral != table_mode_ || shift != shift_) {
+        table_mode_ = integral;
+        shift_ = shift;
+        set_beta(beta_);
+      }
     }
   }
 
+  // True when the threshold table decides (integer models, and floating models whose
+  // coefficients are all integers: detail::integral_float_model).
+  bool table_decides() const noexcept { return table_mode_; }
   Acceptance rule() const noexcept { return rule_; }
   double beta() const noexcept { return beta_; }
   std::size_t table_size() const noexcept { return table_.size(); }
@@ -151,7 +213,7 @@ class Acceptor {
     SPINWRIGHT_ASSERT(beta >= 0 && beta - beta == 0, "beta must be finite and >= 0");
     beta_ = beta;
     hazard_ready_ = false;
-    if constexpr (integer) {
+    if (table_mode_) {
       const double step = static_cast<double>(std::uint64_t{1} << shift_);
       const double p = std::exp(-beta * step);  // acceptance ratio of one table step
       const std::size_t size = table_.size();
@@ -182,6 +244,18 @@ class Acceptor {
 
     bool accept(Energy delta, Xoshiro256& rng) const noexcept {
       if constexpr (integer) {
+        return accept_table(delta, rng);
+      } else {
+        // Integer coefficients held as floating values: the delta is an exact integer.
+        if (table != nullptr) return accept_table(static_cast<std::int64_t>(delta), rng);
+        return accept_by_log<Rule>(beta, static_cast<double>(delta), rng);
+      }
+    }
+
+   private:
+    template <class Int>
+    bool accept_table(Int delta, Xoshiro256& rng) const noexcept {
+      {
         if constexpr (Rule == Acceptance::metropolis) {
           if (delta <= 0) return true;
           const auto k = static_cast<std::uint64_t>(delta) >> shift;
@@ -200,12 +274,9 @@ class Acceptor {
           if (!overflow) return delta < 0;
           return accept_rare<Rule>(beta, static_cast<double>(delta), rng);
         }
-      } else {
-        return accept_by_log<Rule>(beta, static_cast<double>(delta), rng);
       }
     }
 
-   private:
     // The integer table's rare fall-back works on a copy of the generator, so a kernel's own
     // generator never has its address taken by an out-of-line call and stays in registers
     // (taking it would put the whole stream through memory at every draw of the hot loop).
@@ -220,7 +291,7 @@ class Acceptor {
 
   template <Acceptance Rule>
   Fixed<Rule> fixed() const noexcept {
-    return {table_.data(), used_, shift_, overflow_, beta_};
+    return {table_mode_ ? table_.data() : nullptr, used_, shift_, overflow_, beta_};
   }
 
   // The hazard path (integer models; see the header comment). A copy for one sweep, valid
@@ -399,6 +470,7 @@ class Acceptor {
   std::size_t used_ = 0;                  // entries [0, used_) are non-zero
   bool overflow_ = false;                 // the table was too short for this beta
   bool hazard_ready_ = false;             // hazard_ matches beta_
+  bool table_mode_ = integer;             // the table decides (integer models; floating ones with integer coefficients)
 };
 
 #if !SPINWRIGHT_NO_HEAP
@@ -412,7 +484,13 @@ Acceptor<typename Model::energy_type> make_acceptor(
   if constexpr (std::is_integral_v<energy_type>) {
     return Acceptor<energy_type>(rule, detail::delta_shift(model), detail::max_flip_delta(model), table_limit, hazard);
   } else {
-    return Acceptor<energy_type>(rule, 0, 0, table_limit);
+    unsigned shift = 0;
+    std::uint64_t max_delta = 0;
+    if (!detail::integral_float_model(model, shift, max_delta)) {
+      shift = 0;
+      max_delta = 0;
+    }
+    return Acceptor<energy_type>(rule, shift, max_delta, table_limit);
   }
 }
 #endif
@@ -426,7 +504,13 @@ Acceptor<typename Model::energy_type> make_acceptor(const Model& model, Acceptan
     return Acceptor<energy_type>(rule, detail::delta_shift(model), detail::max_flip_delta(model), table_limit, arena,
                                  hazard);
   } else {
-    return Acceptor<energy_type>(rule, 0, 0, table_limit, arena);
+    unsigned shift = 0;
+    std::uint64_t max_delta = 0;
+    if (!detail::integral_float_model(model, shift, max_delta)) {
+      shift = 0;
+      max_delta = 0;
+    }
+    return Acceptor<energy_type>(rule, shift, max_delta, table_limit, arena);
   }
 }
 
@@ -438,7 +522,10 @@ std::size_t acceptor_bytes(const Model& model, Acceptance rule, std::size_t tabl
     return Acceptor<energy_type>::bytes_needed(rule, detail::delta_shift(model), detail::max_flip_delta(model),
                                                table_limit, hazard);
   } else {
-    return 0;
+    unsigned shift = 0;
+    std::uint64_t max_delta = 0;
+    if (!detail::integral_float_model(model, shift, max_delta)) return 0;
+    return Acceptor<energy_type>::bytes_needed(rule, shift, max_delta, table_limit);
   }
 }
 

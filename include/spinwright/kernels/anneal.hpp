@@ -143,6 +143,17 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
     start_from_state();
   }
 
+  /// Restart from a caller's state over the same model, exact for the model as it is now (a
+  /// SpinState kept through edit_site_term / edit_pair): spins, local fields and energy are
+  /// copied in O(N) instead of recomputed from the model. The acceptance tables still re-read
+  /// the coefficients' common power of two (one pass over the values). No allocation.
+  void warm_start(const state_type& from, std::uint64_t seed, std::uint64_t restart = 0) {
+    rng_ = Xoshiro256::for_restart(seed, restart);
+    restart_ = restart;
+    state_.assign(from);
+    start_from_state();
+  }
+
   BestView<energy_type> best() const noexcept {
     return {best_spins_.data(), best_spins_.size(), best_energy_, best_sweep_};
   }
@@ -200,7 +211,7 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
     schedule_sweeps_ = params_.sweeps;
     schedule_ = params_.schedule;
     if (schedule_.automatic()) {
-      range_ = estimate_beta_span(*model_);
+      range_ = sample_beta_span(*model_);
       schedule_.beta_start = range_.beta_start;
       schedule_.beta_end = range_.beta_end;
     } else {
@@ -363,21 +374,81 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
   double time_fraction_ = 0;  // elapsed fraction of advance()'s time limit (0 untimed)
 };
 
+/// Refuses parameters a kernel cannot run with: a schedule end that is negative or not finite
+/// (Schedule::check), hazard_below negative or not finite. The
+/// one-call functions assert it; call it first where the parameters come from outside.
+inline Status check_params(const AnnealParams& params) noexcept {
+  const Status s = params.schedule.check();
+  if (!s) return s;
+  if (!(params.hazard_below >= 0) || params.hazard_below - params.hazard_below != 0) {
+    return Status::error(StatusCode::invalid_argument, "hazard_below must be finite and >= 0");
+  }
+  return Status::success();
+}
+
+/// The schedule of a warm re-solve: geometric, ending at the span's cold end and starting
+/// `heat` of the way (in log beta) from there back towards its hot end. heat = 1 is the whole
+/// automatic range (a re-solve from scratch), heat = 0 stays at the cold end (descent-like
+/// sampling). Guidance on choosing it, and on when to re-solve from scratch instead, measured
+/// in docs/embedding.md ("Warm re-solve"). heat is clamped to [0, 1].
+inline Schedule warm_schedule(const BetaSpan& span, double heat) noexcept {
+  if (!(heat > 0)) heat = 0;
+  if (heat > 1) heat = 1;
+  const double cold = span.beta_end;
+  const double hot = span.beta_start > 0 ? span.beta_start : cold;
+  return Schedule::geometric(cold * std::pow(hot / cold, heat), cold);
+}
+/// The same over the beta span estimated from the model (one pass over it).
+template <class Model>
+Schedule warm_schedule(const Model& model, double heat) {
+  return warm_schedule(estimate_beta_span(model), heat);
+}
+
 #if !SPINWRIGHT_NO_HEAP
-/// One restart of annealing with the default single-flip move.
+namespace detail {
+// advance() and the result of a one-call anneal, with the budget stamped at the call's entry
+// (see Budget::start): the workspace, the sweeps and the result all count against a time
+// limit. Integer models report the tracked best energy (exact); floating ones recompute it.
+template <class Model, class Move, class Observer>
+Solution<typename Model::energy_type> anneal_call(Annealer<Model, Move>& a, std::uint64_t restart, const Budget& budget,
+                                                  Observer& observer) {
+  double seconds = 0;
+  const StopReason why = a.advance(budget, observer, &seconds);
+  const auto best = a.best();
+  Solution<typename Model::energy_type> s;
+  s.spins.assign(best.spins, best.spins + best.size);
+  if constexpr (std::is_integral_v<typename Model::energy_type>) {
+    s.energy = best.energy;
+  } else {
+    s.energy = a.best_energy_exact();
+  }
+  s.sweeps = a.sweeps_done();
+  s.attempted = a.attempted();
+  s.accepted = a.accepted();
+  s.restart = restart;
+  s.reason = why;
+  s.seconds = call_seconds(budget, seconds);
+  return s;
+}
+}  // namespace detail
+
+/// One restart of annealing with the default single-flip move. A time limit bounds the whole
+/// call: building the workspace and the result count against it (Budget::start).
 template <class Model>
 Solution<typename Model::energy_type> anneal(const Model& model, const AnnealParams& params, std::uint64_t seed,
                                              std::uint64_t restart = 0, const Budget& budget = Budget{}) {
-  Annealer<Model> a(model, params, seed, restart);
-  return a.run(budget);
+  NoObserver none;
+  return anneal(model, params, seed, restart, budget, none);
 }
 
 /// The same with an observer (on_improvement / on_progress, see control/control.hpp).
 template <class Model, class Observer>
 Solution<typename Model::energy_type> anneal(const Model& model, const AnnealParams& params, std::uint64_t seed,
                                              std::uint64_t restart, const Budget& budget, Observer& observer) {
+  const Budget call = budget.stamped();
+  SPINWRIGHT_ASSERT(check_params(params).ok(), "anneal: invalid parameters (check_params(params) says which)");
   Annealer<Model> a(model, params, seed, restart);
-  return a.run(budget, observer);
+  return detail::anneal_call(a, restart, call, observer);
 }
 
 /// One restart with a user move generator.
@@ -385,8 +456,11 @@ template <class Model, class Move>
 Solution<typename Model::energy_type> anneal_with(const Model& model, const AnnealParams& params, Move move,
                                                   std::uint64_t seed, std::uint64_t restart = 0,
                                                   const Budget& budget = Budget{}) {
+  const Budget call = budget.stamped();
+  SPINWRIGHT_ASSERT(check_params(params).ok(), "anneal_with: invalid parameters (check_params(params) says which)");
   Annealer<Model, Move> a(model, params, std::move(move), seed, restart);
-  return a.run(budget);
+  NoObserver none;
+  return detail::anneal_call(a, restart, call, none);
 }
 
 #endif  // !SPINWRIGHT_NO_HEAP

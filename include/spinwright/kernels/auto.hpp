@@ -29,12 +29,16 @@
 //         fits in auto_fill_margin (90 %) of the remaining time at that rate; when the run after
 //         it could not grow again, it takes all that fits. The sequence ends when fewer than
 //         auto_fill_first_sweeps sweeps fit, or at the deadline (a run the deadline cuts short
-//         is polished by first-improvement descent). Run k >= 1 draws its spins and moves from
+//         also ends cold, its schedule following the elapsed time, and is polished by
+//         first-improvement descent within what is left). Run k >= 1 draws its spins and moves from
 //         (auto_fill_seed(seed, k), restart); run 0 from (seed, restart). The best state over all
 //         runs is returned; `sweeps`, `attempted` and `accepted` add up every run and descent.
 //       - dense models (tabu search): one run with no sweep limit, stopped by the deadline (tabu
 //         keeps its best and restarts itself from it by perturbation).
 //       - exact enumeration: unchanged (its size limit bounds its time).
+//     The limit bounds the whole call: it counts from solve_auto's entry (Budget::start), so
+//     building the kernels, every descent and the result count against it; descents end at the
+//     deadline too, and no sweep is begun that would end past it (kernels/detail/drive.hpp).
 //     Why (measured on the G-set, docs/quality.md): sequential order runs about twice the sweeps
 //     per second of random order, and longer schedules beat more restarts; on the toroidal +-1
 //     grids tempering with cluster moves beats annealing by about 0.4 % of the cut, while on
@@ -46,8 +50,8 @@
 // in the time-filling mode, the sequence of clock readings.
 //
 // Allocation: the time-filling mode constructs one Annealer and one Descender (or one Tempering,
-// or one TabuWalker) and reuses them for every run (plus one more Descender for a run the
-// deadline cuts short); nothing is allocated per sweep or per run.
+// or one TabuWalker) and reuses them for every run (a descent warm-starts from the annealer's
+// state without a rescan when that state is its best); nothing is allocated per sweep or per run.
 #ifndef SPINWRIGHT_KERNELS_AUTO_HPP
 #define SPINWRIGHT_KERNELS_AUTO_HPP
 
@@ -60,12 +64,14 @@
 #include "tabu.hpp"
 #include "temper.hpp"
 
-#include <cstddef>  // std::size_t
-#include <cstdint>  // std::int8_t, std::uint64_t, std::uint8_t
-#include <cstring>  // std::memcpy
-#include <limits>   // std::numeric_limits
-#include <utility>  // std::move
-#include <vector>   // std::vector (the returned Solution's spins)
+#include <cstddef>      // std::size_t
+#include <cstdint>      // std::int8_t, std::uint64_t, std::uint8_t
+#include <cstring>      // std::memcpy
+#include <limits>       // std::numeric_limits
+#include <optional>     // std::optional (the descender, built when there is time for it)
+#include <type_traits>  // std::is_integral_v
+#include <utility>      // std::move
+#include <vector>       // std::vector (the returned Solution's spins)
 
 namespace spinwright {
 
@@ -174,27 +180,35 @@ inline bool auto_fills_time(const Budget& budget) noexcept {
 
 namespace detail {
 
-// Time-filling annealing (see the rule at the top of this header).
+// Time-filling annealing (see the rule at the top of this header). `budget` has its start
+// stamped (solve_auto's entry): everything below counts against its limit.
 template <class Model>
 Solution<typename Model::energy_type> auto_fill_anneal(const Model& model, std::uint64_t seed, std::uint64_t restart,
                                                        const Budget& budget, std::uint64_t growth = auto_fill_growth,
                                                        SiteOrder order = SiteOrder::sequential,
                                                        Acceptance acceptance = Acceptance::metropolis) {
   using energy_type = typename Model::energy_type;
-  const Clock clock = budget.clock;
-  const double t0 = clock.read();
+  const Budget whole = budget.stamped();
+  const Clock clock = whole.clock;
+  const double t0 = whole.start;
   const std::uint64_t first = auto_fill_first_sweeps;
   AnnealParams params;
   params.sweeps = first;
   params.order = order;
   params.acceptance = acceptance;
   Annealer<Model> annealer(model, params, seed, restart);
+  // The descender (about half the annealer's building time) is built now when the time left
+  // exceeds what the annealer took to build, else there is no descent.
   DescentParams descent_params;
   descent_params.rule = DescentRule::steepest;
   descent_params.initial = annealer.best().spins;
-  Descender<Model> descender(model, descent_params, seed, restart);
-  Budget descent_budget;
-  descent_budget.stop = budget.stop;
+  std::optional<Descender<Model>> descender;
+  const double built = clock.read() - t0;
+  if (!whole.timed() || whole.remaining() > built) descender.emplace(model, descent_params, seed, restart);
+  // Descents run to a local minimum within what is left of the whole budget (its deadline,
+  // stop token and target), so the closing polish never outlasts the limit.
+  Budget descent_budget = whole;
+  descent_budget.sweeps = 0;
 
   const std::size_t n = model.num_spins();
   Solution<energy_type> out;
@@ -218,46 +232,43 @@ Solution<typename Model::energy_type> auto_fill_anneal(const Model& model, std::
   };
   for (std::uint64_t k = 0;; ++k) {
     if (k > 0) annealer.reset(auto_fill_seed(seed, k), restart);
-    Budget run = budget;
+    Budget run = whole;
     run.sweeps = length;
-    run.seconds = budget.seconds - (clock.read() - t0);
     const StopReason r = annealer.advance(run, none);
     anneal_sweeps += annealer.sweeps_done();
     out.sweeps += annealer.sweeps_done();
     out.attempted += annealer.attempted();
     out.accepted += annealer.accepted();
-    const std::int8_t* spins = annealer.best().spins;
-    energy_type energy = annealer.best_energy_exact();
-    if (r == StopReason::deadline) {
-      // A schedule cut short may end far from a local minimum: the cheaper first-improvement
-      // descent (this happens once at most: the deadline ends the sequence).
-      descent_params.rule = DescentRule::first_improvement;
-      descent_params.initial = spins;
-      Descender<Model> quick(model, descent_params, seed, restart);
-      quick.advance(descent_budget, none);
-      keep(quick);
-    } else if (r != StopReason::stopped) {
-      // A finished schedule ends cold: steepest descent takes a few moves.
-      descender.warm_start(spins, seed, restart);
-      descender.advance(descent_budget, none);
-      keep(descender);
-    } else if (!have || energy < out.energy) {
-      std::memcpy(out.spins.data(), spins, n);
-      out.energy = energy;
+    const auto best = annealer.best();
+    if (r != StopReason::stopped && descender && whole.remaining() > 0) {
+      // A finished schedule ends cold, and so does one the deadline cut (its position follows
+      // the elapsed time): steepest descent takes a few moves; first improvement when cut
+      // (cheaper per move; this happens once at most: the deadline ends the sequence).
+      descender->set_rule(r == StopReason::deadline ? DescentRule::first_improvement : DescentRule::steepest);
+      if (annealer.state().energy() == best.energy) {
+        descender->warm_start(annealer.state(), seed, restart);  // the current state is the best: no rescan
+      } else {
+        descender->warm_start(best.spins, seed, restart);
+      }
+      descender->advance(descent_budget, none);
+      keep(*descender);
+    } else if (!have || best.energy < out.energy) {
+      std::memcpy(out.spins.data(), best.spins, n);
+      out.energy = best.energy;
       have = true;
     }
-    if (budget.has_target && static_cast<double>(out.energy) <= budget.target) {
+    if (whole.has_target && static_cast<double>(out.energy) <= whole.target) {
       why = StopReason::target_reached;
       break;
     }
-    if (r == StopReason::stopped || (budget.stop != nullptr && budget.stop->stop_requested())) {
+    if (r == StopReason::stopped || (whole.stop != nullptr && whole.stop->stop_requested())) {
       why = StopReason::stopped;
       break;
     }
     if (r == StopReason::deadline) break;
     // The next length: `growth` times the last, capped by what fits in the margin of the time left.
     const double elapsed = clock.read() - t0;
-    const double left = budget.seconds - elapsed;
+    const double left = whole.seconds - elapsed;
     if (!(left > 0)) break;
     const double per_sweep = anneal_sweeps > 0 ? elapsed / static_cast<double>(anneal_sweeps) : 0.0;
     const double cap = static_cast<double>(std::uint64_t{1} << 62);
@@ -269,7 +280,8 @@ Solution<typename Model::energy_type> auto_fill_anneal(const Model& model, std::
     if (fits - next < growth * next) next = fits;
     length = next;
   }
-  out.energy = model.energy(out.spins.data());
+  // Integer models track energies exactly; floating ones recompute from the model (no drift).
+  if constexpr (!std::is_integral_v<energy_type>) out.energy = model.energy(out.spins.data());
   out.seconds = clock.read() - t0;
   out.reason = why;
   return out;
@@ -287,11 +299,13 @@ Solution<typename Model::energy_type> auto_fill_temper(const Model& model, std::
   if (params.ladder.beta_max < params.ladder.beta_min) params.ladder.beta_max = params.ladder.beta_min;
   params.houdayer = true;
   params.order = SiteOrder::sequential;
-  Budget run = budget;
+  Budget run = budget.stamped();
   run.sweeps = std::numeric_limits<std::uint64_t>::max();
   Solution<energy_type> s = static_cast<Solution<energy_type>>(temper(model, params, seed, restart, run));
   if (s.reason == StopReason::stopped) return s;
-  return polish(model, s, DescentRule::steepest);
+  Budget rest = run;  // the polish within what is left of the limit
+  rest.sweeps = 0;
+  return polish(model, s, DescentRule::steepest, rest);
 }
 
 }  // namespace detail
@@ -300,8 +314,9 @@ Solution<typename Model::energy_type> auto_fill_temper(const Model& model, std::
 // the time-filling mode, on the clock readings). See the two modes at the top of this header.
 template <class Model>
 Solution<typename Model::energy_type> solve_auto(const Model& model, std::uint64_t seed, std::uint64_t restart = 0,
-                                                 const Budget& budget = Budget{}) {
+                                                 const Budget& given = Budget{}) {
   using energy_type = typename Model::energy_type;
+  const Budget budget = given.stamped();  // a time limit bounds the whole call (Budget::start)
   const AutoChoice choice = choose_kernel(model);
   const bool fill = auto_fills_time(budget);
   switch (choice.kernel) {
@@ -337,8 +352,11 @@ Solution<typename Model::energy_type> solve_auto(const Model& model, std::uint64
       params.sweeps = choice.sweeps;
       Solution<energy_type> annealed = anneal(model, params, seed, restart, budget);
       if (annealed.reason == StopReason::stopped || annealed.reason == StopReason::deadline) return annealed;
-      // polish() adds its own counters to the annealer's and keeps its stop reason.
-      return polish(model, annealed, DescentRule::steepest);
+      // polish() adds its own counters to the annealer's and keeps its stop reason; it ends
+      // at the deadline of a timed budget.
+      Budget rest = budget;
+      rest.sweeps = 0;
+      return polish(model, annealed, DescentRule::steepest, rest);
     }
   }
 }

@@ -106,6 +106,15 @@ class Descender : public detail::Drive<Descender<Model, Move>> {
     start();
   }
 
+  /// Restart from a caller's state over the same model, exact for the model as it is now (a
+  /// SpinState kept through edit_site_term / edit_pair): spins, local fields and energy are
+  /// copied in O(N) instead of recomputed from the model. No allocation.
+  void warm_start(const state_type& from, std::uint64_t /*seed*/, std::uint64_t restart = 0) {
+    state_.assign(from);
+    restart_ = restart;
+    start();
+  }
+
   /// Up to `passes` passes over the neighbourhood; returns the improving moves made.
   /// Stops early at a local minimum (done() is then true). No allocation.
   std::uint64_t step(std::uint64_t passes = 1) {
@@ -113,6 +122,9 @@ class Descender : public detail::Drive<Descender<Model, Move>> {
     for (std::uint64_t p = 0; p < passes && !done_; ++p) moves += pass();
     return moves;
   }
+
+  /// The rule of the next passes (steepest or first improvement). No allocation.
+  void set_rule(DescentRule rule) noexcept { rule_ = rule; }
 
   /// True once a whole neighbourhood has been seen without an improving move.
   bool done() const noexcept { return done_; }
@@ -242,30 +254,63 @@ class Descender : public detail::Drive<Descender<Model, Move>> {
 };
 
 #if !SPINWRIGHT_NO_HEAP
-/// Descent from random spins (seed, restart) or params.initial, to a local minimum.
+namespace detail {
+// advance() and the Solution of a one-call descent. Integer models report the tracked energy
+// (exact: no pass over the model after the deadline); floating ones recompute it.
+template <class Model, class Move>
+Solution<typename Model::energy_type> descent_call(Descender<Model, Move>& d, std::uint64_t restart,
+                                                   const Budget& budget) {
+  double seconds = 0;
+  const StopReason why = d.advance(budget, &seconds);
+  Solution<typename Model::energy_type> s;
+  s.spins.assign(d.state().spins(), d.state().spins() + d.state().size());
+  if constexpr (std::is_integral_v<typename Model::energy_type>) {
+    s.energy = d.energy();
+  } else {
+    s.energy = d.state().model().energy(d.state().spins());
+  }
+  s.sweeps = d.passes();
+  s.attempted = d.attempted();
+  s.accepted = d.accepted();
+  s.restart = restart;
+  s.reason = why;
+  s.seconds = call_seconds(budget, seconds);
+  return s;
+}
+}  // namespace detail
+
+/// Descent from random spins (seed, restart) or params.initial, to a local minimum. A time
+/// limit bounds the whole call (the workspace and the result count against it).
 template <class Model>
 Solution<typename Model::energy_type> descend(const Model& model, const DescentParams& params, std::uint64_t seed,
                                               std::uint64_t restart = 0, const Budget& budget = Budget{}) {
+  const Budget call = budget.stamped();
   Descender<Model> d(model, params, seed, restart);
-  return d.run(budget);
+  return detail::descent_call(d, restart, call);
 }
 
 /// Single-flip descent from another kernel's Solution: never raises the energy. The counters
-/// (sweeps, attempted, accepted, seconds) of the descent are added to the input's.
+/// (sweeps, attempted, accepted) of the descent are added to the input's, and so are its
+/// seconds unless the budget has a start (then `seconds` counts from it: the whole call of a
+/// caller that stamped it). The budget bounds the descent (a deadline or stop token ends it
+/// early, still never above the input; its reason is then reported); otherwise the input's
+/// stop reason is kept.
 template <class Model>
 Solution<typename Model::energy_type> polish(const Model& model, const Solution<typename Model::energy_type>& from,
-                                             DescentRule rule = DescentRule::first_improvement) {
+                                             DescentRule rule = DescentRule::first_improvement,
+                                             const Budget& budget = Budget{}) {
   SPINWRIGHT_ASSERT(from.spins.size() == model.num_spins(), "the solution belongs to another model");
   DescentParams params;
   params.rule = rule;
   params.initial = from.spins.data();
   Descender<Model> d(model, params, 0, from.restart);
-  Solution<typename Model::energy_type> s = d.run();
+  Solution<typename Model::energy_type> s = detail::descent_call(d, from.restart, budget);
   s.sweeps += from.sweeps;
   s.attempted += from.attempted;
   s.accepted += from.accepted;
-  s.seconds += from.seconds;
-  s.reason = from.reason;
+  if (!budget.has_start) s.seconds += from.seconds;
+  const bool cut = !d.done() && (s.reason == StopReason::deadline || s.reason == StopReason::stopped);
+  if (!cut && s.reason != StopReason::target_reached) s.reason = from.reason;
   return s;
 }
 

@@ -82,7 +82,7 @@ template <class Energy>
 struct ExactResult {
   Energy energy{};                         // ground energy (recomputed from the model for the reported state)
   std::vector<std::int8_t> spins;          // the ground state with the lowest canonical index
-  std::uint64_t ground_count = 0;          // number of ground-state assignments
+  std::uint64_t ground_states = 0;         // number of ground-state assignments
   std::vector<ExactLevel<Energy>> levels;  // the lowest distinct levels, increasing energy
   std::uint64_t states = 0;                // assignments visited (2^N, or 2^(N-1) with the symmetry)
   bool used_flip_symmetry = false;
@@ -252,7 +252,7 @@ ExactResult<typename Model::energy_type> exact_finish(const Model& model, const 
   for (auto& l : r.levels) l.count *= factor;
   r.used_flip_symmetry = plan.symmetric;
   r.states = plan.chunks << plan.low_bits;
-  r.ground_count = r.levels.front().count;
+  r.ground_states = r.levels.front().count;
   r.spins.resize(plan.n);
   for (std::size_t k = 0; k < plan.n; ++k) r.spins[k] = ((r.levels.front().first_index >> k) & 1) ? -1 : 1;
   r.energy = model.energy(r.spins.data());

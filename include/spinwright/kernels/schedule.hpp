@@ -5,6 +5,7 @@
 #define SPINWRIGHT_KERNELS_SCHEDULE_HPP
 
 #include "../config.hpp"
+#include "../status.hpp"
 
 #include <cmath>    // std::pow
 #include <cstdint>  // std::uint8_t
@@ -20,7 +21,7 @@ enum class ScheduleShape : std::uint8_t {
 };
 
 // A schedule. With beta_start and beta_end both 0 (the default) the kernel derives the range
-// from the model (estimate_beta_span). A callable is called once per sweep, never per
+// from the model (the annealer: sample_beta_span). A callable is called once per sweep, never per
 // attempt; it and its context must outlive the kernel that uses the schedule.
 struct Schedule {
   ScheduleShape shape = ScheduleShape::geometric;
@@ -52,6 +53,22 @@ struct Schedule {
   // True when the kernel must fill in beta_start / beta_end from the model.
   constexpr bool automatic() const noexcept {
     return shape != ScheduleShape::callable && beta_start == 0 && beta_end == 0;
+  }
+
+  /// Refuses an end that is not finite (non_finite_value) or negative (invalid_argument); a
+  /// callable's values are checked by the acceptance at every sweep instead (an assertion).
+  Status check() const noexcept {
+    const bool finite = beta_start - beta_start == 0 && beta_end - beta_end == 0;
+    if (!finite)
+      return Status::error(StatusCode::non_finite_value, "schedule: beta_start or beta_end is NaN or infinite");
+    if (shape != ScheduleShape::callable && (beta_start < 0 || beta_end < 0)) {
+      return Status::error(StatusCode::invalid_argument,
+                           "schedule: an inverse temperature is negative (beta_start and beta_end must be >= 0)");
+    }
+    if (shape == ScheduleShape::callable && function == nullptr) {
+      return Status::error(StatusCode::invalid_argument, "schedule: a callable schedule without a function");
+    }
+    return Status::success();
   }
 
   double beta_at(double fraction) const noexcept {

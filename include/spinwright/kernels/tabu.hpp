@@ -141,6 +141,16 @@ class TabuWalker : public detail::Drive<TabuWalker<Model>> {
     start();
   }
 
+  /// Restart from a caller's state over the same model, exact for the model as it is now (a
+  /// SpinState kept through edit_site_term / edit_pair): spins, local fields and energy are
+  /// copied in O(N) instead of recomputed from the model. No allocation.
+  void warm_start(const state_type& from, std::uint64_t seed, std::uint64_t restart = 0) {
+    rng_ = Xoshiro256::for_restart(seed, restart);
+    restart_ = restart;
+    state_.assign(from);
+    start();
+  }
+
   /// n single moves (a sweep is N of them); the sweep counter is not advanced. No allocation.
   void step_moves(std::uint64_t n_moves) {
     for (std::uint64_t k = 0; k < n_moves && n_ > 0; ++k) move_once();
@@ -409,20 +419,23 @@ class TabuWalker : public detail::Drive<TabuWalker<Model>> {
 };
 
 #if !SPINWRIGHT_NO_HEAP
-/// One tabu walk (restart `restart` of `seed`).
+/// One tabu walk (restart `restart` of `seed`). A time limit bounds the whole call.
 template <class Model>
 Solution<typename Model::energy_type> tabu_walk(const Model& model, const TabuParams& params, std::uint64_t seed,
                                                 std::uint64_t restart = 0, const Budget& budget = Budget{}) {
-  TabuWalker<Model> t(model, params, seed, restart);
-  return t.run(budget);
+  NoObserver none;
+  return tabu_walk(model, params, seed, restart, budget, none);
 }
 
 /// The same with an observer (on_improvement / on_progress, see control/control.hpp).
 template <class Model, class Observer>
 Solution<typename Model::energy_type> tabu_walk(const Model& model, const TabuParams& params, std::uint64_t seed,
                                                 std::uint64_t restart, const Budget& budget, Observer& observer) {
+  const Budget call = budget.stamped();  // the workspace and the result count against a time limit
   TabuWalker<Model> t(model, params, seed, restart);
-  return t.run(budget, observer);
+  auto s = t.run(call, observer);
+  s.seconds = detail::call_seconds(call, s.seconds);
+  return s;
 }
 #endif  // !SPINWRIGHT_NO_HEAP
 

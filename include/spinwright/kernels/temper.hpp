@@ -217,6 +217,16 @@ class Tempering : public detail::Drive<Tempering<Model>> {
     start();
   }
 
+  /// Restart with every replica at a caller's state over the same model, exact for the model as it is now (a
+  /// SpinState kept through edit_site_term / edit_pair): spins, local fields and energy are
+  /// copied in O(N) instead of recomputed from the model. No allocation.
+  void warm_start(const state_type& from, std::uint64_t seed, std::uint64_t restart = 0) {
+    rng_ = Xoshiro256::for_restart(seed, restart);
+    restart_ = restart;
+    for (auto& s : replicas_) s.assign(from);
+    start();
+  }
+
   BestView<energy_type> best() const noexcept {
     return {best_spins_.data(), best_spins_.size(), best_energy_, best_sweep_};
   }
@@ -544,21 +554,55 @@ class Tempering : public detail::Drive<Tempering<Model>> {
   std::uint64_t restart_ = 0;
 };
 
+/// Refuses parameters tempering cannot run with: a ladder end (beta_min, beta_max) or a listed
+/// beta that is negative or not finite, a listed ladder that is missing, shorter than 2 rungs or
+/// not increasing, houdayer_beta_max or hazard_below negative or not finite. temper() asserts
+/// it; call it first where the parameters come from outside.
+inline Status check_params(const TemperParams& params) noexcept {
+  auto bad = [](double b) { return !(b >= 0) || b - b != 0; };
+  const Ladder& lad = params.ladder;
+  if (bad(lad.beta_min) || bad(lad.beta_max)) {
+    return Status::error(StatusCode::invalid_argument, "ladder: beta_min and beta_max must be finite and >= 0");
+  }
+  if (lad.shape == LadderShape::listed) {
+    if (lad.betas == nullptr || lad.temperatures < 2) {
+      return Status::error(StatusCode::invalid_argument, "ladder: a listed ladder needs `temperatures` >= 2 betas");
+    }
+    for (std::size_t k = 0; k < lad.temperatures; ++k) {
+      if (bad(lad.betas[k])) {
+        return Status::error(StatusCode::invalid_argument, "ladder: a listed beta is negative or not finite")
+            .at_term(k, k, k);
+      }
+      if (k > 0 && !(lad.betas[k] > lad.betas[k - 1])) {
+        return Status::error(StatusCode::invalid_argument, "ladder: listed betas must increase").at_term(k, k - 1, k);
+      }
+    }
+  }
+  if (bad(params.houdayer_beta_max) || bad(params.hazard_below)) {
+    return Status::error(StatusCode::invalid_argument, "houdayer_beta_max and hazard_below must be finite and >= 0");
+  }
+  return Status::success();
+}
+
 #if !SPINWRIGHT_NO_HEAP
-/// One tempering run (restart `restart` of `seed`).
+/// One tempering run (restart `restart` of `seed`). A time limit bounds the whole call.
 template <class Model>
 TemperSolution<typename Model::energy_type> temper(const Model& model, const TemperParams& params, std::uint64_t seed,
                                                    std::uint64_t restart = 0, const Budget& budget = Budget{}) {
-  Tempering<Model> t(model, params, seed, restart);
-  return t.run(budget);
+  NoObserver none;
+  return temper(model, params, seed, restart, budget, none);
 }
 
 /// The same with an observer (on_improvement / on_progress, see control/control.hpp).
 template <class Model, class Observer>
 TemperSolution<typename Model::energy_type> temper(const Model& model, const TemperParams& params, std::uint64_t seed,
                                                    std::uint64_t restart, const Budget& budget, Observer& observer) {
+  const Budget call = budget.stamped();  // the workspace and the result count against a time limit
+  SPINWRIGHT_ASSERT(check_params(params).ok(), "temper: invalid parameters (check_params(params) says which)");
   Tempering<Model> t(model, params, seed, restart);
-  return t.run(budget, observer);
+  auto s = t.run(call, observer);
+  s.seconds = detail::call_seconds(call, s.seconds);
+  return s;
 }
 #endif  // !SPINWRIGHT_NO_HEAP
 

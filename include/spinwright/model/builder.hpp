@@ -9,6 +9,12 @@
 //    could overflow the 64-bit accumulator are refused. The first refused term is remembered
 //    (its position in the order of add_* calls and its indices) and build() returns it.
 //  * build() never throws on bad data; it returns a Result.
+//  * Coefficients of any arithmetic type are taken; an integer builder refuses one that does
+//    not convert exactly (a fraction such as 2.7, or a value beyond the value type such as an
+//    int64_t 5e9 into int32_t) by status, never truncating it. Floating builders round to the
+//    nearest value of their type (a finite value beyond float's range is refused).
+//  * Indices of any integer type are taken; a negative one is refused as "negative". Errors
+//    name the term's indices in the caller's order (i, j).
 #ifndef SPINWRIGHT_MODEL_BUILDER_HPP
 #define SPINWRIGHT_MODEL_BUILDER_HPP
 
@@ -54,6 +60,83 @@ constexpr bool fits_value(Energy v) noexcept {
   }
 }
 
+// A coefficient offered as any arithmetic type, converted to Value exactly (integer Value) or to
+// the nearest (floating Value); `why` is set when it cannot be.
+template <class Value, class Arg>
+constexpr bool convert_coefficient(Arg a, Value& out, Status& why) noexcept {
+  static_assert(std::is_arithmetic_v<Arg>, "a coefficient must be a number (an integer or floating type)");
+  if constexpr (std::is_floating_point_v<Arg>) {
+    if (!(a - a == 0)) {
+      why =
+          Status::error(StatusCode::non_finite_value, "coefficient is NaN or infinite; only finite values are allowed");
+      return false;
+    }
+  }
+  if constexpr (std::is_integral_v<Value>) {
+    const char* range =
+        "coefficient lies outside the integer value type (int32_t: -2147483648 .. 2147483647); use a "
+        "wider Value (int64_t, double)";
+    if constexpr (std::is_floating_point_v<Arg>) {
+      // Value's range as doubles: min is minus a power of two (exact), and so is -(max + 1).
+      const double lo = static_cast<double>(std::numeric_limits<Value>::min());
+      const double d = static_cast<double>(a);
+      if (!(d >= lo && d < -lo)) {
+        why = Status::error(StatusCode::value_out_of_range, range);
+        return false;
+      }
+      const Value v = static_cast<Value>(d);
+      if (static_cast<double>(v) != d) {
+        why = Status::error(StatusCode::value_out_of_range,
+                            "coefficient has a fractional part, which an integer value type cannot hold; round it "
+                            "yourself or use a floating Value (double)");
+        return false;
+      }
+      out = v;
+      return true;
+    } else {
+      bool fits;
+      if constexpr (std::is_signed_v<Arg>) {
+        fits = static_cast<std::int64_t>(a) >= static_cast<std::int64_t>(std::numeric_limits<Value>::min()) &&
+               static_cast<std::int64_t>(a) <= static_cast<std::int64_t>(std::numeric_limits<Value>::max());
+      } else {
+        fits = static_cast<std::uint64_t>(a) <= static_cast<std::uint64_t>(std::numeric_limits<Value>::max());
+      }
+      if (!fits) {
+        why = Status::error(StatusCode::value_out_of_range, range);
+        return false;
+      }
+      out = static_cast<Value>(a);
+      return true;
+    }
+  } else {
+    if constexpr (std::is_floating_point_v<Arg> && sizeof(Arg) > sizeof(Value)) {
+      const Arg m = static_cast<Arg>(std::numeric_limits<Value>::max());
+      if (a > m || a < -m) {
+        why = Status::error(StatusCode::value_out_of_range,
+                            "coefficient lies beyond the floating value type's range; use a wider Value (double)");
+        return false;
+      }
+    }
+    out = static_cast<Value>(a);
+    return true;
+  }
+}
+
+// A spin index offered as any integer type: a negative one is kept apart (its two's complement
+// in `value`) so that a refusal can say "negative".
+struct IndexArg {
+  std::uint64_t value = 0;
+  bool negative = false;
+};
+template <class Arg>
+constexpr IndexArg index_arg(Arg i) noexcept {
+  static_assert(std::is_integral_v<Arg> && !std::is_same_v<Arg, bool>, "a spin index must be an integer");
+  if constexpr (std::is_signed_v<Arg>) {
+    if (i < 0) return {static_cast<std::uint64_t>(static_cast<std::int64_t>(i)), true};
+  }
+  return {static_cast<std::uint64_t>(i), false};
+}
+
 template <Form F, class Value, class Index>
 class TermBuilder {
  public:
@@ -79,18 +162,25 @@ class TermBuilder {
   std::uint64_t num_spins() const noexcept { return n_; }
 
  protected:
-  void add_linear_term(std::uint64_t i, Value v) {
+  template <class Arg>
+  void add_linear_term(IndexArg ia, Arg a) {
     const std::uint64_t t = terms_++;
     if (!status_.ok()) return;
-    if (!check_index(t, i, i) || !check_value(t, i, i, v)) return;
+    const std::uint64_t i = ia.value;
+    Value v{};
+    if (!check_index(t, ia, i, i) || !check_value(t, i, i, a, v)) return;
     if (v == Value{0}) return;
     linears_.push_back({static_cast<Index>(i), static_cast<Index>(i), v});
   }
 
-  void add_pair_term(std::uint64_t i, std::uint64_t j, Value v) {
+  template <class Arg>
+  void add_pair_term(IndexArg ia, IndexArg ja, Arg a) {
     const std::uint64_t t = terms_++;
     if (!status_.ok()) return;
-    if (!check_index(t, i, j) || !check_index(t, j, i) || !check_value(t, i, j, v)) return;
+    std::uint64_t i = ia.value;
+    std::uint64_t j = ja.value;
+    Value v{};
+    if (!check_index(t, ia, i, j) || !check_index(t, ja, i, j) || !check_value(t, i, j, a, v)) return;
     if (v == Value{0}) return;
     if (i == j) {
       if constexpr (F == Form::ising) {
@@ -109,12 +199,14 @@ class TermBuilder {
     pairs_.push_back({static_cast<Index>(i), static_cast<Index>(j), v});
   }
 
-  void add_offset_term(energy_type c) {
+  template <class Arg>
+  void add_offset_term(Arg a) {
     const std::uint64_t t = terms_++;
     if (!status_.ok()) return;
-    if (!is_finite(c)) {
-      fail(Status::error(StatusCode::non_finite_value, "offset is NaN or infinite; only finite values are allowed")
-               .at_term(t, 0, 0));
+    energy_type c{};
+    Status why;
+    if (!convert_coefficient<energy_type>(a, c, why)) {
+      fail(why.at_term(t, 0, 0));
       return;
     }
     if (!checked_add(offset_, c)) {
@@ -221,26 +313,38 @@ class TermBuilder {
     if (status_.ok()) status_ = s;
   }
 
-  bool check_index(std::uint64_t t, std::uint64_t i, std::uint64_t other) {
-    if (i >= max_spins_v<Index>) {
+  // `index` is one of the term's indices; (i, j) are the term's, in the caller's order.
+  bool check_index(std::uint64_t t, IndexArg index, std::uint64_t i, std::uint64_t j) {
+    if (index.negative) {
+      fail(Status::error(StatusCode::index_out_of_range, "spin index is negative (valid: 0 .. size - 1)")
+               .at_term(t, i, j));
+      return false;
+    }
+    if (index.value >= max_spins_v<Index>) {
       fail(Status::error(StatusCode::index_out_of_range,
                          "spin index too large for the index type (uint16_t allows 0 .. 65534, uint32_t 0 .. "
                          "4294967294); use a wider Index")
-               .at_term(t, i, other));
+               .at_term(t, i, j));
       return false;
     }
-    if (fixed_ && i >= n_) {
+    if (fixed_ && index.value >= n_) {
       fail(Status::error(StatusCode::index_out_of_range,
                          "spin index not below the size declared to the builder (valid: 0 .. size - 1); declare a "
                          "larger size or let the builder grow")
-               .at_term(t, i, other));
+               .at_term(t, i, j));
       return false;
     }
-    if (!fixed_ && i + 1 > n_) n_ = i + 1;
+    if (!fixed_ && index.value + 1 > n_) n_ = index.value + 1;
     return true;
   }
 
-  bool check_value(std::uint64_t t, std::uint64_t i, std::uint64_t j, Value v) {
+  template <class Arg>
+  bool check_value(std::uint64_t t, std::uint64_t i, std::uint64_t j, Arg a, Value& v) {
+    Status why;
+    if (!convert_coefficient<Value>(a, v, why)) {
+      fail(why.at_term(t, i, j));
+      return false;
+    }
     if (!is_finite(v)) {
       fail(Status::error(StatusCode::non_finite_value, "coefficient is NaN or infinite; only finite values are allowed")
                .at_term(t, i, j));
@@ -266,15 +370,19 @@ class IsingBuilder : public detail::TermBuilder<Form::ising, Value, Index> {
 
  public:
   using base::base;
-  IsingBuilder& add_field(std::uint64_t i, Value h) {
-    this->add_linear_term(i, h);
+  // Any integer index type and any arithmetic coefficient type (see the conversion rule above).
+  template <class I, class V>
+  IsingBuilder& add_field(I i, V h) {
+    this->add_linear_term(detail::index_arg(i), h);
     return *this;
   }
-  IsingBuilder& add_coupling(std::uint64_t i, std::uint64_t j, Value J) {
-    this->add_pair_term(i, j, J);
+  template <class I, class J, class V>
+  IsingBuilder& add_coupling(I i, J j, V coupling) {
+    this->add_pair_term(detail::index_arg(i), detail::index_arg(j), coupling);
     return *this;
   }
-  IsingBuilder& add_offset(energy_t<Value> c) {
+  template <class V>
+  IsingBuilder& add_offset(V c) {
     this->add_offset_term(c);
     return *this;
   }
@@ -287,15 +395,19 @@ class QuboBuilder : public detail::TermBuilder<Form::qubo, Value, Index> {
 
  public:
   using base::base;
-  QuboBuilder& add_unary(std::uint64_t i, Value q) {
-    this->add_linear_term(i, q);
+  // Any integer index type and any arithmetic coefficient type (see the conversion rule above).
+  template <class I, class V>
+  QuboBuilder& add_unary(I i, V q) {
+    this->add_linear_term(detail::index_arg(i), q);
     return *this;
   }
-  QuboBuilder& add_pair(std::uint64_t i, std::uint64_t j, Value q) {
-    this->add_pair_term(i, j, q);
+  template <class I, class J, class V>
+  QuboBuilder& add_pair(I i, J j, V q) {
+    this->add_pair_term(detail::index_arg(i), detail::index_arg(j), q);
     return *this;
   }
-  QuboBuilder& add_offset(energy_t<Value> c) {
+  template <class V>
+  QuboBuilder& add_offset(V c) {
     this->add_offset_term(c);
     return *this;
   }

@@ -1,16 +1,7 @@
-// spinwright — exact conversion between the Ising and QUBO forms, offset included.
-//
-// With x = (1 - s) / 2 (spin +1 is bit 0):
-//   QUBO -> Ising:  J_ij = Q_ij / 4,  h_i = -Q_ii / 2 - (1/4) sum_{j != i} Q_ij,
-//                   c' = c + (1/2) sum_i Q_ii + (1/4) sum_{i<j} Q_ij
-//   Ising -> QUBO:  Q_ij = 4 J_ij,  Q_ii = -2 h_i - 2 sum_{j != i} J_ij,
-//                   c' = c + sum_i h_i + sum_{i<j} J_ij
-// (substitute x_i x_j = (1 - s_i - s_j + s_i s_j) / 4; common practice.)
-//
-// ising_from() always produces double couplings (quarters of integers are exact in double as
-// long as the energy range stays below 2^50; larger integer models are refused with
-// value_out_of_range). qubo_from() keeps the value type: integer Ising models convert exactly
-// or are refused when 4 J or the new unary terms do not fit.
+// spinwright — exact conversion between the Ising and QUBO forms, offset included, with
+// x = (1 - s) / 2 (spin +1 is bit 0). The formulas and when a conversion is exact (integer
+// models: always, or refused; floating ones: within rounding) are in docs/models.md.
+// ising_from() produces double couplings; qubo_from() keeps the value type.
 #ifndef SPINWRIGHT_MODEL_CONVERT_HPP
 #define SPINWRIGHT_MODEL_CONVERT_HPP
 

@@ -54,8 +54,9 @@ class SparseModelView {
 
   static Result<SparseModelView> over(std::size_t n, const Value* linear, const std::size_t* row_starts,
                                       const Index* neighbours, const Value* values, energy_type offset = 0) noexcept {
-    if (n >= max_spins_v<Index>)
-      return Status::error(StatusCode::index_out_of_range, "more spins than the index type can address");
+    if (n > max_spins_v<Index>)  // the builders' limit too: uint16_t 65535 spins, uint32_t 4294967295
+      return Status::error(StatusCode::index_out_of_range,
+                           "more spins than the index type can address (uint16_t: 65535, uint32_t: 4294967295)");
     if (row_starts == nullptr || (n > 0 && linear == nullptr)) {
       return Status::error(StatusCode::invalid_argument, "missing array (site terms or row starts)");
     }
@@ -127,19 +128,24 @@ class SparseModelView {
     return site_term(i);
   }
 
-  std::size_t degree(Index i) const noexcept { return row_[i + 1] - row_[i]; }
+  std::size_t degree(Index i) const noexcept {
+    SPINWRIGHT_ASSERT(i < n_, "spin index beyond the model (degree)");
+    return row_[i + 1] - row_[i];
+  }
   Span<Index> neighbours(Index i) const noexcept { return {neighbours_ + row_[i], degree(i)}; }
   Span<Value> row_values(Index i) const noexcept { return {values_ + row_[i], degree(i)}; }
 
   // Calls f(j, value) for every neighbour j of i, in increasing j.
   template <class Fn>
   void for_each_neighbour(Index i, Fn&& f) const {
+    SPINWRIGHT_ASSERT(i < n_, "spin index beyond the model (for_each_neighbour)");
     const std::size_t end = row_[i + 1];
     for (std::size_t k = row_[i]; k < end; ++k) f(neighbours_[k], values_[k]);
   }
 
   // Position of pair (i, j) in row i, or npos when the model has no such pair. O(log degree).
   std::size_t find(Index i, Index j) const noexcept {
+    SPINWRIGHT_ASSERT(i < n_ && j < n_, "spin index beyond the model (find / pair)");
     std::size_t lo = row_[i];
     std::size_t hi = row_[i + 1];
     while (lo < hi) {

@@ -1,20 +1,8 @@
 // spinwright — the move concept: what a user type provides so that annealing and descent can
-// drive it (see docs/moves.md), and the C++17 traits that check it with one readable
-// static_assert. Kernels take the move as a template parameter: no virtual call in the loop.
-//
-// A move generator M for a model type Model, with State = SpinState<Model>, provides:
-//   using proposal_type = ...;                          // small, trivially copyable
-//   std::size_t moves_per_sweep(const State&) const;   // attempts in one sweep
-//   proposal_type propose(const State&, Xoshiro256&);  // draw a move from the run's RNG
-//   energy_type delta(const State&, const proposal_type&) const;   // E(after) - E(before)
-//   void apply(State&, const proposal_type&, energy_type delta);   // perform the move
-// and optionally
-//   void prepare(const State&);                 // called when the kernel (re)starts a state
-//   void begin_sweep(const State&, Xoshiro256&);// called before each sweep
-// For descent (enumerable moves):
-//   std::size_t neighbourhood_size(const State&) const;
-//   proposal_type proposal_at(const State&, std::size_t k) const;   // k < neighbourhood_size
-// None of these may allocate after prepare() has run once on a state of the same size.
+// drive it (proposal_type, moves_per_sweep, propose, delta, apply; optionally prepare,
+// begin_sweep, and neighbourhood_size / proposal_at for descent), and the C++17 traits that
+// check it with one readable static_assert. Kernels take the move as a template parameter: no
+// virtual call in the loop. The concept, in full, is in docs/moves.md.
 #ifndef SPINWRIGHT_MOVES_MOVE_HPP
 #define SPINWRIGHT_MOVES_MOVE_HPP
 

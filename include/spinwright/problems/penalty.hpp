@@ -1,42 +1,9 @@
-// spinwright — exact quadratic penalties added to a QuboBuilder, and the penalty weight that
-// keeps every infeasible state above the best feasible one.
-//
-// Each add_* function adds the terms of one penalty with weight A > 0 to a QuboBuilder,
-// constant included (it goes to the offset), so that the penalty is exactly 0 on every
-// assignment that satisfies the constraint and at least A on every assignment that does not
-// (constraint data are integers, so a violation is at least 1). It registers a Constraint in
-// a ConstraintSet, which later names the first violated constraint of any returned state.
-//
-//   one_hot     A (1 - sum x)^2       = A (1 - sum x_i + 2 sum_{i<j} x_i x_j)
-//   k_hot       A (k - sum x)^2       = A (k^2 + (1 - 2k) sum x_i + 2 sum_{i<j} x_i x_j)
-//   pairwise_exclusion     A sum_{i<j} x_i x_j   (0 for <= 1 bit set, A m(m-1)/2 for m bits)
-//   pair_cover    A (1 - x_u)(1 - x_v)  (two variables: A when both are 0)
-//   equality        A (sum a x - b)^2     = A (b^2 + sum (a_i^2 - 2 b a_i) x_i + 2 sum_{i<j} a_i a_j x_i x_j)
-//   inequality      A (sum a x + sum w_m y_m - b)^2 with slack bits y_m (below)
-// (x_i^2 = x_i for bits; common practice, e.g. A. Lucas, "Ising formulations of many NP
-// problems", Front. Phys. 2:5, 2014, sections 1-2; F. Glover, G. Kochenberger, Y. Du,
-// "Quantum Bridge Analytics I: a tutorial on formulating and using QUBO models", 4OR 17, 2019.)
-//
-// Slack encoding of sum a x <= b (integer a, b). Let L = sum_i min(a_i, 0), the smallest value
-// the left-hand side can take, and S = b - L >= 0 (b < L can never hold and is refused). The
-// slack s = b - sum a x of a feasible x lies in 0..S, so the slack bits must represent exactly
-// the integers 0..S: with m = 0 bits when S = 0, otherwise m = floor(log2 S) + 1 bits of values
-// 1, 2, 4, ..., 2^(m-2) and a last bit capped at S - (2^(m-1) - 1) (between 1 and 2^(m-1)). The
-// sums of subsets of these values are exactly 0..S. Then
-//   min over slack bits of A (sum a x + s - b)^2 = A max(0, sum a x - b)^2,
-// which is 0 when x is feasible and at least A otherwise.
-//
-// Penalty weight. Let f be the objective over the decision bits, and
-// span(f) = sum |Q_ii| + sum_{i<j} |Q_ij| for a QUBO objective (2 (sum |h_i| + sum |J_ij|) for
-// an Ising one): f(x) - f(x') <= span(f) for any two states. With every penalty weight
-// A > span(f), an infeasible state (x, y) has energy >= f(x) + A > f(x) + span(f) >= f(x*) for
-// every feasible x*, whose energy with its best slack is exactly f(x*). So every ground state
-// is feasible and decodes to an optimum of f over the feasible set (if one exists).
-//
-// All functions validate their input and return a Status; on a validation error nothing is
-// added to the builder or the set. If the builder itself refuses a term (e.g. a fixed-size
-// builder too small for the slack bits), its sticky status is returned, the builder stays
-// failed and no record is added. They allocate (term lists, records) and never throw.
+// spinwright — exact quadratic penalties added to a QuboBuilder (0 on every assignment that
+// keeps the constraint, at least A on every other), the slack encoding of sum a x <= b, and
+// the penalty weight that keeps every infeasible state above the best feasible one. The
+// formulas, the slack bits and the bound are written once in docs/problems.md. Functions
+// validate their input and return a Status (nothing added on an error); they allocate and
+// never throw.
 #ifndef SPINWRIGHT_PROBLEMS_PENALTY_HPP
 #define SPINWRIGHT_PROBLEMS_PENALTY_HPP
 

@@ -73,9 +73,15 @@ class SpinState {
   const Model& model() const noexcept { return *model_; }
   std::size_t size() const noexcept { return spins_.size(); }
   const std::int8_t* spins() const noexcept { return spins_.data(); }
-  std::int8_t spin(index_type i) const noexcept { return spins_[i]; }
+  std::int8_t spin(index_type i) const noexcept {
+    SPINWRIGHT_ASSERT(i < spins_.size(), "spin index beyond the state's model (spin)");
+    return spins_[i];
+  }
   energy_type energy() const noexcept { return energy_; }
-  energy_type local_field(index_type i) const noexcept { return fields_[i]; }
+  energy_type local_field(index_type i) const noexcept {
+    SPINWRIGHT_ASSERT(i < spins_.size(), "spin index beyond the state's model (local_field)");
+    return fields_[i];
+  }
   const energy_type* local_fields() const noexcept { return fields_.data(); }
 
   // Replace every spin (values must be +1 or -1) and recompute fields and energy.
@@ -87,6 +93,20 @@ class SpinState {
     resync();
   }
 
+  // Copy another state over the same model: spins, local fields and energy, O(N), with no
+  // rescan of the model (the warm start of a reused kernel from a caller's exact state). The
+  // other state must be exact for the model as it is now: in-place edits made through
+  // edit_site_term / edit_pair / edit_offset on it keep it so.
+  void assign(const SpinState& other) noexcept {
+    SPINWRIGHT_ASSERT(other.model_ == model_, "assign: the state belongs to another model");
+    SPINWRIGHT_ASSERT(other.size() == size(), "assign: the states differ in size");
+    if (&other == this) return;
+    const std::size_t n = spins_.size();
+    for (std::size_t i = 0; i < n; ++i) spins_[i] = other.spins_[i];
+    for (std::size_t i = 0; i < n; ++i) fields_[i] = other.fields_[i];
+    energy_ = other.energy_;
+  }
+
   // Independent fair coins for every spin, then a resync.
   template <class Rng>
   void randomize(Rng& rng) {
@@ -95,6 +115,7 @@ class SpinState {
   }
 
   energy_type delta(index_type i) const noexcept {
+    SPINWRIGHT_ASSERT(i < spins_.size(), "spin index beyond the state's model (delta)");
     if constexpr (form == Form::ising) {
       return -2 * spins_[i] * fields_[i];
     } else {
@@ -106,6 +127,7 @@ class SpinState {
 
   // Flip when the caller has already computed delta(i).
   void flip_with_delta(index_type i, energy_type d) noexcept {
+    SPINWRIGHT_ASSERT(i < spins_.size(), "spin index beyond the state's model (flip)");
     energy_ += d;
     const std::int8_t old = spins_[i];
     spins_[i] = static_cast<std::int8_t>(-old);
@@ -126,6 +148,7 @@ class SpinState {
   energy_type delta_group(const index_type* group, std::size_t count) const noexcept {
     energy_type d = 0;
     for (std::size_t k = 0; k < count; ++k) {
+      SPINWRIGHT_ASSERT(group[k] < spins_.size(), "spin index beyond the state's model (delta_group)");
       SPINWRIGHT_ASSERT(mark_[group[k]] == 0, "group indices must be distinct");
       mark_[group[k]] = 1;
       d += delta(group[k]);
@@ -154,6 +177,7 @@ class SpinState {
 
   // Energy change of exchanging two opposite spins (i.e. flipping both). O(log degree).
   energy_type delta_swap(index_type i, index_type j) const noexcept {
+    SPINWRIGHT_ASSERT(i < spins_.size() && j < spins_.size(), "spin index beyond the state's model (delta_swap)");
     SPINWRIGHT_ASSERT(spins_[i] != spins_[j], "a count-keeping swap needs two opposite spins");
     const auto v = static_cast<energy_type>(model_->pair(i, j));
     const energy_type inside = v * spins_[i] * spins_[j];
@@ -165,6 +189,7 @@ class SpinState {
   }
 
   void apply_swap(index_type i, index_type j) noexcept {
+    SPINWRIGHT_ASSERT(i != j, "a count-keeping swap needs two distinct spins");
     flip(i);
     flip(j);
   }
@@ -198,6 +223,7 @@ class SpinState {
   // update would keep the rounding of a removed dominant term (a coefficient 10^17 times the
   // others leaves its rounding in the sums after it is edited away).
   void on_site_term_change(index_type i, energy_type change) noexcept {
+    SPINWRIGHT_ASSERT(i < spins_.size(), "spin index beyond the state's model (site term edit)");
     if constexpr (std::is_integral_v<energy_type>) {
       fields_[i] += change;
       if constexpr (form == Form::ising) {
@@ -211,6 +237,7 @@ class SpinState {
     }
   }
   void on_pair_change(index_type i, index_type j, energy_type change) noexcept {
+    SPINWRIGHT_ASSERT(i < spins_.size() && j < spins_.size(), "spin index beyond the state's model (pair edit)");
     if constexpr (std::is_integral_v<energy_type>) {
       if constexpr (form == Form::ising) {
         fields_[i] += change * spins_[j];

@@ -18,29 +18,35 @@ inline constexpr std::uint64_t unlimited_sweeps = ~std::uint64_t{0};
 namespace detail {
 
 // Checks a Budget once per sweep. The clock is read once per check, and only when the budget
-// has a time limit (otherwise at the start and the end of the run).
+// has a time limit (otherwise at the start and the end of the run). Elapsed time counts from
+// the budget's start when it has one (a one-call function stamps its entry), else from here.
+// A sweep is not begun when the last one's duration says it would end past the deadline, so a
+// run ends at its deadline rather than one sweep after it.
 class BudgetCheck {
  public:
   explicit BudgetCheck(const Budget& budget) noexcept
       : budget_(budget),
-        timed_(budget.clock.valid() && budget.seconds < std::numeric_limits<double>::infinity()),
-        start_(budget.clock.valid() ? budget.clock.read() : 0.0) {}
+        timed_(budget.timed()),
+        begin_(budget.clock.valid() ? budget.clock.read() : 0.0),
+        start_(budget.has_start ? budget.start : begin_) {}
 
   bool timed() const noexcept { return timed_; }
 
-  // Elapsed seconds on the budget's clock (0 without a clock).
+  // Elapsed seconds on the budget's clock since its start (0 without a clock).
   double elapsed() const noexcept { return budget_.clock.valid() ? budget_.clock.read() - start_ : 0.0; }
 
   // True when the run must end before another sweep; `why` says why. `elapsed` is the value
-  // of elapsed() just read by the caller (ignored without a time limit).
-  bool done(std::uint64_t sweeps, std::uint64_t limit, double best, double elapsed, StopReason& why) const noexcept {
+  // of elapsed() just read by the caller and `next` the expected duration of the next sweep
+  // (both ignored without a time limit).
+  bool done(std::uint64_t sweeps, std::uint64_t limit, double best, double elapsed, double next,
+            StopReason& why) const noexcept {
     if (budget_.has_target && best <= budget_.target) {
       why = StopReason::target_reached;
     } else if (budget_.stop != nullptr && budget_.stop->stop_requested()) {
       why = StopReason::stopped;
     } else if (sweeps >= limit) {
       why = StopReason::budget_exhausted;
-    } else if (timed_ && elapsed >= budget_.seconds) {
+    } else if (timed_ && (elapsed >= budget_.seconds || elapsed + next > budget_.seconds)) {
       why = StopReason::deadline;
     } else {
       return false;
@@ -48,12 +54,19 @@ class BudgetCheck {
     return true;
   }
 
-  // The elapsed fraction of the time limit (0 without one), for time-driven schedules.
-  double time_fraction(double elapsed) const noexcept { return timed_ ? elapsed / budget_.seconds : 0.0; }
+  // The fraction of this run's time (from its start to the deadline) that will have passed at
+  // the end of the next sweep (0 without a time limit), for time-driven schedules.
+  double time_fraction(double elapsed, double next) const noexcept {
+    if (!timed_) return 0.0;
+    const double before = begin_ - start_;  // spent before this run began (workspace, earlier runs)
+    const double window = budget_.seconds - before;
+    return window > 0 ? (elapsed - before + next) / window : 1.0;
+  }
 
  private:
   const Budget& budget_;
   bool timed_;
+  double begin_;
   double start_;
 };
 
@@ -67,7 +80,7 @@ class BudgetCheck {
 //   solution() const                       (heap builds) the result run() returns
 // and may hide these no-op hooks (declaring `friend class detail::Drive<Kernel>`):
 //   void begin_advance(std::uint64_t limit)  before the first sweep of advance()
-//   void before_sweep(double time_fraction)  before every sweep: elapsed / time limit, 0 untimed
+//   void before_sweep(double time_fraction)  before every sweep: the run's time fraction at its end, 0 untimed
 //   bool settled() const                     nothing left to do (descent at a local minimum)
 template <class Kernel>
 class Drive {
@@ -82,10 +95,11 @@ class Drive {
   }
 
   /// Runs until the budget ends: its sweeps (the kernel's default when 0; unlimited_sweeps
-  /// for none), the deadline, the stop token (polled once per sweep) or the target (checked
+  /// for none), the deadline (no sweep is begun that the last one's duration says would end
+  /// past it), the stop token (polled once per sweep) or the target (checked
   /// before every sweep). Observers hear of every sweep that ends at a new best and, every
   /// progress_every sweeps, of the progress. No allocation; read best() afterwards.
-  /// `seconds` receives the elapsed clock time.
+  /// `seconds` receives the elapsed clock time (since the budget's start when it has one).
   template <class Observer>
   StopReason advance(const Budget& budget, Observer& observer, double* seconds = nullptr) {
     Kernel& k = self();
@@ -95,11 +109,17 @@ class Drive {
     const BudgetCheck check(budget);
     const std::uint64_t first = k.sweeps_done();
     StopReason why = StopReason::budget_exhausted;
+    double previous = -1;  // elapsed() before the last sweep
+    double next = 0;       // expected duration of the next sweep: the last one's
     for (;;) {
       const double elapsed = check.timed() ? check.elapsed() : 0.0;
-      if (check.done(k.sweeps_done() - first, limit, k.best_for_target(), elapsed, why)) break;
+      if (check.timed()) {
+        if (previous >= 0) next = elapsed - previous;
+        previous = elapsed;
+      }
+      if (check.done(k.sweeps_done() - first, limit, k.best_for_target(), elapsed, next, why)) break;
       if (k.settled()) break;
-      k.before_sweep(check.time_fraction(elapsed));
+      k.before_sweep(check.time_fraction(elapsed, next));
       if (k.sweep_once()) notify_improvement(observer, k.sweeps_done(), k.best_for_target());
       if (every != 0 && k.sweeps_done() % every == 0) notify_progress(observer, k.sweeps_done(), k.best_for_target());
     }
@@ -139,6 +159,12 @@ class Drive {
  private:
   Kernel& self() noexcept { return static_cast<Kernel&>(*this); }
 };
+
+// The seconds a one-call function reports: since the budget's start when it has one (the
+// call's entry, so the workspace, polish and result are included), else those of advance().
+inline double call_seconds(const Budget& budget, double advance_seconds) noexcept {
+  return budget.has_start && budget.clock.valid() ? budget.clock.read() - budget.start : advance_seconds;
+}
 
 }  // namespace detail
 }  // namespace spinwright
