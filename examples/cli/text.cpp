@@ -60,6 +60,10 @@ std::string number_text(double v) {
   if (std::isnan(v)) return "nan";
   if (!std::isfinite(v)) return v > 0 ? "inf" : "-inf";
   char buf[40];
+  if (v == std::floor(v) && std::fabs(v) < 0x1.0p53) {  // integers in plain digits
+    std::snprintf(buf, sizeof buf, "%.0f", v);
+    return buf;
+  }
   for (int precision = 6; precision <= 17; ++precision) {
     std::snprintf(buf, sizeof buf, "%.*g", precision, v);
     if (std::strtod(buf, nullptr) == v) break;

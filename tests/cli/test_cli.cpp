@@ -933,6 +933,14 @@ TEST_CASE("cli: real numbers print with the shortest digits; a convert error giv
   CHECK(t.out.find("\nenergy ") != std::string::npos);
   CHECK(t.out.find("-0.3\n") != std::string::npos);
   CHECK(t.out.find("0.30000000000000004") == std::string::npos);
+  // Integers stay plain digits, however few significant digits would read back.
+  const std::string heavy = dir.write("heavy.txt", "2 1\n1 2 19990\n");
+  const RunOutput h = run(dir, {"solve", heavy, "--report", "json"});
+  REQUIRE(h.code == 0);
+  CHECK(h.out.find("\"total_weight\": 19990,") != std::string::npos);
+  CHECK(h.out.find("\"cut\": 19990,") != std::string::npos);
+  const RunOutput ht = run(dir, {"solve", heavy});
+  CHECK(ht.out.find("19990 (total weight 19990)") != std::string::npos);
   // A model with a field written as an edge list: the reason and its advice, once.
   const std::string mtx = dir.write(
       "f.mtx", "%%MatrixMarket matrix coordinate integer general\n% spinwright form ising\n2 2 2\n1 1 3\n1 2 1\n");
