@@ -1,9 +1,9 @@
 
 # ---- cli: begin (owned by the command-line program; see docs/cli.md) ----
 # tests/cli/test_cli.cpp runs the `spinwright` executable; it needs the program built first
-# and its path. Without the examples the program does not exist, and the test is disabled.
+# and its path. Without SPINWRIGHT_BUILD_CLI the program does not exist, and the test is disabled.
 if(TARGET cli_test_cli)
-  if(SPINWRIGHT_BUILD_EXAMPLES)
+  if(SPINWRIGHT_BUILD_CLI AND NOT CMAKE_SYSTEM_NAME STREQUAL "Generic")
     # spinwright-cli is defined later (examples/cli); both commands resolve at generate time.
     add_dependencies(cli_test_cli spinwright-cli)
     target_compile_definitions(cli_test_cli PRIVATE SPINWRIGHT_CLI_PATH="$<TARGET_FILE:spinwright-cli>")

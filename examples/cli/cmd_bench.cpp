@@ -15,14 +15,15 @@
 #include "spread.hpp"
 #include "text.hpp"
 
-#include <cmath>    // std::isfinite
-#include <cstdio>   // std::snprintf
-#include <cstdlib>  // std::strtod
-#include <fstream>  // std::ifstream
-#include <limits>   // std::numeric_limits
-#include <sstream>  // std::istringstream
-#include <string>   // std::string
-#include <vector>   // std::vector
+#include <algorithm>  // std::max, std::min
+#include <cmath>      // std::isfinite, std::log
+#include <cstdio>     // std::snprintf
+#include <cstdlib>    // std::strtod
+#include <fstream>    // std::ifstream
+#include <limits>     // std::numeric_limits
+#include <sstream>    // std::istringstream
+#include <string>     // std::string
+#include <vector>     // std::vector
 
 namespace spinwright_cli {
 
@@ -39,7 +40,9 @@ const std::vector<OptionSpec>& bench_options() {
       {"threads", "T", "threads; 0 = one per hardware thread (default 0)"},
       {"seed", "N", "seed; restart r uses the stream (seed, r) (default 1)"},
       {"time-limit", "SECONDS", "wall-clock limit per kernel (default: none)"},
+      {"value-type", "TYPE", "auto, int32, int64 or double: the values the model is held with (default auto)"},
       {"report", "text|json", "table for people (text, default) or for programs (json)"},
+      {"plot", "FILE.svg", "write an SVG: success probability and TTS99 against sweeps, per kernel (one FILE only)"},
       {"quiet", nullptr, "no progress line"},
       {"help", nullptr, "show this help"},
   };
@@ -55,7 +58,49 @@ std::string short_number(double v) {
 struct Row {
   Kernel kernel;
   RunResult result;
+  std::vector<Trace> traces;  // --plot
 };
+
+// TTS99 after k sweeps of a restart: k times the median seconds per sweep, times
+// ln(0.01) / ln(1 - p(k)) (stats/tally.hpp's rule; Roennow et al., Science 345, 2014); one run
+// when p = 1, none (no point) when p = 0.
+Series tts_against_sweeps(const Series& success, double seconds_per_sweep, const std::string& name) {
+  Series t;
+  t.name = name;
+  for (std::size_t k = 0; k < success.x.size(); ++k) {
+    const double p = success.y[k];
+    if (!(p > 0)) continue;
+    const double runs = p >= 1 ? 1.0 : std::max(1.0, std::log(0.01) / std::log(1 - p));
+    t.x.push_back(success.x[k]);
+    t.y.push_back(success.x[k] * seconds_per_sweep * runs);
+  }
+  return t;
+}
+
+std::string bench_figure(const LoadedModel& m, const std::vector<Row>& rows, double target, double tol) {
+  Panel success;
+  success.title = "Success probability against sweeps (target " + energy_text(target, m.energy_bound()) + ")";
+  success.x_label = "sweeps into a restart (log scale)";
+  success.y_label = "P(best <= target)";
+  success.log_x = true;
+  success.unit_y = true;
+  Panel tts;
+  tts.title = "TTS99 against sweeps";
+  tts.x_label = "sweeps per restart (log scale)";
+  tts.y_label = "TTS99 (seconds)";
+  tts.log_x = true;
+  for (const Row& r : rows) {
+    const Series p = success_against_sweeps(r.traces, target, tol, kernel_name(r.kernel));
+    success.series.push_back(p);
+    const auto& t = r.result.tally;
+    const double per =
+        t.restarts() == 0 || t.total_sweeps() == 0
+            ? 0
+            : t.median_seconds() / (static_cast<double>(t.total_sweeps()) / static_cast<double>(t.restarts()));
+    tts.series.push_back(tts_against_sweeps(p, per, kernel_name(r.kernel)));
+  }
+  return svg_figure("spinwright bench " + m.path, nullptr, {success, tts});
+}
 
 struct Entry {
   Kernel kernel;
@@ -97,6 +142,8 @@ struct BenchSetup {
   std::string kernel_text;
   bool json = false;
   bool quiet = false;
+  ValueChoice values;
+  std::string plot;  // --plot FILE.svg (one instance)
 };
 
 // One instance: its rows, its target and its report (a JSON object or a text block).
@@ -148,7 +195,7 @@ Failure read_instance_list(const std::string& list, std::vector<Instance>& out) 
 Failure bench_instance(const BenchSetup& setup, Instance& inst) {
   LoadedModel m;
   Failure f;
-  if ((f = load_model(inst.path, setup.format, m)).failed()) return f;
+  if ((f = load_model(inst.path, setup.format, m, setup.values)).failed()) return f;
   if ((f = check_restarts(m, setup.base.restarts, "bench")).failed()) return f;
   std::vector<Entry> kernels;
   if ((f = parse_kernels(setup.kernel_text, m, kernels)).failed()) return f;
@@ -171,7 +218,11 @@ Failure bench_instance(const BenchSetup& setup, Instance& inst) {
     counters.restarts_total = k == Kernel::exact ? 1 : o.restarts;
     counters.time_limit = o.time_limit < std::numeric_limits<double>::infinity() ? o.time_limit : 0;
     o.progress = &counters;
-    Row row{k, {}};
+    Row row{k, {}, {}};
+    if (!setup.plot.empty()) {
+      row.traces.resize(static_cast<std::size_t>(std::min<std::uint64_t>(o.restarts, max_plot_restarts)));
+      o.traces = &row.traces;
+    }
     {
       ProgressLine line(counters, !setup.quiet);
       f = run_kernel(m, o, row.result);
@@ -185,9 +236,12 @@ Failure bench_instance(const BenchSetup& setup, Instance& inst) {
   for (const auto& r : inst.rows) best = std::min(best, r.result.tally.best().energy);
   if (!inst.has_target) inst.target = best;
   const double target = inst.target;
-  const double scale = visit(m, [](const auto& model) { return model.energy_bound(); });
+  const double scale = m.energy_bound();
   const double tol = 1e-9 * (scale > 1 ? scale : 1.0);
   inst.tol = tol;
+  if (!setup.plot.empty()) {
+    if ((f = write_plot(setup.plot, bench_figure(m, inst.rows, target, tol))).failed()) return f;
+  }
 
   if (setup.json) {
     JsonWriter j;
@@ -198,6 +252,7 @@ Failure bench_instance(const BenchSetup& setup, Instance& inst) {
     j.member("form", m.form_name());
     j.member("nodes", static_cast<std::uint64_t>(m.num_spins()));
     j.member("pairs", static_cast<std::uint64_t>(m.num_pairs()));
+    j.member("value_type", value_type_name(m.value_type));
     j.member("target", target);
     j.member("target_given", inst.has_target);
     j.member("seed", setup.base.seed);
@@ -226,6 +281,7 @@ Failure bench_instance(const BenchSetup& setup, Instance& inst) {
     TextReport head;
     head.line("file", m.path + " (" + std::to_string(m.num_spins()) + (m.graph ? " nodes, " : " variables, ") +
                           std::to_string(m.num_pairs()) + (m.graph ? " edges)" : " pairs)"));
+    head.line("values", value_type_name(m.value_type));
     head.line("target", number_text(target) + (inst.has_target ? "" : " (best energy found in this bench)"));
     head.line("seed", std::to_string(setup.base.seed));
     if (job_ranks() > 1) head.line("ranks", std::to_string(job_ranks()));
@@ -235,9 +291,10 @@ Failure bench_instance(const BenchSetup& setup, Instance& inst) {
       const auto& t = r.result.tally;
       const double per =
           t.restarts() == 0 ? 0 : static_cast<double>(t.total_sweeps()) / static_cast<double>(t.restarts());
-      table.row({kernel_name(r.kernel), std::to_string(t.restarts()), short_number(per), number_text(t.best().energy),
-                 probability_text(t.success_probability(target, tol)), number_text(t.residual_energy(target)),
-                 seconds_text(t.median_seconds()), seconds_text(t.tts99(target, tol))});
+      table.row({kernel_name(r.kernel), std::to_string(t.restarts()), short_number(per),
+                 energy_text(t.best().energy, scale), probability_text(t.success_probability(target, tol)),
+                 energy_text(t.residual_energy(target), scale), seconds_text(t.median_seconds()),
+                 seconds_text(t.tts99(target, tol))});
     }
     inst.report = head.str() + "\n" + table.str();
   }
@@ -327,6 +384,14 @@ int run_bench(int argc, const char* const* argv) {
   if ((f = report_option(args, cmd, setup.json)).failed()) return fail(f);
   setup.kernel_text = args.value("kernel") != nullptr ? *args.value("kernel") : "auto";
   setup.quiet = args.has("quiet");
+  if ((f = value_type_option(args, cmd, setup.values)).failed()) return fail(f);
+  if (const std::string* plot = args.value("plot")) {
+    if (set.size() > 1 || args.value("list") != nullptr) {
+      return fail(
+          usage_failure("--plot draws one FILE; a set has several", "run 'spinwright bench FILE --plot F.svg'"));
+    }
+    setup.plot = *plot;
+  }
 
   bool interrupted_run = false;
   std::size_t done = 0;

@@ -64,7 +64,16 @@ Failure write_model(const std::string& path, const std::string& out_format, cons
   }
   if (!st.ok()) {
     if (st.code == spinwright::StatusCode::invalid_argument) {
-      return input_failure(path + ": " + st.reason + " (write it as Matrix Market: --out-format mtx)");
+      // The library's reason already says to write Matrix Market: name the option there, once.
+      std::string reason = st.reason;
+      const std::string advice = "(write Matrix Market instead)";
+      const std::size_t at = reason.find(advice);
+      if (at != std::string::npos) {
+        reason.replace(at, advice.size(), "(write Matrix Market instead: --out-format mtx)");
+      } else {
+        reason += " (write Matrix Market instead: --out-format mtx)";
+      }
+      return input_failure(path + ": " + reason);
     }
     return input_failure(st.line == 0 ? path + ": " + st.reason : st.message);
   }

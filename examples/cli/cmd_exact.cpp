@@ -8,8 +8,9 @@
 #include "text.hpp"
 
 #include <spinwright/control/steady_clock.hpp>
-#include <spinwright/problems/max_cut.hpp>
-#include <spinwright/parallel/exact_threads.hpp>
+
+#include <algorithm>  // std::max
+#include <thread>     // std::thread::hardware_concurrency
 
 namespace spinwright_cli {
 
@@ -19,6 +20,7 @@ const std::vector<OptionSpec>& exact_options() {
   static const std::vector<OptionSpec> specs = {
       {"format", "edges|mtx", "input format (default: detected from the content)"},
       {"threads", "T", "threads; 0 = one per hardware thread (default 0); the answer does not depend on it"},
+      {"value-type", "TYPE", "auto, int32, int64 or double: the values the model is held with (default auto)"},
       {"levels", "K", "also list the K lowest distinct energies with their counts (default 1)"},
       {"report", "text|json", "report for people (text, default) or for programs (json)"},
       {"help", nullptr, "show this help"},
@@ -26,16 +28,14 @@ const std::vector<OptionSpec>& exact_options() {
   return specs;
 }
 
-template <class Model>
-std::string exact_report(const LoadedModel& m, const Model& model, const spinwright::ExactResult<double>& r,
-                         double seconds, unsigned threads, bool json) {
+std::string exact_report(const LoadedModel& m, const spinwright::ExactResult<double>& r, double seconds,
+                         unsigned threads, bool json) {
   const bool qubo = m.form == spinwright::Form::qubo;
   double cut = 0, weight = 0;
   if (m.graph) {
-    cut = static_cast<double>(spinwright::cut_value(m.ising, r.spins.data()));
-    weight = static_cast<double>(spinwright::total_weight(m.ising));
+    cut = m.cut(r.spins);
+    weight = m.total_weight();
   }
-  (void)model;
   if (json) {
     JsonWriter j;
     j.begin_object();
@@ -47,6 +47,7 @@ std::string exact_report(const LoadedModel& m, const Model& model, const spinwri
     j.member("nodes", static_cast<std::uint64_t>(m.num_spins()));
     j.member("pairs", static_cast<std::uint64_t>(m.num_pairs()));
     j.member("kernel", "exact");
+    j.member("value_type", value_type_name(m.value_type));
     j.member("threads", threads);
     j.member("seconds", seconds);
     j.member("energy", r.energy);
@@ -80,11 +81,14 @@ std::string exact_report(const LoadedModel& m, const Model& model, const spinwri
   t.line("file", m.path);
   t.line("model", m.description + ", " + std::to_string(m.num_spins()) + (m.graph ? " nodes, " : " variables, ") +
                       std::to_string(m.num_pairs()) + (m.graph ? " edges" : " pairs"));
+  t.line("values", value_type_name(m.value_type));
   t.line("states", std::to_string(r.states) + " visited" +
                        (r.used_flip_symmetry ? " (half of them: E(s) = E(-s) without fields)" : ""));
   t.line("time", seconds_text(seconds) + " on " + std::to_string(threads) + (threads == 1 ? " thread" : " threads"));
-  t.line("ground energy", number_text(r.energy));
-  if (m.graph) t.line("maximum cut", number_text(cut) + " (total weight " + number_text(weight) + ")");
+  t.line("ground energy", energy_text(r.energy, m.energy_bound()));
+  if (m.graph)
+    t.line("maximum cut",
+           energy_text(cut, m.energy_bound()) + " (total weight " + energy_text(weight, m.energy_bound()) + ")");
   t.line("ground states", std::to_string(r.ground_states));
   if (r.levels.size() > 1) {
     for (std::size_t k = 1; k < r.levels.size(); ++k) {
@@ -114,8 +118,10 @@ int run_exact(int argc, const char* const* argv) {
   bool json = false;
   if ((f = report_option(args, "exact", json)).failed()) return fail(f);
 
+  ValueChoice values;
+  if ((f = value_type_option(args, "exact", values)).failed()) return fail(f);
   LoadedModel m;
-  if ((f = load_model(args.positional[0], format, m)).failed()) return fail(f);
+  if ((f = load_model(args.positional[0], format, m, values)).failed()) return fail(f);
   if (m.num_spins() > exact_limit()) {
     return fail(input_failure(m.path + ": exact enumeration is limited to " + std::to_string(exact_limit()) +
                               " spins and this model has " + std::to_string(m.num_spins()) +
@@ -126,18 +132,10 @@ int run_exact(int argc, const char* const* argv) {
   params.stop = &interrupt_token();  // polled every 2^16 states: Ctrl-C ends it without an answer
   unsigned used = threads == 0 ? std::max(1u, std::thread::hardware_concurrency()) : static_cast<unsigned>(threads);
   const double start = spinwright::steady_seconds(nullptr);
-  std::string report;
-  f = visit(m, [&](const auto& model) -> Failure {
-    auto r = spinwright::solve_exact_threads(model, params, used);
-    if (!r && r.status().code == spinwright::StatusCode::stopped) {
-      return interrupted_failure(m.path + ": exact enumeration interrupted (Ctrl-C) before it finished: no answer");
-    }
-    if (!r) return input_failure(m.path + ": " + r.status().message);
-    const double seconds = spinwright::steady_seconds(nullptr) - start;
-    report = exact_report(m, model, r.value(), seconds, used, json);
-    return {};
-  });
-  if (f.failed()) return fail(f);
+  spinwright::ExactResult<double> r;
+  if ((f = enumerate_exact(m, params, used, r)).failed()) return fail(f);
+  const double seconds = spinwright::steady_seconds(nullptr) - start;
+  const std::string report = exact_report(m, r, seconds, used, json);
   if (!write_stdout(report)) return fail(input_failure("spinwright: cannot write the report to standard output"));
   return exit_ok;
 }

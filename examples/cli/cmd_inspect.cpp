@@ -60,6 +60,7 @@ int run_inspect(int argc, const char* const* argv) {
     j.member("format", m.format);
     j.member("form", m.form_name());
     j.member("graph", m.graph);
+    j.member("value_type", value_type_name(m.value_type));
     j.member("nodes", static_cast<std::uint64_t>(g.nodes));
     j.member("pairs", static_cast<std::uint64_t>(g.pairs));
     j.member("min_degree", static_cast<std::uint64_t>(g.min_degree));
@@ -86,6 +87,7 @@ int run_inspect(int argc, const char* const* argv) {
     t.line("file", m.path);
     t.line("format", m.description);
     t.line("form", ising ? "Ising (spins +1/-1)" : "QUBO (bits 0/1)");
+    t.line("values", value_type_name(m.value_type));
     t.line(std::string(unit) + "s", std::to_string(g.nodes));
     std::snprintf(buf, sizeof buf, " (density %.3g%%)", 100 * g.density);
     t.line(count_name, std::to_string(g.pairs) + buf);

@@ -24,9 +24,9 @@ const std::vector<OptionSpec>& verify_options() {
 
 int run_verify(int argc, const char* const* argv) {
   Args args;
-  const int early =
-      parse_or_exit(argc, argv, verify_options(), "verify", "FILE STATEFILE [options]",
-                    "Recomputes the energy (and the cut, for graphs) of the assignment in STATEFILE.", args);
+  const int early = parse_or_exit(argc, argv, verify_options(), "verify", "FILE STATEFILE [options]",
+                                  "Recomputes the energy (and the cut, for graphs) of the assignment in STATEFILE.",
+                                  args, state_file_help);
   if (early >= 0) return early;
   Failure f = expect_positional(args, 2, "verify", "FILE STATEFILE");
   if (f.failed()) return fail(f);
@@ -42,8 +42,8 @@ int run_verify(int argc, const char* const* argv) {
   const double energy = m.energy(spins);
   double cut = 0, weight = 0;
   if (m.graph) {
-    cut = static_cast<double>(spinwright::cut_value(m.ising, spins.data()));
-    weight = static_cast<double>(spinwright::total_weight(m.ising));
+    cut = m.cut(spins);
+    weight = m.total_weight();
   }
   std::size_t minus = 0;
   for (const auto s : spins) minus += s < 0;
@@ -71,8 +71,10 @@ int run_verify(int argc, const char* const* argv) {
     t.line("file", m.path);
     t.line("state", args.positional[1] + " (" + std::to_string(spins.size()) + " values, " + std::to_string(minus) +
                         (m.form == spinwright::Form::qubo ? " ones)" : " spins -1)"));
-    t.line("energy", number_text(energy));
-    if (m.graph) t.line("cut", number_text(cut) + " (total weight " + number_text(weight) + ")");
+    t.line("energy", energy_text(energy, m.energy_bound()));
+    if (m.graph)
+      t.line("cut",
+             energy_text(cut, m.energy_bound()) + " (total weight " + energy_text(weight, m.energy_bound()) + ")");
     report = t.str();
   }
   if (!write_stdout(report)) return fail(input_failure("spinwright: cannot write the report to standard output"));

@@ -6,10 +6,13 @@
 
 #include "args.hpp"
 
-#include <string>  // std::string
-#include <vector>  // std::vector
+#include <cstdint>  // std::uint64_t
+#include <string>   // std::string
+#include <vector>   // std::vector
 
 namespace spinwright_cli {
+
+struct ScheduleOptions;  // runner.hpp
 
 // The whole program: subcommand dispatch (main.cpp); main() of spinwright and of spinwright-mpi.
 int run_command_line(int argc, char** argv);
@@ -24,7 +27,15 @@ int run_bench(int argc, const char* const* argv);
 // Shared by the commands: parses argv against `specs`, prints help (exit 0) or a usage
 // error (exit 2). Returns -1 when the command should go on.
 int parse_or_exit(int argc, const char* const* argv, const std::vector<OptionSpec>& specs, const std::string& command,
-                  const char* synopsis, const char* description, Args& args);
+                  const char* synopsis, const char* description, Args& args, const char* epilogue = nullptr);
+// --plot: at most this many restarts keep a trace; writes an SVG text to PATH (input error
+// naming PATH when it cannot).
+inline constexpr std::uint64_t max_plot_restarts = 100000;
+Failure write_plot(const std::string& path, const std::string& svg);
+// The state-file format, for --help texts (io/state_file.hpp).
+extern const char* const state_file_help;
+// The schedule options --beta-start, --beta-end, --accept-start, --accept-end (usage errors).
+Failure schedule_options(const Args& args, const std::string& command, ScheduleOptions& out);
 // Prints a failure and returns its exit code.
 int fail(const Failure& f);
 // --report text|json; usage error otherwise.

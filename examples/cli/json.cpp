@@ -1,8 +1,9 @@
 // spinwright command-line program — JSON writer.
 #include "json.hpp"
 
-#include <cmath>   // std::isfinite
-#include <cstdio>  // std::snprintf
+#include <cmath>    // std::isfinite, std::floor, std::fabs
+#include <cstdio>   // std::snprintf
+#include <cstdlib>  // std::strtod
 
 namespace spinwright_cli {
 
@@ -50,8 +51,17 @@ std::string json_escape(const std::string& s) {
 
 std::string format_double(double v) {
   if (!std::isfinite(v)) return "null";
+  // Integers in plain digits (exact below 2^53); otherwise the shortest form that reads back
+  // to the same double (at most 17 significant digits).
   char buf[40];
-  std::snprintf(buf, sizeof buf, "%.17g", v);
+  if (v == std::floor(v) && std::fabs(v) < 0x1.0p53) {
+    std::snprintf(buf, sizeof buf, "%.0f", v);
+    return buf;
+  }
+  for (int precision = 1; precision <= 17; ++precision) {
+    std::snprintf(buf, sizeof buf, "%.*g", precision, v);
+    if (std::strtod(buf, nullptr) == v) break;
+  }
   return buf;
 }
 

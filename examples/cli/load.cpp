@@ -1,6 +1,6 @@
-// spinwright command-line program — reading models and states through io/, and the
-// conversion of every model to double values (exact for integer files whose energy range is
-// below 2^53, refused above).
+// spinwright command-line program — reading models and states through io/, and the choice of
+// the value type a model is held with: int32 or int64 for all-integer files (exact), double for
+// files with real values (see load_model in loaded_model.hpp).
 #include "loaded_model.hpp"
 #include "spread.hpp"
 
@@ -8,9 +8,41 @@
 #include <spinwright/io/state_file.hpp>
 #include <spinwright/model/builder.hpp>
 
+#include <cstdint>      // std::int32_t, std::int64_t
+#include <limits>       // std::numeric_limits
 #include <type_traits>  // std::is_integral_v
 
 namespace spinwright_cli {
+
+const char* value_type_name(ValueType v) {
+  switch (v) {
+    case ValueType::int32:
+      return "int32";
+    case ValueType::int64:
+      return "int64";
+    case ValueType::real:
+      break;
+  }
+  return "double";
+}
+
+Failure value_type_option(const Args& args, const std::string& command, ValueChoice& out) {
+  out = ValueChoice{};
+  const std::string* v = args.value("value-type");
+  if (v == nullptr || *v == "auto") return {};
+  out.automatic = false;
+  if (*v == "int32") {
+    out.type = ValueType::int32;
+  } else if (*v == "int64") {
+    out.type = ValueType::int64;
+  } else if (*v == "double") {
+    out.type = ValueType::real;
+  } else {
+    return usage_failure("option '--value-type' expects 'auto', 'int32', 'int64' or 'double', got '" + *v + "'",
+                         "run 'spinwright " + command + " --help' for the options");
+  }
+  return {};
+}
 
 namespace {
 
@@ -18,19 +50,20 @@ std::string io_message(const spinwright::io::IoStatus& st) {
   return st.line == 0 ? st.file + ": " + st.reason : st.message;
 }
 
-// Rebuilds a model with double values; integers are exact below 2^53.
-template <spinwright::Form F, class Value>
-spinwright::Result<spinwright::SparseModel<F, double, std::uint32_t>> to_double(
+// Rebuilds a model with another value type. Callers make sure every value converts exactly
+// (int64 -> int32 within the int32 range; integers -> double below 2^53).
+template <class To, spinwright::Form F, class Value>
+spinwright::Result<spinwright::SparseModel<F, To, std::uint32_t>> convert_values(
     const spinwright::SparseModel<F, Value, std::uint32_t>& m) {
   using Index = std::uint32_t;
   const std::size_t n = m.num_spins();
-  std::conditional_t<F == spinwright::Form::ising, spinwright::IsingBuilder<double, Index>,
-                     spinwright::QuboBuilder<double, Index>>
+  std::conditional_t<F == spinwright::Form::ising, spinwright::IsingBuilder<To, Index>,
+                     spinwright::QuboBuilder<To, Index>>
       b(n);
   b.reserve(m.num_pairs());
   for (std::size_t i = 0; i < n; ++i) {
     const auto ii = static_cast<Index>(i);
-    const double lin = static_cast<double>(m.site_term(ii));
+    const To lin = static_cast<To>(m.site_term(ii));
     if constexpr (F == spinwright::Form::ising) {
       b.add_field(i, lin);
     } else {
@@ -39,14 +72,23 @@ spinwright::Result<spinwright::SparseModel<F, double, std::uint32_t>> to_double(
     m.for_each_neighbour(ii, [&](Index j, Value v) {
       if (j <= ii) return;
       if constexpr (F == spinwright::Form::ising) {
-        b.add_coupling(i, j, static_cast<double>(v));
+        b.add_coupling(i, j, static_cast<To>(v));
       } else {
-        b.add_pair(i, j, static_cast<double>(v));
+        b.add_pair(i, j, static_cast<To>(v));
       }
     });
   }
-  b.add_offset(static_cast<double>(m.offset()));
+  b.add_offset(static_cast<spinwright::energy_t<To>>(m.offset()));
   return b.build();
+}
+
+template <class Value, spinwright::Form F, class From>
+Failure store(const std::string& path, const spinwright::SparseModel<F, From, std::uint32_t>& model,
+              spinwright::SparseModel<F, Value, std::uint32_t>& out) {
+  auto converted = convert_values<Value>(model);
+  if (!converted) return input_failure(path + ": " + converted.status().message);
+  out = std::move(converted).value();
+  return {};
 }
 
 }  // namespace
@@ -78,7 +120,7 @@ Failure load_raw_model(const std::string& path, const std::string& forced, spinw
 
 namespace {
 
-Failure read_model(const std::string& path, const std::string& forced, LoadedModel& out) {
+Failure read_model(const std::string& path, const std::string& forced, LoadedModel& out, const ValueChoice& values) {
   namespace io = spinwright::io;
   io::LoadedModel raw;
   Failure f = load_raw_model(path, forced, raw);
@@ -93,28 +135,56 @@ Failure read_model(const std::string& path, const std::string& forced, LoadedMod
   return raw.visit([&](const auto& model) -> Failure {
     using Model = std::decay_t<decltype(model)>;
     using Value = typename Model::value_type;
+    constexpr bool ising = Model::form == spinwright::Form::ising;
+    ValueType need = ValueType::real;
     if constexpr (std::is_integral_v<Value>) {
-      if (model.energy_bound() >= 0x1.0p53) {
+      need = model.energy_bound() <= static_cast<double>(std::numeric_limits<std::int32_t>::max()) ? ValueType::int32
+                                                                                                   : ValueType::int64;
+    }
+    ValueType use = need;
+    if (!values.automatic) {
+      if (static_cast<int>(values.type) < static_cast<int>(need)) {
+        return input_failure(
+            path + ": --value-type " + value_type_name(values.type) + " cannot hold this model exactly; it needs " +
+            value_type_name(need) +
+            (need == ValueType::int64 ? " (the energy range is beyond 2^31 - 1)" : " (the file has real values)"));
+      }
+      use = values.type;
+    }
+    if constexpr (std::is_integral_v<Value>) {
+      if (use == ValueType::real && model.energy_bound() >= 0x1.0p53) {
         return input_failure(path +
-                             ": integer coefficients too large: the energy range (sum of |coefficients|) "
-                             "reaches 2^53, beyond exact arithmetic in double precision");
+                             ": --value-type double cannot hold this model exactly: the energy range "
+                             "(sum of |coefficients|) reaches 2^53");
       }
     }
-    auto converted = to_double(model);
-    if (!converted) return input_failure(path + ": " + converted.status().message);
-    if constexpr (Model::form == spinwright::Form::ising) {
-      out.ising = std::move(converted).value();
-    } else {
-      out.qubo = std::move(converted).value();
+    out.value_type = use;
+    switch (use) {
+      case ValueType::int32:
+        if constexpr (std::is_integral_v<Value>) {
+          if constexpr (ising) return store<std::int32_t>(path, model, out.ising32);
+          if constexpr (!ising) return store<std::int32_t>(path, model, out.qubo32);
+        }
+        break;
+      case ValueType::int64:
+        if constexpr (std::is_integral_v<Value>) {
+          if constexpr (ising) return store<std::int64_t>(path, model, out.ising64);
+          if constexpr (!ising) return store<std::int64_t>(path, model, out.qubo64);
+        }
+        break;
+      case ValueType::real:
+        if constexpr (ising) return store<double>(path, model, out.ising);
+        if constexpr (!ising) return store<double>(path, model, out.qubo);
+        break;
     }
-    return {};
+    return input_failure(path + ": internal error: no value type for this model");
   });
 }
 
 }  // namespace
 
-Failure load_model(const std::string& path, const std::string& forced, LoadedModel& out) {
-  Failure f = read_model(path, forced, out);
+Failure load_model(const std::string& path, const std::string& forced, LoadedModel& out, const ValueChoice& values) {
+  Failure f = read_model(path, forced, out, values);
   // Under spinwright-mpi every rank reads the file; all go on only if all could.
   if (!job_agree(!f.failed()) && !f.failed()) {
     return input_failure(path + ": another rank of the job could not read this file (its message is on that rank)");

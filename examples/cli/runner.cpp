@@ -1,46 +1,26 @@
-// spinwright command-line program — kernel dispatch over restarts. Every kernel is
-// instantiated here, and only here, for the two model types of the program.
+// spinwright command-line program — kernel dispatch over restarts. The kernels themselves are
+// instantiated in runner_<type>.cpp, one translation unit per value type (runner_kernels.hpp).
 #include "runner.hpp"
 
 #include "spread.hpp"
 
 #include <spinwright/control/steady_clock.hpp>
-#include <spinwright/kernels/anneal.hpp>
 #include <spinwright/kernels/auto.hpp>
-#include <spinwright/kernels/descent.hpp>
-#include <spinwright/kernels/exact.hpp>
-#include <spinwright/kernels/population.hpp>
-#include <spinwright/kernels/quantum_anneal.hpp>
-#include <spinwright/kernels/tabu.hpp>
-#include <spinwright/kernels/temper.hpp>
-#include <spinwright/parallel/exact_threads.hpp>
-#include <spinwright/parallel/restarts.hpp>
 
-#include <algorithm>  // std::max
-#include <atomic>     // std::atomic
-#include <cmath>      // std::ceil
+#include <algorithm>  // std::max, std::min
 #include <thread>     // std::thread::hardware_concurrency
 
 namespace spinwright_cli {
 
 const char* kernel_name(Kernel k) {
   switch (k) {
-    case Kernel::anneal:
-      return "anneal";
-    case Kernel::temper:
-      return "temper";
-    case Kernel::tabu:
-      return "tabu";
-    case Kernel::descent:
-      return "descent";
-    case Kernel::exact:
-      return "exact";
     case Kernel::sqa:
       return "sqa";
     case Kernel::population:
       return "population";
+    default:
+      return spinwright::to_string(static_cast<spinwright::KernelKind>(k));
   }
-  return "anneal";
 }
 
 bool kernel_from_name(const std::string& name, bool& is_auto, Kernel& out) {
@@ -58,35 +38,17 @@ bool kernel_from_name(const std::string& name, bool& is_auto, Kernel& out) {
 
 std::size_t exact_limit() { return spinwright::exact_default_limit; }
 
-namespace {
-Kernel from_kind(spinwright::KernelKind k) {
-  switch (k) {
-    case spinwright::KernelKind::anneal:
-      return Kernel::anneal;
-    case spinwright::KernelKind::temper:
-      return Kernel::temper;
-    case spinwright::KernelKind::tabu:
-      return Kernel::tabu;
-    case spinwright::KernelKind::descent:
-      return Kernel::descent;
-    case spinwright::KernelKind::exact:
-      return Kernel::exact;
-  }
-  return Kernel::anneal;
-}
-}  // namespace
-
 AutoPick auto_choice(const LoadedModel& m) {
   const spinwright::AutoChoice c = visit(m, [](const auto& model) { return spinwright::choose_kernel(model); });
   AutoPick pick;
-  pick.kernel = from_kind(c.kernel);
+  pick.kernel = kernel_of(c.kernel);
   pick.sweeps = c.sweeps;
   pick.reason = c.reason;
   return pick;
 }
 
 Kernel auto_fill_choice(const LoadedModel& m) {
-  return from_kind(visit(m, [](const auto& model) { return spinwright::auto_fill_kernel(model); }));
+  return kernel_of(visit(m, [](const auto& model) { return spinwright::auto_fill_kernel(model); }));
 }
 
 std::uint64_t count_at(const spinwright::Tally<double>& tally, double energy, double scale) {
@@ -95,146 +57,6 @@ std::uint64_t count_at(const spinwright::Tally<double>& tally, double energy, do
   for (const double e : tally.energies()) k += e <= energy + tol;
   return k;
 }
-
-namespace {
-
-bool cut(const spinwright::Solution<double>& s) {
-  return s.reason == spinwright::StopReason::stopped || s.reason == spinwright::StopReason::deadline;
-}
-
-// The closing descent of annealing and tempering: steepest after a full schedule; after a
-// deadline cut the schedule short (the best state may still be far from a local minimum), the
-// cheaper first-improvement descent, so the limit is passed by one descent at most; none after
-// Ctrl-C, which must stop promptly.
-template <class Model>
-spinwright::Solution<double> finish(const Model& model, const spinwright::Solution<double>& s) {
-  if (s.reason == spinwright::StopReason::stopped) return s;
-  if (s.reason == spinwright::StopReason::deadline) {
-    return spinwright::polish(model, s, spinwright::DescentRule::first_improvement);
-  }
-  return spinwright::polish(model, s, spinwright::DescentRule::steepest);
-}
-
-// Feeds the progress line; kernels call it from their own thread.
-struct ProgressObserver {
-  ProgressCounters* counters = nullptr;
-  void on_improvement(std::uint64_t, double energy) {
-    if (counters != nullptr) counters->best.offer(energy);
-  }
-};
-
-template <class Model>
-spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o, std::uint64_t r, double run_start,
-                                         std::atomic<std::uint64_t>& cut_short) {
-  spinwright::Budget budget;
-  budget.sweeps = o.sweeps;
-  budget.stop = &interrupt_token();
-  if (o.has_target) budget.with_target(o.target);
-  if (o.time_limit < std::numeric_limits<double>::infinity()) {
-    // An equal share of the limit per restart (the restarts run `threads` at a time on each
-    // rank), and never more than what is left of the whole run.
-    const double waves =
-        std::ceil(static_cast<double>(o.restarts) / (static_cast<double>(o.threads) * static_cast<double>(job_ranks())));
-    const double share = o.time_limit / (waves < 1 ? 1 : waves);
-    const double left = o.time_limit - (spinwright::steady_seconds(nullptr) - run_start);
-    budget.with_time_limit(std::max(0.0, std::min(share, left)), spinwright::steady_clock());
-  } else {
-    budget.clock = spinwright::steady_clock();  // for Solution::seconds
-  }
-  ProgressObserver observer{o.progress};
-  const std::int8_t* warm = o.warm != nullptr ? o.warm->data() : nullptr;
-  spinwright::Solution<double> s;
-  if (o.fill_time) {
-    s = spinwright::solve_auto(model, o.seed, r, budget);
-    if (s.reason == spinwright::StopReason::stopped) cut_short.fetch_add(1, std::memory_order_relaxed);
-    if (o.progress != nullptr) {
-      o.progress->best.offer(s.energy);
-      o.progress->restarts_done.fetch_add(1, std::memory_order_relaxed);
-    }
-    return s;
-  }
-  switch (o.kernel) {
-    case Kernel::anneal: {
-      spinwright::AnnealParams p;
-      p.initial = warm;
-      s = spinwright::anneal(model, p, o.seed, r, budget, observer);
-      // Annealing keeps the best state seen at sweep ends; a descent takes it to the local
-      // minimum below (never raises the energy).
-      s = finish(model, s);
-      break;
-    }
-    case Kernel::descent: {
-      spinwright::DescentParams p;
-      p.initial = warm;
-      s = spinwright::descend(model, p, o.seed, r, budget);
-      break;
-    }
-    case Kernel::temper: {
-      spinwright::TemperParams p;
-      p.initial = warm;
-      s = static_cast<spinwright::Solution<double>>(spinwright::temper(model, p, o.seed, r, budget, observer));
-      s = finish(model, s);
-      break;
-    }
-    case Kernel::tabu: {
-      spinwright::TabuParams p;
-      p.initial = warm;
-      s = spinwright::tabu_walk(model, p, o.seed, r, budget, observer);
-      break;
-    }
-    case Kernel::sqa: {
-      spinwright::QuantumAnnealParams p;
-      p.initial = warm;
-      s = finish(model, spinwright::quantum_anneal(model, p, o.seed, r, budget, observer));
-      break;
-    }
-    case Kernel::population: {
-      spinwright::PopulationParams p;
-      p.initial = warm;
-      s = finish(model, spinwright::population_anneal(model, p, o.seed, r, budget, observer));
-      break;
-    }
-    case Kernel::exact:
-      break;  // run_exact_kernel
-  }
-  if (cut(s)) {
-    cut_short.fetch_add(1, std::memory_order_relaxed);
-  }
-  if (o.progress != nullptr) {
-    o.progress->best.offer(s.energy);
-    o.progress->restarts_done.fetch_add(1, std::memory_order_relaxed);
-  }
-  return s;
-}
-
-template <class Model>
-Failure run_exact_kernel(const LoadedModel& m, const Model& model, const RunOptions& o, RunResult& out) {
-  spinwright::ExactParams params;
-  params.stop = &interrupt_token();  // polled every 2^16 states: Ctrl-C ends it without an answer
-  const double start = spinwright::steady_seconds(nullptr);
-  auto result = spinwright::solve_exact_threads(model, params, o.threads);
-  if (!result && result.status().code == spinwright::StatusCode::stopped) {
-    return interrupted_failure(m.path + ": exact enumeration interrupted (Ctrl-C) before it finished: no answer");
-  }
-  if (!result) {
-    return input_failure(m.path + ": exact enumeration refused: the model has " + std::to_string(m.num_spins()) +
-                         " spins and the limit is " + std::to_string(exact_limit()));
-  }
-  spinwright::Solution<double> s;
-  s.spins = result->spins;
-  s.energy = static_cast<double>(result->energy);
-  s.seconds = spinwright::steady_seconds(nullptr) - start;
-  s.sweeps = 0;
-  out.tally = spinwright::Tally<double>();
-  out.tally.add(std::move(s));
-  out.exact = true;
-  out.ground_count = result->ground_states;
-  out.threads = o.threads;
-  if (o.progress != nullptr) o.progress->restarts_done.store(1);
-  return {};
-}
-
-}  // namespace
 
 Failure check_restarts(const LoadedModel& m, std::uint64_t restarts, const std::string& command) {
   // Every restart keeps its best state until the tally is assembled.
@@ -247,22 +69,39 @@ Failure check_restarts(const LoadedModel& m, std::uint64_t restarts, const std::
   return {};
 }
 
+Failure enumerate_exact(const LoadedModel& m, const spinwright::ExactParams& params, unsigned threads,
+                        spinwright::ExactResult<double>& out) {
+  return visit(m, [&](const auto& model) { return detail::exact_on(m, model, params, threads, out); });
+}
+
 Failure run_kernel(const LoadedModel& m, const RunOptions& options, RunResult& out) {
   RunOptions o = options;
   if (o.threads == 0) o.threads = std::max(1u, std::thread::hardware_concurrency());
+  out.value_type = m.value_type;
   const double start = spinwright::steady_seconds(nullptr);
   Failure f;
   if (o.kernel == Kernel::exact) {
-    f = visit(m, [&](const auto& model) { return run_exact_kernel(m, model, o, out); });
+    spinwright::ExactParams params;
+    params.stop = &interrupt_token();  // polled every 2^16 states: Ctrl-C ends it without an answer
+    spinwright::ExactResult<double> r;
+    f = enumerate_exact(m, params, o.threads, r);
+    if (!f.failed()) {
+      spinwright::Solution<double> s;
+      s.spins = r.spins;
+      s.energy = r.energy;
+      s.seconds = spinwright::steady_seconds(nullptr) - start;
+      s.sweeps = 0;
+      out.tally = spinwright::Tally<double>();
+      out.tally.add(std::move(s));
+      out.exact = true;
+      out.ground_count = r.ground_states;
+      out.threads = o.threads;
+      if (o.progress != nullptr) o.progress->restarts_done.store(1);
+    }
   } else {
     out.threads = static_cast<unsigned>(std::min<std::uint64_t>(o.threads, std::max<std::uint64_t>(o.restarts, 1)));
     o.threads = out.threads;
-    std::atomic<std::uint64_t> cut_short{0};
-    out.tally = visit(m, [&](const auto& model) {
-      return spread_restarts<double>(
-          o.restarts, o.threads, [&](std::uint64_t r) { return one_restart(model, o, r, start, cut_short); });
-    });
-    out.cut_short = cut_short.load();
+    f = visit(m, [&](const auto& model) { return detail::run_restarts_on(m, model, o, start, out); });
   }
   out.seconds = spinwright::steady_seconds(nullptr) - start;
   out.interrupted = interrupted();

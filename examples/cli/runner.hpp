@@ -6,9 +6,14 @@
 #define SPINWRIGHT_CLI_RUNNER_HPP
 
 #include "loaded_model.hpp"
+#include "plot.hpp"
 #include "progress.hpp"
 
+#include <spinwright/kernels/auto.hpp>
+#include <spinwright/kernels/exact.hpp>
 #include <spinwright/stats/tally.hpp>
+
+#include <atomic>  // std::atomic
 
 #include <cstdint>  // std::uint64_t
 #include <limits>   // std::numeric_limits
@@ -17,8 +22,19 @@
 
 namespace spinwright_cli {
 
-enum class Kernel { anneal, temper, tabu, descent, exact, sqa, population };
-
+// The library's KernelKind (kernels/auto.hpp), with the same values, and after them the
+// kernels that the automatic choice never picks (quantum annealing, population annealing).
+enum class Kernel : std::uint8_t {
+  anneal = static_cast<std::uint8_t>(spinwright::KernelKind::anneal),
+  temper = static_cast<std::uint8_t>(spinwright::KernelKind::temper),
+  tabu = static_cast<std::uint8_t>(spinwright::KernelKind::tabu),
+  descent = static_cast<std::uint8_t>(spinwright::KernelKind::descent),
+  exact = static_cast<std::uint8_t>(spinwright::KernelKind::exact),
+  sqa = 64,
+  population,
+};
+inline Kernel kernel_of(spinwright::KernelKind k) { return static_cast<Kernel>(k); }
+// spinwright::to_string for the library's kinds.
 const char* kernel_name(Kernel k);
 // "auto" is resolved by choose_kernel; false for an unknown name.
 bool kernel_from_name(const std::string& name, bool& is_auto, Kernel& out);
@@ -40,9 +56,26 @@ Kernel auto_fill_choice(const LoadedModel& m);
 // Largest N the exact kernel takes from the command line.
 std::size_t exact_limit();
 
+// Schedule options of annealing and tempering (0: not given). Each end is given as an inverse
+// temperature or as an acceptance probability: at the start, of a typical uphill flip (the
+// beta span's hot delta), at the end, of the smallest uphill step (its cold delta), so
+// beta = -ln(p) / delta. An end not given keeps the automatic beta span (kernels/beta_span.hpp).
+struct ScheduleOptions {
+  double beta_start = 0;
+  double beta_end = 0;
+  double accept_start = 0;
+  double accept_end = 0;
+  bool given() const { return beta_start > 0 || beta_end > 0 || accept_start > 0 || accept_end > 0; }
+};
+
 struct RunOptions {
   Kernel kernel = Kernel::anneal;
   std::uint64_t sweeps = 0;  // per restart; 0: the kernel's default
+  // A time limit without a sweep count for a kernel named on the command line: the restarts
+  // run until their share of the limit (sweeps unlimited); annealing follows the elapsed
+  // fraction of the limit along its schedule, so it ends cold at the deadline.
+  bool time_driven = false;
+  ScheduleOptions schedule;
   std::uint64_t restarts = 1;
   unsigned threads = 1;
   std::uint64_t seed = 1;
@@ -55,10 +88,16 @@ struct RunOptions {
   // what the report names. Ending at the deadline is that mode's normal end, not a cut.
   bool fill_time = false;
   ProgressCounters* progress = nullptr;
+  // When set (sized by the caller), restart r < traces->size() records its trace: every new
+  // best the kernel reports, and the final (polished) state (`--plot`).
+  std::vector<Trace>* traces = nullptr;
 };
 
 struct RunResult {
   spinwright::Tally<double> tally;
+  ValueType value_type = ValueType::real;  // the value type the kernels ran on
+  double beta_start = 0;                   // the schedule's ends (annealing, tempering; 0 otherwise)
+  double beta_end = 0;
   double seconds = 0;              // wall time of the whole run (file reading excluded)
   unsigned threads = 1;            // threads actually used
   bool interrupted = false;        // Ctrl-C
@@ -74,9 +113,22 @@ std::uint64_t count_at(const spinwright::Tally<double>& tally, double energy, do
 inline constexpr std::uint64_t max_restart_bytes = std::uint64_t{1} << 30;
 Failure check_restarts(const LoadedModel& m, std::uint64_t restarts, const std::string& command);
 
+// The exact enumeration of cmd_exact, on the model's own value type, energies as double.
+Failure enumerate_exact(const LoadedModel& m, const spinwright::ExactParams& params, unsigned threads,
+                        spinwright::ExactResult<double>& out);
+
 // Runs `options.kernel` on the model. Fails (input error) only when the kernel refuses the
 // model (e.g. exact beyond its limit).
 Failure run_kernel(const LoadedModel& m, const RunOptions& options, RunResult& out);
+
+namespace detail {
+// One value type's kernels (runner_kernels.hpp, instantiated in runner_<type>.cpp).
+template <class Model>
+Failure run_restarts_on(const LoadedModel& m, const Model& model, const RunOptions& o, double start, RunResult& out);
+template <class Model>
+Failure exact_on(const LoadedModel& m, const Model& model, const spinwright::ExactParams& params, unsigned threads,
+                 spinwright::ExactResult<double>& out);
+}  // namespace detail
 
 }  // namespace spinwright_cli
 

@@ -2,7 +2,7 @@
 #include "text.hpp"
 
 #include <algorithm>  // std::max
-#include <cmath>      // std::isfinite, std::fabs
+#include <cmath>      // std::isfinite, std::fabs, std::floor
 #include <cstdio>     // std::snprintf, std::fwrite, std::fflush, std::fputs
 #include <cstdlib>    // std::strtod
 
@@ -60,11 +60,26 @@ std::string number_text(double v) {
   if (std::isnan(v)) return "nan";
   if (!std::isfinite(v)) return v > 0 ? "inf" : "-inf";
   char buf[40];
+  if (v == std::floor(v) && std::fabs(v) < 0x1.0p53) {  // integers in plain digits
+    std::snprintf(buf, sizeof buf, "%.0f", v);
+    return buf;
+  }
   for (int precision = 6; precision <= 17; ++precision) {
     std::snprintf(buf, sizeof buf, "%.*g", precision, v);
     if (std::strtod(buf, nullptr) == v) break;
   }
   return buf;
+}
+
+std::string energy_text(double v, double scale) {
+  if (!std::isfinite(v) || v == std::floor(v)) return number_text(v);
+  const double tol = 1e-12 * (scale > 1 ? scale : 1.0);
+  char buf[40];
+  for (int precision = 1; precision <= 17; ++precision) {
+    std::snprintf(buf, sizeof buf, "%.*g", precision, v);
+    if (std::fabs(std::strtod(buf, nullptr) - v) <= tol) return buf;
+  }
+  return number_text(v);
 }
 
 std::string seconds_text(double s) {

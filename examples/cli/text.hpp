@@ -5,6 +5,7 @@
 
 #include "args.hpp"
 
+#include <cstddef>  // std::size_t
 #include <cstdint>  // std::int8_t
 #include <string>   // std::string
 #include <utility>  // std::pair
@@ -34,10 +35,17 @@ class TextTable {
   std::vector<std::vector<std::string>> rows_;
 };
 
-std::string number_text(double v);         // shortest exact form: %.17g trimmed to what reads back equal
-std::string seconds_text(double seconds);  // "0.0123 s", "12.3 s"
-std::string probability_text(double p);    // "0.625"
-std::string bytes_text(double bytes);      // "1.2 MiB"
+// The text report leaves out the spins line of a model with more spins than this (JSON and
+// --state-out keep the state).
+inline constexpr std::size_t max_text_spins = 100;
+
+std::string number_text(double v);  // shortest exact form: %.17g trimmed to what reads back equal
+// An energy for people: the shortest form within the rounding of a floating model's arithmetic,
+// 1e-12 of its energy range `scale` (exact for integers: number_text).
+std::string energy_text(double v, double scale);
+std::string seconds_text(double seconds);                                     // "0.0123 s", "12.3 s"
+std::string probability_text(double p);                                       // "0.625"
+std::string bytes_text(double bytes);                                         // "1.2 MiB"
 std::string spins_text(const std::vector<std::int8_t>& spins, bool as_bits);  // "+-+..." or "010..."
 
 // Writes a whole report to stdout at once; false when stdout cannot take it.

@@ -93,6 +93,19 @@ Graph cycle(int n) {
   return g;
 }
 
+// No single flip lowers E(s) = sum w s_i s_j (flip delta of spin k: -2 s_k sum_j w_kj s_j).
+bool local_minimum(const Graph& g, const std::vector<int>& s) {
+  std::vector<std::int64_t> field(s.size(), 0);
+  for (const auto& e : g.edges) {
+    field[e.i - 1] += e.w * s[e.j - 1];
+    field[e.j - 1] += e.w * s[e.i - 1];
+  }
+  for (std::size_t k = 0; k < s.size(); ++k) {
+    if (-2 * s[k] * field[k] < 0) return false;
+  }
+  return true;
+}
+
 Json parse_ok(const RunOutput& r) {
   Json j;
   const bool ok = cli_test::parse_json(r.out, j);
@@ -203,8 +216,9 @@ TEST_CASE("cli: every bad input exits 1 with file:line: reason and no output") {
       // An integer Matrix Market file: the value type is int64_t, and this entry does not fit it.
       {"overflow_int.mtx", "%%MatrixMarket matrix coordinate integer general\n2 2 1\n1 2 99999999999999999999999\n",
        "overflow_int.mtx:3:"},
-      // Fits int64_t, but the program keeps integer models exact in double only below 2^53.
-      {"beyond_2_53.txt", "3 2\n1 2 18014398509481984\n2 3 1\n", "beyond_2_53.txt:"},
+      // Fits int64_t, but the energy range passes the library's integer_energy_limit
+      // (INT64_MAX / 4): refused, never run with overflowing energies. (2^54 now runs as int64.)
+      {"beyond_limit.txt", "3 2\n1 2 4611686018427387904\n2 3 1\n", "beyond_limit.txt:"},
       {"absurd.txt", "1000000000000 1\n1 2 1\n", "absurd.txt:1:"},
       {"absurd_edges.txt", "4 1000000000000\n1 2 1\n", "absurd_edges.txt:"},
       {"array.mtx", "%%MatrixMarket matrix array real general\n2 2\n1\n2\n3\n4\n", "array.mtx:1:"},
@@ -672,6 +686,9 @@ TEST_CASE("cli: Ctrl-C stops a long run, prints the best state so far and exits 
   REQUIRE(s.size() == 3000);
   CHECK(static_cast<std::int64_t>(j["energy"].num) == g.energy(s));
   CHECK(static_cast<std::int64_t>(j["cut"].num) == g.cut(s));
+  // The run was stopped hot (0.7 s of a 10^9-sweep schedule): the bounded closing descent
+  // after Ctrl-C still reports a single-flip local minimum.
+  CHECK(local_minimum(g, s));
   // Text report: the best state is printed too.
   const RunOutput t = cli_test::run_process(
       exe, {"solve", path, "--kernel", "tabu", "--sweeps", "1000000000", "--restarts", "1"}, dir, 0.7, 60);
@@ -787,8 +804,338 @@ TEST_CASE("cli: on a terminal a long run shows the progress line on stderr, unle
     } else {
       CHECK(tty.find("elapsed") != std::string::npos);
       CHECK(tty.find("restarts") != std::string::npos);
+      // The best energy so far is shown while both restarts are still running (0/2 done).
+      CHECK(tty.find("restarts 0/2   best energy ") != std::string::npos);
       CHECK(tty.find('\r') != std::string::npos);  // redrawn in place
       CHECK(tty.find('\n') == std::string::npos);  // a single line, never scrolled
     }
   }
+}
+
+TEST_CASE("cli: integer files run on int32 or int64 values, real files on double; the report names the type") {
+  // The rule of docs/cli.md: all-integer values with an energy range (sum of |coefficients|)
+  // up to 2^31 - 1 -> int32; other all-integer files -> int64; real values -> double. Integer
+  // kernels use the same random stream for int32 and int64 (common practice: the value type
+  // changes the arithmetic width, never the chain), so both give the same spins.
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const Graph g = random_graph(50, 200, -4, 6, 5);
+  const std::string small = dir.write("small.txt", g.edge_list());
+  const std::vector<std::string> common = {"--kernel", "anneal", "--restarts", "3",   "--threads", "1",
+                                           "--seed",   "9",      "--sweeps",   "200", "--report",  "json"};
+  auto solve = [&](const std::string& path, std::vector<std::string> extra) {
+    std::vector<std::string> a = {"solve", path};
+    a.insert(a.end(), common.begin(), common.end());
+    a.insert(a.end(), extra.begin(), extra.end());
+    return run(dir, a);
+  };
+  const RunOutput r32 = solve(small, {});
+  REQUIRE(r32.code == 0);
+  const Json j32 = parse_ok(r32);
+  CHECK(j32["value_type"].text == "int32");
+  const RunOutput r64 = solve(small, {"--value-type", "int64"});
+  REQUIRE(r64.code == 0);
+  const Json j64 = parse_ok(r64);
+  CHECK(j64["value_type"].text == "int64");
+  CHECK(spins_of(j32) == spins_of(j64));
+  CHECK(j32["energy"].num == j64["energy"].num);
+  CHECK(static_cast<std::int64_t>(j32["energy"].num) == g.energy(spins_of(j32)));
+  const RunOutput text = run(dir, {"solve", small, "--sweeps", "50", "--restarts", "1", "--quiet"});
+  CHECK(text.out.find("\nvalues ") != std::string::npos);
+  CHECK(text.out.find("int32\n") != std::string::npos);
+
+  // Weights of 10^9: the energy range passes 2^31 - 1, so int64; int32 is refused by name.
+  Graph big = g;
+  for (auto& e : big.edges) e.w *= 1000000000;
+  const std::string wide = dir.write("wide.txt", big.edge_list());
+  const RunOutput rb = solve(wide, {});
+  REQUIRE(rb.code == 0);
+  const Json jb = parse_ok(rb);
+  CHECK(jb["value_type"].text == "int64");
+  CHECK(static_cast<std::int64_t>(jb["energy"].num) == big.energy(spins_of(jb)));
+  const RunOutput refused = solve(wide, {"--value-type", "int32"});
+  check_input_error(refused, wide + ": --value-type int32");
+
+  // A real weight anywhere: double.
+  const std::string real = dir.write("real.txt", "3 2\n1 2 1.5\n2 3 -2\n");
+  const RunOutput rr = solve(real, {});
+  REQUIRE(rr.code == 0);
+  CHECK(parse_ok(rr)["value_type"].text == "double");
+  check_usage_error(solve(small, {"--value-type", "int16"}));
+}
+
+TEST_CASE("cli: help texts give the sweep default auto uses and describe the state-file format") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const RunOutput solve = run(dir, {"solve", "--help"});
+  CHECK(solve.code == 0);
+  // The library's rule (kernels/auto.hpp): 4000 sweeps up to 10^4 spins; inspect shows the same.
+  CHECK(solve.out.find("4000 / 2000 / 1000") != std::string::npos);
+  const std::string path = dir.write("g.txt", random_graph(300, 900, -1, 1, 2).edge_list());
+  const Json in = parse_ok(run(dir, {"inspect", path, "--report", "json"}));
+  CHECK(in["auto_sweeps"].num == 4000);
+  for (const char* command : {"solve", "verify"}) {
+    CAPTURE(command);
+    const RunOutput h = run(dir, {command, "--help"});
+    CHECK(h.code == 0);
+    CHECK(h.out.find("State files") != std::string::npos);
+    CHECK(h.out.find("'+' or '-' for spins") != std::string::npos);
+    CHECK(h.out.find("'0' / '1' for bits") != std::string::npos);
+  }
+}
+
+TEST_CASE("cli: the text report leaves out the spins line beyond 100 spins; JSON and --state-out keep the state") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const std::string small = dir.write("small.txt", random_graph(100, 300, -1, 1, 3).edge_list());
+  const std::string big = dir.write("big.txt", random_graph(101, 300, -1, 1, 3).edge_list());
+  const std::vector<std::string> opts = {"--kernel", "anneal", "--sweeps", "50", "--restarts", "1", "--quiet"};
+  auto solve = [&](const std::string& path, std::vector<std::string> extra) {
+    std::vector<std::string> a = {"solve", path};
+    a.insert(a.end(), opts.begin(), opts.end());
+    a.insert(a.end(), extra.begin(), extra.end());
+    return run(dir, a);
+  };
+  const RunOutput s100 = solve(small, {});
+  REQUIRE(s100.code == 0);
+  const std::size_t at = s100.out.find("\nspins ");
+  REQUIRE(at != std::string::npos);
+  const std::string line = s100.out.substr(at + 1, s100.out.find('\n', at + 1) - at - 1);
+  CHECK(line.size() > 100);  // "spins" label and 100 characters
+  const std::string best_path = dir.file("best.txt");
+  const RunOutput s101 = solve(big, {"--state-out", best_path});
+  REQUIRE(s101.code == 0);
+  CHECK(s101.out.find("not shown for more than 100 spins") != std::string::npos);
+  CHECK(s101.out.find("++") == std::string::npos);
+  CHECK(s101.out.find("--+") == std::string::npos);
+  std::size_t values = 0;
+  std::istringstream state(cli_test::read_file(best_path));
+  for (std::string l; std::getline(state, l);) values += l == "+" || l == "-";
+  CHECK(values == 101);
+  const Json j = parse_ok(solve(big, {"--report", "json"}));
+  CHECK(spins_of(j).size() == 101);
+}
+
+TEST_CASE("cli: real numbers print with the shortest digits; a convert error gives its advice once") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  // 0.1 + 0.2 is 0.30000000000000004 in binary64 (IEEE 754-2008; Goldberg, ACM Computing
+  // Surveys 23, 1991): JSON keeps the shortest text that reads back to the same double, the text
+  // report the shortest within the rounding of the model's arithmetic.
+  const std::string path = dir.write("real.txt", "3 2\n1 2 0.1\n2 3 0.2\n");
+  const RunOutput j = run(dir, {"inspect", path, "--report", "json"});
+  REQUIRE(j.code == 0);
+  CHECK(j.out.find("\"pair_min\": 0.1,") != std::string::npos);
+  CHECK(j.out.find("0.10000000000000001") == std::string::npos);
+  const RunOutput t = run(dir, {"solve", path, "--kernel", "anneal", "--sweeps", "20", "--restarts", "1", "--quiet"});
+  REQUIRE(t.code == 0);
+  INFO(t.out);
+  CHECK(t.out.find("\nenergy ") != std::string::npos);
+  CHECK(t.out.find("-0.3\n") != std::string::npos);
+  CHECK(t.out.find("0.30000000000000004") == std::string::npos);
+  // Integers stay plain digits, however few significant digits would read back.
+  const std::string heavy = dir.write("heavy.txt", "2 1\n1 2 19990\n");
+  const RunOutput h = run(dir, {"solve", heavy, "--report", "json"});
+  REQUIRE(h.code == 0);
+  CHECK(h.out.find("\"total_weight\": 19990,") != std::string::npos);
+  CHECK(h.out.find("\"cut\": 19990,") != std::string::npos);
+  const RunOutput ht = run(dir, {"solve", heavy});
+  CHECK(ht.out.find("19990 (total weight 19990)") != std::string::npos);
+  // A model with a field written as an edge list: the reason and its advice, once.
+  const std::string mtx = dir.write(
+      "f.mtx", "%%MatrixMarket matrix coordinate integer general\n% spinwright form ising\n2 2 2\n1 1 3\n1 2 1\n");
+  const RunOutput c = run(dir, {"convert", mtx, dir.file("out.txt"), "--to", "ising"});
+  CHECK(c.code == 1);
+  CHECK(count_lines(c.err) == 1);
+  const auto first = c.err.find("Matrix Market");
+  REQUIRE(first != std::string::npos);
+  CHECK(c.err.find("Matrix Market", first + 1) == std::string::npos);
+  CHECK(c.err.find("--out-format mtx") != std::string::npos);
+}
+
+TEST_CASE("cli: a kernel named with a time limit fills it; annealing with a huge sweep count still ends cold") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const Graph g = random_graph(50, 150, -2, 3, 8);
+  const std::string path = dir.write("g.txt", g.edge_list());
+  const RunOutput r = cli_test::run_process(
+      exe, {"solve", path, "--kernel", "anneal", "--time-limit", "0.6", "--restarts", "1", "--report", "json"}, dir, 0,
+      60);
+  REQUIRE(r.code == 0);
+  const Json j = parse_ok(r);
+  CHECK(j["time_driven"].b);
+  CHECK(j["cut_short"].num == 0);  // ending at the deadline is the plan, not a cut
+  // The default of 1000 sweeps no longer ends the run: a 50-spin sweep takes microseconds.
+  CHECK(j["sweeps"].num > 5000);
+  CHECK(local_minimum(g, spins_of(j)));
+  // 10^9 planned sweeps under a time limit: the schedule follows the elapsed fraction of the
+  // limit (kernels/anneal.hpp), so the run is cut short but ends cold.
+  const Graph h = random_graph(1000, 3000, -1, 1, 21);
+  const std::string big = dir.write("h.txt", h.edge_list());
+  const RunOutput cold = cli_test::run_process(exe,
+                                               {"solve", big, "--kernel", "anneal", "--sweeps", "1000000000",
+                                                "--time-limit", "0.8", "--restarts", "1", "--report", "json"},
+                                               dir, 0, 60);
+  REQUIRE(cold.code == 0);
+  const Json jc = parse_ok(cold);
+  CHECK(jc["cut_short"].num == 1);
+  CHECK_FALSE(jc["time_driven"].b);
+  // Descent from random states is what a run cut off hot amounts to (hot state + descent):
+  // the cold end must beat the best of 16 such descents by a clear margin.
+  const Json jd = parse_ok(run(dir, {"solve", big, "--kernel", "descent", "--restarts", "16", "--report", "json"}));
+  INFO("cold " << jc["energy"].num << ", best descent " << jd["energy"].num);
+  CHECK(jc["energy"].num < jd["energy"].num - 0.05 * static_cast<double>(h.edges.size()));
+}
+
+TEST_CASE("cli: schedule options set the ends of annealing and tempering; misuse is a usage error") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const Graph g = random_graph(80, 240, -1, 1, 13);
+  const std::string path = dir.write("g.txt", g.edge_list());
+  auto solve = [&](std::vector<std::string> extra) {
+    std::vector<std::string> a = {"solve", path, "--sweeps", "100", "--restarts", "2", "--report", "json"};
+    a.insert(a.end(), extra.begin(), extra.end());
+    return run(dir, a);
+  };
+  const Json b = parse_ok(solve({"--kernel", "anneal", "--beta-start", "0.25", "--beta-end", "3"}));
+  CHECK(b["beta_start"].num == 0.25);
+  CHECK(b["beta_end"].num == 3);
+  CHECK(static_cast<std::int64_t>(b["energy"].num) == g.energy(spins_of(b)));
+  // Acceptance ends: beta = -ln(p) / delta, with the cold delta 2 min |J| = 2 for +-1 couplings
+  // (the beta span rule of kernels/beta_span.hpp; Metropolis acceptance exp(-beta delta),
+  // Metropolis et al., J. Chem. Phys. 21, 1953).
+  const Json a = parse_ok(solve({"--kernel", "temper", "--accept-end", "0.01", "--beta-start", "0.1"}));
+  CHECK(a["beta_end"].num == doctest::Approx(std::log(100.0) / 2).epsilon(1e-12));
+  CHECK(a["beta_start"].num == 0.1);
+  // The default start is the span's: a typical uphill flip accepted with probability 1/2.
+  const Json d = parse_ok(solve({"--kernel", "anneal"}));
+  const Json h = parse_ok(solve({"--kernel", "anneal", "--accept-start", "0.5"}));
+  CHECK(h["beta_start"].num == doctest::Approx(d["beta_start"].num).epsilon(1e-12));
+  // A warm start with a cold schedule (not re-heated) begins from the given state.
+  const std::vector<int> best = spins_of(b);
+  std::string state;
+  for (const int v : best) state += v > 0 ? "+\n" : "-\n";
+  const std::string warm = dir.write("warm.txt", state);
+  const Json w = parse_ok(solve({"--kernel", "anneal", "--warm-start", warm, "--beta-start", "2", "--beta-end", "4"}));
+  CHECK(w["energy"].num <= b["energy"].num);
+  check_usage_error(solve({"--kernel", "anneal", "--beta-start", "1", "--accept-start", "0.5"}));
+  check_usage_error(solve({"--kernel", "anneal", "--accept-end", "1.5"}));
+  check_usage_error(solve({"--kernel", "anneal", "--beta-start", "5", "--beta-end", "1"}));
+  check_usage_error(solve({"--kernel", "tabu", "--beta-end", "3"}));
+}
+
+TEST_CASE("cli: unweighted edge lists read with weight 1; a file without its header is told so") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  // The 6-cycle is bipartite: its maximum cut is all 6 edges, E = -6 (common practice).
+  const std::string ring = dir.write("ring.txt", "6 6\n1 2\n2 3\n3 4\n4 5\n5 6\n6 1\n");
+  const Json j = parse_ok(run(dir, {"solve", ring, "--report", "json"}));
+  CHECK(j["energy"].num == -6);
+  CHECK(j["cut"].num == 6);
+  CHECK(j["value_type"].text == "int32");
+  const std::string headless = dir.write("headless.txt", "1 2 1\n2 3 1\n3 1 1\n");
+  const RunOutput r = run(dir, {"solve", headless});
+  check_input_error(r, headless + ":2: ");
+  CHECK(r.err.find("header line missing") != std::string::npos);
+}
+
+namespace {
+
+// The SVG's elements as name and attributes, checking that every tag is closed in order
+// (a small XML reader: enough for the program's own output; W3C XML 1.0 well-formedness).
+struct SvgElement {
+  std::string name;
+  std::map<std::string, std::string> attr;
+};
+
+bool read_svg(const std::string& text, std::vector<SvgElement>& out) {
+  std::vector<std::string> open;
+  std::size_t at = 0;
+  while ((at = text.find('<', at)) != std::string::npos) {
+    const std::size_t end = text.find('>', at);
+    if (end == std::string::npos) return false;
+    std::string tag = text.substr(at + 1, end - at - 1);
+    at = end + 1;
+    if (tag.empty() || tag[0] == '?') continue;
+    if (tag[0] == '/') {
+      if (open.empty() || open.back() != tag.substr(1)) return false;
+      open.pop_back();
+      continue;
+    }
+    const bool self_closing = tag.back() == '/';
+    if (self_closing) tag.pop_back();
+    SvgElement e;
+    std::size_t k = tag.find_first_of(" \n");
+    e.name = tag.substr(0, k);
+    while (k != std::string::npos && k < tag.size()) {
+      const std::size_t eq = tag.find('=', k);
+      if (eq == std::string::npos) break;
+      std::string key = tag.substr(k, eq - k);
+      key.erase(0, key.find_first_not_of(" \n"));
+      if (eq + 1 >= tag.size() || tag[eq + 1] != '"') return false;
+      const std::size_t close = tag.find('"', eq + 2);
+      if (close == std::string::npos) return false;
+      e.attr[key] = tag.substr(eq + 2, close - eq - 2);
+      k = close + 1;
+    }
+    if (!self_closing) open.push_back(e.name);
+    out.push_back(e);
+  }
+  return open.empty() && !out.empty() && out.front().name == "svg";
+}
+
+}  // namespace
+
+TEST_CASE("cli: solve --plot and bench --plot write SVG figures whose numbers match the report") {
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const Graph g = random_graph(120, 360, -1, 1, 17);
+  const std::string path = dir.write("g.txt", g.edge_list());
+  const std::string svg = dir.file("solve.svg");
+  const Json j = parse_ok(run(dir, {"solve", path, "--kernel", "anneal", "--sweeps", "300", "--restarts", "12",
+                                    "--report", "json", "--plot", svg}));
+  std::vector<SvgElement> el;
+  REQUIRE(read_svg(cli_test::read_file(svg), el));
+  // Histogram: one bar per bin, the counts add up to the restarts; every energy in some bin.
+  std::uint64_t total = 0;
+  double lowest_bin = 1e300;
+  std::size_t curves = 0;
+  for (const auto& e : el) {
+    if (e.name == "rect" && e.attr.count("data-count") != 0) {
+      total += std::stoull(e.attr.at("data-count"));
+      lowest_bin = std::min(lowest_bin, std::stod(e.attr.at("data-lo")));
+    }
+    if (e.name == "path" && e.attr.count("data-last") != 0) {
+      ++curves;
+      // The best-energy curves over all restarts end at the reported best energy.
+      if (e.attr.at("data-name") == "all restarts") CHECK(std::stod(e.attr.at("data-last")) == j["energy"].num);
+    }
+  }
+  CHECK(total == 12);
+  CHECK(lowest_bin == j["energy"].num);
+  CHECK(curves == 3);  // against sweeps (all restarts, restart 0) and against time
+
+  const std::string bsvg = dir.file("bench.svg");
+  const RunOutput b = run(dir, {"bench", path, "--kernel", "anneal,descent", "--sweeps", "300", "--restarts", "8",
+                                "--report", "json", "--quiet", "--plot", bsvg});
+  REQUIRE(b.code == 0);
+  const Json jb = parse_ok(b);
+  std::vector<SvgElement> be;
+  REQUIRE(read_svg(cli_test::read_file(bsvg), be));
+  std::map<std::string, double> last_success;
+  for (const auto& e : be) {
+    if (e.name == "path" && e.attr.count("data-last") != 0 && last_success.count(e.attr.at("data-name")) == 0) {
+      last_success[e.attr.at("data-name")] = std::stod(e.attr.at("data-last"));  // first panel: P(success)
+    }
+  }
+  // The success curve ends at the success probability of the table (common practice: the
+  // empirical fraction of restarts at or below the target).
+  for (const auto& k : jb["kernels"].items) {
+    CAPTURE(k["kernel"].text);
+    REQUIRE(last_success.count(k["kernel"].text) == 1);
+    CHECK(last_success[k["kernel"].text] == doctest::Approx(k["success_probability"].num));
+  }
+  // An unwritable figure is an input error naming the file.
+  check_input_error(run(dir, {"solve", path, "--sweeps", "10", "--plot", "/nonexistent-folder/f.svg"}),
+                    "/nonexistent-folder/f.svg");
 }

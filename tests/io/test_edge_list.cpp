@@ -138,7 +138,10 @@ TEST_CASE("edge list: bad node numbers and fields") {
   expect_error("3 1\n1 4 1\n", StatusCode::index_out_of_range, 2);
   expect_error("3 1\n1 -2 1\n", StatusCode::invalid_argument, 2);
   expect_error("3 1\n1 two 1\n", StatusCode::parse_error, 2);
-  expect_error("3 1\n1 2\n", StatusCode::parse_error, 2);
+  expect_error("3 1\n1\n", StatusCode::parse_error, 2);
+  // Weighted and unweighted edge lines do not mix (the first edge line sets the columns).
+  expect_error("3 2\n1 2 1\n2 3\n", StatusCode::parse_error, 3);
+  expect_error("3 2\n1 2\n2 3 5\n", StatusCode::parse_error, 2);  // the line without a weight
   expect_error("3 1\n1 2 1 7\n", StatusCode::parse_error, 2);
   expect_error("3 1\n1 2 12abc\n", StatusCode::parse_error, 2);
   expect_error("3 1\n1 2 0x10\n", StatusCode::parse_error, 2);
@@ -225,4 +228,36 @@ TEST_CASE("edge list files: missing, directory, too long") {
   auto gm = g.build();
   REQUIRE(gm.ok());
   check_error(io::write_edge_list(unwritable, gm.value()), StatusCode::io_error, unwritable, 0);
+}
+
+TEST_CASE("edge list: an unweighted list (every edge line 'i j') reads each edge with weight 1") {
+  // The documented rule (docs/file-formats.md): two fields on every edge line mean weight 1.
+  // Hand-made example: the 4-cycle; max-cut convention J = w = 1 on each edge (common practice).
+  auto r = parse_edge_list<std::int64_t>("4 4\n1 2\n2 3\n3 4\n4 1\n", "ring.txt");
+  REQUIRE_MESSAGE(r.ok(), r.message());
+  const auto& m = r.value();
+  CHECK(m.num_spins() == 4);
+  CHECK(m.num_pairs() == 4);
+  CHECK(m.coupling(0, 1) == 1);
+  CHECK(m.coupling(3, 0) == 1);
+  CHECK(m.coupling(0, 2) == 0);
+  const std::int8_t alternating[4] = {1, -1, 1, -1};
+  CHECK(m.energy(alternating) == -4);  // every edge cut: E = -sum w
+  // The same with integer weights read as int64: the automatic type stays integer.
+  auto d = parse_edge_list<double>("3 2\n1 2\n2 3\n", "path.txt");
+  REQUIRE(d.ok());
+  CHECK(d.value().coupling(1, 2) == 1.0);
+}
+
+TEST_CASE("edge list: a file without its header line is told so") {
+  // "1 2 1" read as the header N = 1, M = 2: the next edge names node 2 > N.
+  auto r = parse_edge_list<std::int64_t>("1 2 1\n2 3 1\n", "nohead.txt");
+  REQUIRE_FALSE(r.ok());
+  check_error(r.status(), StatusCode::index_out_of_range, "nohead.txt", 2);
+  CHECK(r.status().reason.find("header line missing") != std::string::npos);
+  // A genuine header with a wrong N keeps the plain message.
+  auto plain = parse_edge_list<std::int64_t>("5 2\n1 2 1\n2 9 1\n", "wrong_n.txt");
+  REQUIRE_FALSE(plain.ok());
+  CHECK(plain.status().reason.find("header line missing") == std::string::npos);
+  CHECK(plain.status().reason.find("beyond N = 5") != std::string::npos);
 }

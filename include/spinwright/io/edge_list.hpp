@@ -2,6 +2,7 @@
 //
 //   N M            nodes and edges (any text after the two numbers is ignored)
 //   i j w          M lines: 1-based nodes, integer or real weight, undirected
+//   i j            or, in an unweighted list (every edge line has two fields), weight 1
 //
 // Reading gives the max-cut Ising model J_ij = w, h = 0: self-loops fold into the offset and
 // repeated edges are summed (the builder's rules), zero weights are dropped. Blank lines and
@@ -52,6 +53,9 @@ inline IoResult<TermList> scan_edge_list(std::string_view text, std::string_view
   list.diagonal_is_linear = false;
   std::uint64_t declared_edges = 0;
   bool have_header = false;
+  std::size_t header_fields = 0;
+  std::size_t columns = 0;  // fields of every edge line: 3 (i j w) or 2 (i j, weight 1); 0 before the first
+  std::uint64_t columns_line = 0;
   StatusCode code = StatusCode::ok;
   std::string_view tok[4];
   while (reader.next(line)) {
@@ -77,6 +81,7 @@ inline IoResult<TermList> scan_edge_list(std::string_view text, std::string_view
                                    std::to_string(options.max_spins) + " (ReadOptions::max_spins)");
       }
       list.header_line = line.number;
+      header_fields = count;
       have_header = true;
       // Never trust the header for a reservation: each edge line needs at least 6 bytes.
       list.terms.reserve(bounded_reserve(declared_edges, reader.remaining_bytes()));
@@ -87,14 +92,25 @@ inline IoResult<TermList> scan_edge_list(std::string_view text, std::string_view
                              "extra line: the header on line " + std::to_string(list.header_line) + " declares " +
                                  std::to_string(declared_edges) + " edges");
     }
-    if (count < 3) {
+    if (count < 2) {
       return IoStatus::error(StatusCode::parse_error, name, line.number,
-                             "expected 'i j w' (two node numbers and a weight), found " + std::to_string(count) +
-                                 (count == 1 ? " field" : " fields"));
+                             "expected 'i j w' (two node numbers and a weight) or 'i j' (unweighted), found 1 field");
     }
     if (count > 3) {
       return IoStatus::error(StatusCode::parse_error, name, line.number,
                              "trailing text after the weight: " + quote(tok[3]));
+    }
+    if (columns == 0) {
+      columns = count;
+      columns_line = line.number;
+    } else if (count != columns) {
+      // The lines differ: the two-field one is the line that lacks its weight (a repeated
+      // header 'N M' is caught there too).
+      const bool missing_here = count == 2;
+      return IoStatus::error(StatusCode::parse_error, name, missing_here ? line.number : columns_line,
+                             "missing weight: this edge line has 2 fields but line " +
+                                 std::to_string(missing_here ? columns_line : line.number) +
+                                 " has 3; every edge line is 'i j w', or every one is 'i j' (unweighted, weight 1)");
     }
     RawTerm t;
     std::uint64_t ends[2] = {0, 0};
@@ -106,17 +122,25 @@ inline IoResult<TermList> scan_edge_list(std::string_view text, std::string_view
                                "node number 0: nodes are numbered from 1 to N");
       }
       if (ends[e] > list.num_spins) {
-        return IoStatus::error(StatusCode::index_out_of_range, name, line.number,
-                               "node number " + std::to_string(ends[e]) +
-                                   " is beyond N = " + std::to_string(list.num_spins) + " declared on line " +
-                                   std::to_string(list.header_line));
+        // A file without its header line reads its first edge as 'N M': say so when it looks so.
+        const bool headerless = list.terms.empty() && (header_fields == 3 || list.num_spins <= 2);
+        return IoStatus::error(
+            StatusCode::index_out_of_range, name, line.number,
+            "node number " + std::to_string(ends[e]) + " is beyond N = " + std::to_string(list.num_spins) +
+                " declared on line " + std::to_string(list.header_line) +
+                (headerless ? "; is the header line missing? An edge list starts with 'N M' (number of nodes, "
+                              "number of edges), and line " +
+                                  std::to_string(list.header_line) + " was read as that header"
+                            : ""));
       }
     }
-    const std::string why = parse_number(tok[2], t.value, code);
+    // Unweighted lists: every edge has weight 1 (the literal below, so messages can quote it).
+    const std::string_view weight = count == 3 ? tok[2] : std::string_view("1");
+    const std::string why = parse_number(weight, t.value, code);
     if (!why.empty()) return IoStatus::error(code, name, line.number, "weight: " + why);
     t.i = ends[0] - 1;
     t.j = ends[1] - 1;
-    t.token = tok[2];
+    t.token = weight;
     t.line = line.number;
     // Automatic value type: int64_t only when every weight is an integer literal that fits.
     list.all_integer = list.all_integer && t.value.integer && !t.value.int_overflow;

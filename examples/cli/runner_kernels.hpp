@@ -1,0 +1,270 @@
+// spinwright command-line program — the kernels over restarts for one model type. Included
+// only by runner_int32.cpp, runner_int64.cpp and runner_double.cpp, each of which instantiates
+// it for the Ising and QUBO models of its value type (one translation unit per value type).
+#ifndef SPINWRIGHT_CLI_RUNNER_KERNELS_HPP
+#define SPINWRIGHT_CLI_RUNNER_KERNELS_HPP
+
+#include "runner.hpp"
+#include "spread.hpp"
+
+#include <spinwright/control/steady_clock.hpp>
+#include <spinwright/kernels/anneal.hpp>
+#include <spinwright/kernels/auto.hpp>
+#include <spinwright/kernels/beta_span.hpp>
+#include <spinwright/kernels/descent.hpp>
+#include <spinwright/kernels/exact.hpp>
+#include <spinwright/kernels/population.hpp>
+#include <spinwright/kernels/quantum_anneal.hpp>
+#include <spinwright/kernels/tabu.hpp>
+#include <spinwright/kernels/temper.hpp>
+#include <spinwright/parallel/exact_threads.hpp>
+#include <spinwright/parallel/restarts.hpp>
+
+#include <algorithm>  // std::max, std::min
+#include <atomic>     // std::atomic
+#include <cmath>      // std::ceil, std::log, std::isfinite
+#include <limits>     // std::numeric_limits
+
+namespace spinwright_cli::detail {
+
+// Passes and seconds of the closing descent after Ctrl-C: short, so the program still ends
+// promptly, but enough to take the best state seen down to (or near) a local minimum.
+inline constexpr std::uint64_t interrupt_polish_passes = 64;
+inline constexpr double interrupt_polish_seconds = 0.25;
+
+template <class Energy>
+spinwright::Solution<double> as_double(spinwright::Solution<Energy>&& s) {
+  if constexpr (std::is_same_v<Energy, double>) {
+    return std::move(s);
+  } else {
+    spinwright::Solution<double> d;
+    d.spins = std::move(s.spins);
+    d.energy = static_cast<double>(s.energy);
+    d.sweeps = s.sweeps;
+    d.attempted = s.attempted;
+    d.accepted = s.accepted;
+    d.seconds = s.seconds;
+    d.reason = s.reason;
+    d.restart = s.restart;
+    return d;
+  }
+}
+
+inline bool cut(spinwright::StopReason r) {
+  return r == spinwright::StopReason::stopped || r == spinwright::StopReason::deadline;
+}
+
+// The closing descent of annealing and tempering: steepest after a full schedule; after a
+// deadline cut the schedule short, the cheaper first-improvement descent, so the limit is passed
+// by one descent at most; after Ctrl-C a first-improvement descent bounded by
+// interrupt_polish_passes and interrupt_polish_seconds (the stop token is already set, so the
+// descent does not poll it). A restart stopped before its first sweep is left as it is.
+template <class Model>
+spinwright::Solution<typename Model::energy_type> finish(const Model& model,
+                                                         spinwright::Solution<typename Model::energy_type>&& s) {
+  using spinwright::StopReason;
+  if (s.reason == StopReason::stopped) {
+    if (s.sweeps == 0) return std::move(s);
+    spinwright::DescentParams params;
+    params.rule = spinwright::DescentRule::first_improvement;
+    params.initial = s.spins.data();
+    spinwright::Descender<Model> d(model, params, 0, s.restart);
+    spinwright::Budget b;
+    b.sweeps = interrupt_polish_passes;
+    b.with_time_limit(interrupt_polish_seconds, spinwright::steady_clock());
+    auto p = d.run(b);
+    p.sweeps += s.sweeps;
+    p.attempted += s.attempted;
+    p.accepted += s.accepted;
+    p.seconds += s.seconds;
+    p.reason = s.reason;
+    p.restart = s.restart;
+    return p;
+  }
+  if (s.reason == StopReason::deadline) return spinwright::polish(model, s, spinwright::DescentRule::first_improvement);
+  return spinwright::polish(model, s, spinwright::DescentRule::steepest);
+}
+
+// Feeds the progress line; kernels call it from their own thread.
+struct ProgressObserver {
+  ProgressCounters* counters = nullptr;
+  Trace* trace = nullptr;  // --plot: this restart's trace
+  double start = 0;
+  void on_improvement(std::uint64_t sweep, double energy) {
+    if (counters != nullptr) counters->best.offer(energy);
+    if (trace != nullptr) trace->push_back({sweep, spinwright::steady_seconds(nullptr) - start, energy});
+  }
+};
+
+// The schedule's ends from the options: a given beta, or -ln(p) over the beta span's delta
+// scale, or the automatic end. Usage errors name the option.
+template <class Model>
+Failure resolve_schedule(const Model& model, const ScheduleOptions& o, double& b0, double& b1) {
+  const spinwright::BetaSpan span = spinwright::estimate_beta_span(model);
+  b0 = span.beta_start;
+  b1 = span.beta_end;
+  if (o.beta_start > 0) b0 = o.beta_start;
+  if (o.beta_end > 0) b1 = o.beta_end;
+  // A model without a non-zero coefficient has no delta scale: its span is 1 .. 1.
+  const double hot = span.hot_delta > 0 ? span.hot_delta : 1.0;
+  const double cold = span.cold_delta > 0 ? span.cold_delta : 1.0;
+  if (o.accept_start > 0) b0 = -std::log(o.accept_start) / hot;
+  if (o.accept_end > 0) b1 = -std::log(o.accept_end) / cold;
+  if (!(b0 > 0) || !(b1 > 0) || !std::isfinite(b0) || !std::isfinite(b1)) {
+    return usage_failure("the schedule's inverse temperatures must be positive and finite",
+                         "check --beta-start/--beta-end or --accept-start/--accept-end");
+  }
+  if (b1 < b0) {
+    return usage_failure("the schedule would heat up: its start is colder (beta " + std::to_string(b0) +
+                             ") than its end (beta " + std::to_string(b1) + ")",
+                         "give a start hotter than the end (smaller beta, or larger acceptance)");
+  }
+  return {};
+}
+
+template <class Model>
+spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o, std::uint64_t r, double run_start,
+                                         double b0, double b1, std::atomic<std::uint64_t>& cut_short) {
+  spinwright::Budget budget;
+  budget.sweeps = o.time_driven ? spinwright::unlimited_sweeps : o.sweeps;
+  budget.stop = &interrupt_token();
+  if (o.has_target) budget.with_target(o.target);
+  if (o.time_limit < std::numeric_limits<double>::infinity()) {
+    // An equal share of the limit per restart (the restarts run `threads` at a time on each
+    // rank), and never more than what is left of the whole run.
+    const double waves = std::ceil(static_cast<double>(o.restarts) /
+                                   (static_cast<double>(o.threads) * static_cast<double>(job_ranks())));
+    const double share = o.time_limit / (waves < 1 ? 1 : waves);
+    const double left = o.time_limit - (spinwright::steady_seconds(nullptr) - run_start);
+    budget.with_time_limit(std::max(0.0, std::min(share, left)), spinwright::steady_clock());
+  } else {
+    budget.clock = spinwright::steady_clock();  // for Solution::seconds
+  }
+  Trace* trace = o.traces != nullptr && r < o.traces->size() ? &(*o.traces)[static_cast<std::size_t>(r)] : nullptr;
+  const double restart_start = spinwright::steady_seconds(nullptr);
+  ProgressObserver observer{o.progress, trace, restart_start};
+  const std::int8_t* warm = o.warm != nullptr ? o.warm->data() : nullptr;
+  spinwright::Solution<double> s;
+  bool counts_as_cut = false;
+  if (o.fill_time) {
+    s = as_double(spinwright::solve_auto(model, o.seed, r, budget));
+    counts_as_cut = s.reason == spinwright::StopReason::stopped;
+  } else {
+    spinwright::Solution<typename Model::energy_type> raw;
+    switch (o.kernel) {
+      case Kernel::anneal: {
+        spinwright::AnnealParams p;
+        p.initial = warm;
+        if (o.schedule.given()) p.schedule = spinwright::Schedule::geometric(b0, b1);
+        // Annealing keeps the best state seen at sweep ends; a descent takes it to the local
+        // minimum below (never raises the energy).
+        raw = finish(model, spinwright::anneal(model, p, o.seed, r, budget, observer));
+        break;
+      }
+      case Kernel::descent: {
+        spinwright::DescentParams p;
+        p.initial = warm;
+        raw = spinwright::descend(model, p, o.seed, r, budget);
+        break;
+      }
+      case Kernel::temper: {
+        spinwright::TemperParams p;
+        p.initial = warm;
+        if (o.schedule.given()) {
+          p.ladder.beta_min = b0;
+          p.ladder.beta_max = b1;
+        }
+        raw = finish(model, static_cast<spinwright::Solution<typename Model::energy_type>>(
+                                spinwright::temper(model, p, o.seed, r, budget, observer)));
+        break;
+      }
+      case Kernel::tabu: {
+        spinwright::TabuParams p;
+        p.initial = warm;
+        raw = spinwright::tabu_walk(model, p, o.seed, r, budget, observer);
+        break;
+      }
+      case Kernel::sqa: {
+        spinwright::QuantumAnnealParams p;
+        p.initial = warm;
+        raw = finish(model, spinwright::quantum_anneal(model, p, o.seed, r, budget, observer));
+        break;
+      }
+      case Kernel::population: {
+        spinwright::PopulationParams p;
+        p.initial = warm;
+        raw = finish(model, spinwright::population_anneal(model, p, o.seed, r, budget, observer));
+        break;
+      }
+      case Kernel::exact:
+        break;  // exact_on
+    }
+    s = as_double(std::move(raw));
+    // A time-driven run ends at its deadline by design; only Ctrl-C cuts it short.
+    counts_as_cut = o.time_driven ? s.reason == spinwright::StopReason::stopped : cut(s.reason);
+  }
+  if (counts_as_cut) cut_short.fetch_add(1, std::memory_order_relaxed);
+  if (trace != nullptr) trace->push_back({s.sweeps, spinwright::steady_seconds(nullptr) - restart_start, s.energy});
+  if (o.progress != nullptr) {
+    o.progress->best.offer(s.energy);
+    o.progress->restarts_done.fetch_add(1, std::memory_order_relaxed);
+  }
+  return s;
+}
+
+template <class Model>
+Failure run_restarts_on(const LoadedModel& m, const Model& model, const RunOptions& o, double start, RunResult& out) {
+  (void)m;
+  double b0 = 0, b1 = 0;
+  const bool scheduled = o.kernel == Kernel::anneal || o.kernel == Kernel::temper;
+  if (scheduled && !o.fill_time) {
+    if (o.schedule.given()) {
+      Failure f = resolve_schedule(model, o.schedule, b0, b1);
+      if (f.failed()) return f;
+    } else {
+      const spinwright::BetaSpan span = spinwright::estimate_beta_span(model);
+      b0 = span.beta_start;
+      b1 = span.beta_end;
+    }
+  }
+  out.beta_start = b0;
+  out.beta_end = b1;
+  std::atomic<std::uint64_t> cut_short{0};
+  out.tally = spread_restarts<double>(
+      o.restarts, o.threads, [&](std::uint64_t r) { return one_restart(model, o, r, start, b0, b1, cut_short); });
+  out.cut_short = cut_short.load();
+  return {};
+}
+
+template <class Model>
+Failure exact_on(const LoadedModel& m, const Model& model, const spinwright::ExactParams& params, unsigned threads,
+                 spinwright::ExactResult<double>& out) {
+  auto result = spinwright::solve_exact_threads(model, params, threads);
+  if (!result && result.status().code == spinwright::StatusCode::stopped) {
+    return interrupted_failure(m.path + ": exact enumeration interrupted (Ctrl-C) before it finished: no answer");
+  }
+  if (!result) return input_failure(m.path + ": " + result.status().message);
+  auto& r = result.value();
+  out = spinwright::ExactResult<double>{};
+  out.energy = static_cast<double>(r.energy);
+  out.spins = std::move(r.spins);
+  out.ground_states = r.ground_states;
+  out.states = r.states;
+  out.used_flip_symmetry = r.used_flip_symmetry;
+  for (const auto& l : r.levels) out.levels.push_back({static_cast<double>(l.energy), l.count, l.first_index});
+  return {};
+}
+
+}  // namespace spinwright_cli::detail
+
+// Explicit instantiations for the Ising and QUBO models of one value type; used inside
+// namespace spinwright_cli::detail.
+#define SPINWRIGHT_CLI_INSTANTIATE(Value)                                                                             \
+  template Failure run_restarts_on(const LoadedModel&, const IsingOf<Value>&, const RunOptions&, double, RunResult&); \
+  template Failure run_restarts_on(const LoadedModel&, const QuboOf<Value>&, const RunOptions&, double, RunResult&);  \
+  template Failure exact_on(const LoadedModel&, const IsingOf<Value>&, const spinwright::ExactParams&, unsigned,      \
+                            spinwright::ExactResult<double>&);                                                        \
+  template Failure exact_on(const LoadedModel&, const QuboOf<Value>&, const spinwright::ExactParams&, unsigned,       \
+                            spinwright::ExactResult<double>&);
+
+#endif  // SPINWRIGHT_CLI_RUNNER_KERNELS_HPP
