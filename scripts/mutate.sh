@@ -40,7 +40,7 @@ per_test_timeout=${SPINWRIGHT_MUTATE_TIMEOUT:-300}
 
 [ -f "$list" ] || { echo "no mutant list: $list" >&2; exit 2; }
 [ "$dry" = 1 ] || [ -d "$build/tests" ] || { echo "$build is not a configured test build (cmake --preset test)" >&2; exit 2; }
-log_dir=$build/mutate
+log_dir=$(realpath -m "$build")/mutate  # absolute: the tests run from their own folder
 mkdir -p "$log_dir"
 
 backup=""
@@ -67,8 +67,15 @@ dependents() {
     t=${t%%.dir/*}
     found+=("$t")
   done < <(grep -l -F "$abs" "$build"/tests/CMakeFiles/*_test_*.dir/*/*.o.d 2>/dev/null)
+  # After a rebuild the Makefile generator may have folded the *.o.d into compiler_depend.make.
+  while IFS= read -r d; do
+    t=${d#"$build"/tests/CMakeFiles/}
+    t=${t%%.dir/*}
+    found+=("$t")
+  done < <(grep -l -F "$abs" "$build"/tests/CMakeFiles/*_test_*.dir/compiler_depend.make 2>/dev/null)
   if [ -d "$build/examples/cli" ] && [ -d "$build/tests/CMakeFiles/cli_test_cli.dir" ] &&
-    grep -q -l -F "$abs" "$build"/examples/cli/CMakeFiles/spinwright-cli.dir/*.o.d 2>/dev/null; then
+    grep -q -l -F "$abs" "$build"/examples/cli/CMakeFiles/spinwright-cli.dir/*.o.d \
+      "$build"/examples/cli/CMakeFiles/spinwright-cli.dir/compiler_depend.make 2>/dev/null; then
     found+=(cli_test_cli)
   fi
   printf '%s\n' "${found[@]}" | sort -u
