@@ -19,11 +19,12 @@ if [ ${#missing[@]} -gt 0 ]; then
   DEBIAN_FRONTEND=noninteractive $sudo_cmd apt-get install -y -qq "${missing[@]}"
 fi
 
-# test: GCC, C++17; sanitize: Clang, C++20, -fno-exceptions -fno-rtti, under ASan+UBSan (the
+# test: GCC, C++17; no-heap: every header's compile check and the no-heap test with
+# SPINWRIGHT_NO_HEAP=1; sanitize: Clang, C++20, -fno-exceptions -fno-rtti, under ASan+UBSan (the
 # test-clang preset is the same build without sanitizers, for local use); fuzz: each libFuzzer
 # target for a bounded time; cortex-m4: the firmware example under qemu-system-arm; aarch64:
 # the suite cross-compiled and run under qemu-aarch64.
-workflows=(${SPINWRIGHT_TEST_WORKFLOWS:-test sanitize fuzz cortex-m4 aarch64})
+workflows=(${SPINWRIGHT_TEST_WORKFLOWS:-test no-heap sanitize fuzz cortex-m4 aarch64})
 for w in "${workflows[@]}"; do
   echo "=== cmake --workflow --preset $w"
   start=$(date +%s)

@@ -652,10 +652,21 @@ TEST_CASE("cli: bench reports success probability, residual energy and TTS99 per
   CHECK(tabu["restarts"].num == 6);
   CHECK(tabu["success_probability"].num == 1.0);
   CHECK(tabu["residual_energy"].num == 0.0);
+  // Descent from random starts on C_11: every energy is 11 - 2 cut with an odd number of uncut
+  // edges, so E is in {-9, -5, -1, ...}. Hence P(success) is hits / 6, the residual (mean E + 9)
+  // is a multiple of 4 / 6 and at least 4 (1 - P), and TTS99 = t ln(0.01) / ln(1 - P) for
+  // 0 < P < 0.99 (time to solution: T. F. Ronnow et al., Science 345, 420 (2014)).
   const Json& descent = j["kernels"].items[1];
-  CHECK(descent["success_probability"].num >= 0.0);
-  CHECK(descent["success_probability"].num <= 1.0);
-  CHECK(descent["residual_energy"].num >= 0.0);
+  const double p = descent["success_probability"].num;
+  const double residual = descent["residual_energy"].num;
+  CHECK(p * 6 == doctest::Approx(std::round(p * 6)));
+  CHECK(residual * 6 / 4 == doctest::Approx(std::round(residual * 6 / 4)));
+  CHECK(residual >= 4 * (1 - p) - 1e-9);
+  CHECK(descent["best"].num == -9);  // six restarts: one of them ends in a maximum cut
+  if (p > 0 && p < 0.99) {
+    const double t = descent["median_restart_seconds"].num;
+    CHECK(descent["tts99_seconds"].num == doctest::Approx(t * std::log(0.01) / std::log(1 - p)));
+  }
   // An unreachable target: probability 0 and an infinite TTS99, written as null.
   const RunOutput never =
       run(dir, {"bench", path, "--target", "-1000", "--restarts", "3", "--kernel", "descent", "--report", "json"});

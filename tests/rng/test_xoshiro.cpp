@@ -2,6 +2,7 @@
 #include <doctest/doctest.h>
 #include <spinwright/rng/xoshiro.hpp>
 
+#include <cmath>
 #include <cstdint>
 #include <vector>
 
@@ -56,4 +57,20 @@ TEST_CASE("ranges: below(n) is in range and unbiased, uniform draws stay in thei
   CHECK(g.below(1) == 0);
   // The largest range still works (rejection path).
   for (int k = 0; k < 1000; ++k) CHECK(g.below(0xFFFFFFFFu) < 0xFFFFFFFFu);
+}
+
+// The rejection step of the multiply-shift range reduction (D. Lemire, "Fast random integer
+// generation in an interval", ACM Trans. Model. Comput. Simul. 29(1), 2019) matters most for n
+// just above 2^31: without it, floor(x * 3 * 2^30 / 2^32) = floor(0.75 x) sends two of every
+// four x to the outputs divisible by 3, so P(r % 3 == 0) would be 1/2 instead of 1/3.
+// 30000 draws, 4 binomial standard deviations (0.011).
+TEST_CASE("below: uniform where the rejection step matters") {
+  Xoshiro256 g(99);
+  const std::uint32_t n = 3u << 30;
+  const int draws = 30000;
+  int divisible = 0;
+  for (int k = 0; k < draws; ++k) divisible += g.below(n) % 3 == 0 ? 1 : 0;
+  const double rate = static_cast<double>(divisible) / draws;
+  CAPTURE(rate);
+  CHECK(std::abs(rate - 1.0 / 3) <= 4 * std::sqrt(2.0 / 9 / draws));
 }

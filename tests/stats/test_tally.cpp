@@ -73,3 +73,25 @@ TEST_CASE("restarts on threads: the same tally whatever the thread count") {
     CHECK(many.best().restart == one.best().restart);
   }
 }
+
+// The success tolerance of floating energies (a second path beside the command-line program):
+// a restart succeeds when E <= target + tolerance, so energies that differ from the target
+// only by rounding count, and one just beyond the tolerance does not (counted by hand below;
+// common practice for floating targets).
+TEST_CASE("tally: success within the tolerance, by hand on floating energies") {
+  Tally<double> t;
+  const double target = -12.3;
+  const double energies[] = {-12.3, -12.3 + 4e-10, -12.3 + 2e-9, -12.3 - 1e-3, -11.0};
+  for (std::uint64_t r = 0; r < 5; ++r) {
+    Solution<double> s;
+    s.energy = energies[r];
+    s.restart = r;
+    s.seconds = 1.0;
+    t.add(s);
+  }
+  CHECK(t.success_probability(target) == doctest::Approx(2.0 / 5));        // -12.3 and below only
+  CHECK(t.success_probability(target, 1e-9) == doctest::Approx(3.0 / 5));  // + the 4e-10 one
+  CHECK(t.success_probability(target, 1e-8) == doctest::Approx(4.0 / 5));  // + the 2e-9 one
+  CHECK(t.success_probability(target, 2.0) == doctest::Approx(1.0));       // all
+  CHECK(t.tts99(target, 1e-9) == doctest::Approx(std::log(0.01) / std::log(1 - 3.0 / 5)));
+}

@@ -4,6 +4,7 @@
 #ifndef SPINWRIGHT_TEST_SUPPORT_TEMPER_GRAPH_HPP
 #define SPINWRIGHT_TEST_SUPPORT_TEMPER_GRAPH_HPP
 
+#include <doctest/doctest.h>
 #include <spinwright/io/edge_list.hpp>
 #include <spinwright/spinwright.hpp>
 
@@ -11,6 +12,7 @@
 #include <fstream>
 #include <sstream>
 #include <string>
+#include <utility>
 #include <vector>
 
 namespace test_support {
@@ -90,10 +92,19 @@ inline std::int64_t reference_cut(const std::string& csv_path, const std::string
 inline std::string maxcut_path(const std::string& name) { return std::string(SPINWRIGHT_DATA_DIR) + "/maxcut/" + name; }
 
 // A benchmark instance as the max-cut Ising model J = w, h = 0 (io/edge_list.hpp).
+// The read status is asserted (a reader bug fails the test with the reader's message instead
+// of ending it in value()), and the vertex count against the file's own first line "n m".
 template <class Value = std::int32_t>
 spinwright::IsingModel<Value> load_maxcut(const std::string& instance) {
-  auto read = spinwright::io::read_edge_list<Value>(maxcut_path(instance + ".txt"));
-  return read.value();
+  const std::string path = maxcut_path(instance + ".txt");
+  auto read = spinwright::io::read_edge_list<Value>(path);
+  REQUIRE_MESSAGE(read.ok(), read.message());
+  std::ifstream head(path);
+  std::uint64_t n = 0, m = 0;
+  REQUIRE_MESSAGE(static_cast<bool>(head >> n >> m), (path + ": no \"n m\" first line"));
+  REQUIRE(read.value().num_spins() == n);
+  REQUIRE(read.value().num_pairs() <= m);
+  return std::move(read).value();
 }
 
 // Max-cut Ising model J_ij = scale * w_ij, h = 0.
@@ -102,7 +113,8 @@ spinwright::IsingModel<Value, Index> ising_of(const Graph& g, Value scale = Valu
   spinwright::IsingBuilder<Value, Index> b(g.n);
   for (const auto& e : g.edges) b.add_coupling(e.i, e.j, static_cast<Value>(static_cast<Value>(e.w) * scale));
   auto built = b.build();
-  return built.value();
+  REQUIRE_MESSAGE(built.ok(), built.status().message);
+  return std::move(built).value();
 }
 
 }  // namespace test_support
