@@ -10,6 +10,7 @@
 #include "kernels/beta_span.hpp"
 #include "kernels/descent.hpp"
 #include "kernels/exact.hpp"
+#include "kernels/lanes.hpp"
 #include "kernels/schedule.hpp"
 #include "kernels/solution.hpp"
 #include "kernels/tabu.hpp"
