@@ -22,6 +22,7 @@
 
 #include <cstddef>      // std::size_t
 #include <cstdint>      // std::int8_t, std::int32_t, std::uint32_t, std::uint64_t
+#include <limits>       // std::numeric_limits
 #include <type_traits>  // std::conditional_t, std::is_integral_v
 
 #if !SPINWRIGHT_NO_HEAP
@@ -322,7 +323,18 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
     }
     if constexpr (std::is_same_v<field_type, std::int32_t>) {
       unit_shift_ = detail::delta_shift(*model_);
-      small_ = (detail::max_flip_delta(*model_) >> unit_shift_) < lane_levels;
+      const std::uint64_t units = detail::max_flip_delta(*model_) >> unit_shift_;
+      small_ = units < lane_levels;
+      levels_used_ = small_ ? static_cast<std::int32_t>(units) + 1 : 1;
+    }
+    if constexpr (std::is_integral_v<field_type>) {
+      const std::uint64_t top = static_cast<std::uint64_t>(std::numeric_limits<field_type>::max());
+      const std::uint64_t largest = detail::max_flip_delta(*model_);
+      flush_every_ = largest == 0 ? std::size_t{1} << 30 : static_cast<std::size_t>(top / largest);
+      if (flush_every_ == 0) flush_every_ = 1;
+      if (flush_every_ > (std::size_t{1} << 30)) flush_every_ = std::size_t{1} << 30;
+    } else {
+      flush_every_ = 1;
     }
     schedule_sweeps_ = params_.sweeps;
     schedule_ = params_.schedule;
@@ -430,23 +442,26 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
         break;
     }
     ++sweeps_;
-    bool improved[Width];
+    std::int8_t improved[Width];  // -1: take this lane's spins as its new best
     bool any = false;
+    bool some = false;
     for (std::size_t l = 0; l < Width; ++l) {
-      improved[l] = energy_[l] < best_energy_[l];
-      if (improved[l]) {
+      improved[l] = energy_[l] < best_energy_[l] ? std::int8_t{-1} : std::int8_t{0};
+      if (improved[l] != 0) {
         best_energy_[l] = energy_[l];
         best_sweep_[l] = sweeps_;
         any = any || l < count_;
+        some = true;
       }
     }
-    bool some = false;
-    for (std::size_t l = 0; l < Width; ++l) some = some || improved[l];
     if (some) {
+      std::int8_t* b = best_spins_.data();
+      const std::int8_t* s = spins_.data();
       for (std::size_t i = 0; i < n_; ++i) {
-        std::int8_t* b = best_spins_.data() + i * Width;
-        const std::int8_t* s = spins_.data() + i * Width;
-        for (std::size_t l = 0; l < Width; ++l) b[l] = improved[l] ? s[l] : b[l];
+        SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
+          const std::size_t x = i * Width + l;
+          b[x] = static_cast<std::int8_t>((s[x] & improved[l]) | (b[x] & ~improved[l]));
+        }
       }
     }
     return any;
@@ -509,7 +524,11 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
 
     std::uint64_t s0[Width], s1[Width], s2[Width], s3[Width], draw[Width];
     energy_type energy[Width];
+    // Energy changes add up in the field type for flush_every_ attempts (they cannot overflow
+    // it in that many), then into the energy type.
+    field_type partial[Width];
     std::uint32_t accepted[Width];
+    std::size_t since_flush = 0;
     SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
       s0[l] = s0_[l];
       s1[l] = s1_[l];
@@ -517,6 +536,7 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
       s3[l] = s3_[l];
       draw[l] = 0;
       energy[l] = energy_[l];
+      partial[l] = 0;
       accepted[l] = 0;
     }
     Xoshiro256 order = order_rng_;
@@ -582,7 +602,7 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
           up[l] = d > 0 ? 1 : 0;
           q[l] = levels[0];
         }
-        for (std::int32_t m = 1; m < static_cast<std::int32_t>(lane_levels); ++m) {
+        for (std::int32_t m = 1; m < levels_used_; ++m) {
           const std::int32_t value = levels[m];
           SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) q[l] = level[l] == m ? value : q[l];
         }
@@ -635,9 +655,16 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
           change[l] = t ? static_cast<field_type>(s) : field_type{0};
         }
         sp[l] = t ? static_cast<std::int8_t>(-s) : s;
-        energy[l] += t ? static_cast<energy_type>(delta[l]) : energy_type{0};
+        partial[l] += t ? delta[l] : field_type{0};
         accepted[l] += static_cast<std::uint32_t>(take[l]);
         any |= take[l];
+      }
+      if (++since_flush == flush_every_) {
+        since_flush = 0;
+        SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
+          energy[l] += static_cast<energy_type>(partial[l]);
+          partial[l] = 0;
+        }
       }
       if (any != 0) {
         for (std::size_t e = row[i]; e < row[i + 1]; ++e) {
@@ -653,7 +680,7 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
       s1_[l] = s1[l];
       s2_[l] = s2[l];
       s3_[l] = s3[l];
-      energy_[l] = energy[l];
+      energy_[l] = energy[l] + static_cast<energy_type>(partial[l]);
       accepted_[l] += accepted[l];
     }
   }
@@ -696,8 +723,10 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
   Schedule schedule_{};
   BetaSpan range_{};
   LaneUnit unit_ = LaneUnit::plain;
-  unsigned unit_shift_ = 0;  // int32 models: every |delta| is a multiple of 2^unit_shift_
-  bool small_ = false;       // int32 models whose |delta| takes fewer than lane_levels units
+  unsigned unit_shift_ = 0;       // int32 models: every |delta| is a multiple of 2^unit_shift_
+  bool small_ = false;            // int32 models whose |delta| takes fewer than lane_levels units
+  std::int32_t levels_used_ = 1;  // small_: the largest |delta| in units, plus one
+  std::size_t flush_every_ = 1;   // attempts whose energy changes surely fit the field type
   std::size_t count_ = Width;
   std::uint64_t first_ = 0;
   std::uint64_t sweeps_ = 0;
