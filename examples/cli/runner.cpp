@@ -7,6 +7,7 @@
 #include <spinwright/kernels/auto.hpp>
 #include <spinwright/kernels/descent.hpp>
 #include <spinwright/kernels/exact.hpp>
+#include <spinwright/kernels/lanes.hpp>
 #include <spinwright/kernels/tabu.hpp>
 #include <spinwright/kernels/temper.hpp>
 #include <spinwright/parallel/exact_threads.hpp>
@@ -15,7 +16,8 @@
 #include <algorithm>  // std::max
 #include <atomic>     // std::atomic
 #include <cmath>      // std::ceil
-#include <thread>     // std::thread::hardware_concurrency
+#include <thread>     // std::thread
+#include <vector>     // std::vector
 
 namespace spinwright_cli {
 
@@ -185,6 +187,73 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
   return s;
 }
 
+// Many annealing restarts of a whole schedule: blocks of lanes (kernels/lanes.hpp) on the
+// threads, each lane's best polished as one_restart's is. False (nothing run) when lanes do not
+// apply: another kernel, time filling, a target or a time limit (both are per restart), too few
+// restarts, a dense model, or a model beyond the lanes' field bound.
+template <class Model>
+bool lanes_restarts(const Model& model, const RunOptions& o, spinwright::Tally<double>& tally,
+                    std::atomic<std::uint64_t>& cut_short) {
+  constexpr std::size_t width = spinwright::default_lane_width;
+  using Lanes = spinwright::LaneAnnealer<Model, width>;
+  if constexpr (Model::is_dense) {
+    return false;
+  } else {
+    if (o.kernel != Kernel::anneal || o.fill_time || o.has_target || o.restarts < width / 2 ||
+        o.time_limit < std::numeric_limits<double>::infinity() || !Lanes::fits(model)) {
+      return false;
+    }
+    spinwright::AnnealParams p;
+    p.initial = o.warm != nullptr ? o.warm->data() : nullptr;
+    const std::uint64_t blocks = (o.restarts + width - 1) / width;
+    std::vector<spinwright::Solution<double>> results(static_cast<std::size_t>(o.restarts));
+    std::atomic<std::uint64_t> next{0};
+    auto worker = [&]() {
+      ProgressObserver observer{o.progress};
+      for (std::uint64_t b = next.fetch_add(1); b < blocks; b = next.fetch_add(1)) {
+        const std::uint64_t first = b * width;
+        const auto count = static_cast<std::size_t>(std::min<std::uint64_t>(width, o.restarts - first));
+        Lanes lanes(model, p, o.seed, first, count);
+        spinwright::Budget budget;
+        budget.sweeps = o.sweeps;
+        budget.stop = &interrupt_token();
+        budget.clock = spinwright::steady_clock();
+        double seconds = 0;
+        const spinwright::StopReason why = lanes.advance(budget, observer, &seconds);
+        for (std::size_t l = 0; l < count; ++l) {
+          const auto lane = lanes.solution(l);
+          spinwright::Solution<double> s;
+          s.spins = lane.spins;
+          s.energy = static_cast<double>(lane.energy);
+          s.sweeps = lane.sweeps;
+          s.attempted = lane.attempted;
+          s.accepted = lane.accepted;
+          s.restart = lane.restart;
+          s.reason = why;
+          s.seconds = seconds;
+          if (cut(s)) cut_short.fetch_add(1, std::memory_order_relaxed);
+          results[static_cast<std::size_t>(first + l)] = finish(model, s);
+          if (o.progress != nullptr) {
+            o.progress->best.offer(results[static_cast<std::size_t>(first + l)].energy);
+            o.progress->restarts_done.fetch_add(1, std::memory_order_relaxed);
+          }
+        }
+      }
+    };
+    const auto threads = static_cast<unsigned>(std::min<std::uint64_t>(o.threads, blocks));
+    if (threads <= 1) {
+      worker();
+    } else {
+      std::vector<std::thread> pool;
+      for (unsigned t = 0; t < threads; ++t) pool.emplace_back(worker);
+      for (auto& th : pool) th.join();
+    }
+    tally = spinwright::Tally<double>();
+    for (auto& s : results) tally.add(std::move(s));
+    return true;
+  }
+}
+
 template <class Model>
 Failure run_exact_kernel(const LoadedModel& m, const Model& model, const RunOptions& o, RunResult& out) {
   spinwright::ExactParams params;
@@ -236,10 +305,16 @@ Failure run_kernel(const LoadedModel& m, const RunOptions& options, RunResult& o
     out.threads = static_cast<unsigned>(std::min<std::uint64_t>(o.threads, std::max<std::uint64_t>(o.restarts, 1)));
     o.threads = out.threads;
     std::atomic<std::uint64_t> cut_short{0};
-    out.tally = visit(m, [&](const auto& model) {
-      return spinwright::run_restarts<double>(
-          o.restarts, o.threads, [&](std::uint64_t r) { return one_restart(model, o, r, start, cut_short); });
-    });
+    const bool lanes = visit(m, [&](const auto& model) { return lanes_restarts(model, o, out.tally, cut_short); });
+    if (lanes) {
+      out.lane_width = spinwright::default_lane_width;
+      out.lane_unit = spinwright::lane_unit_name(spinwright::best_lane_unit());
+    } else {
+      out.tally = visit(m, [&](const auto& model) {
+        return spinwright::run_restarts<double>(
+            o.restarts, o.threads, [&](std::uint64_t r) { return one_restart(model, o, r, start, cut_short); });
+      });
+    }
     out.cut_short = cut_short.load();
   }
   out.seconds = spinwright::steady_seconds(nullptr) - start;
