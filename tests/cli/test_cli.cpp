@@ -245,7 +245,7 @@ TEST_CASE("cli: many annealing restarts run in lockstep lanes, and the report sa
     REQUIRE(r.code == 0);
     runs.push_back(parse_ok(r));
   }
-  CHECK(runs[0]["lanes"].num == 16);
+  CHECK(runs[0]["lanes"].num == 32);
   CHECK(spins_of(runs[1]) == spins_of(runs[0]));
   CHECK(runs[1]["tally"]["mean"].text == runs[0]["tally"]["mean"].text);
   const RunOutput text = run(dir, {"solve", path, "--kernel", "anneal", "--restarts", "20", "--sweeps", "60"});
