@@ -370,6 +370,18 @@ TEST_CASE("a model beyond the int32 field bound is refused clearly, and the rest
   CHECK(t.lane_width == 0);
   CHECK(t.restarts() == 20);
   CHECK(t.best().energy == -1200000000);
+  // The edge: a field bound of 2^30 is refused (2 |field| would not fit), 2^30 - 1 taken.
+  IsingBuilder<std::int32_t> at(3), below(3);
+  at.add_coupling(0, 1, 1 << 29);
+  at.add_coupling(0, 2, 1 << 29);
+  below.add_coupling(0, 1, 1 << 29);
+  below.add_coupling(0, 2, (1 << 29) - 1);
+  CHECK_FALSE(LaneAnnealer<IsingModel<std::int32_t>>::fits(at.build().value()));
+  const auto edge = below.build().value();
+  REQUIRE(LaneAnnealer<IsingModel<std::int32_t>>::fits(edge));
+  const auto e = anneal_lanes<4>(edge, p, 1, 4);
+  REQUIRE(e.size() == 4);
+  for (const auto& s : e) CHECK(s.energy == -(1 << 30) + 1);
 }
 
 TEST_CASE("the arena constructor needs no heap and gives the heap constructor's answer") {

@@ -94,7 +94,7 @@ inline const char* lane_unit_name(LaneUnit unit) noexcept {
 }
 
 /// The local-field type of the lanes kernel: int32 for integer values up to 32 bits (a model
-/// whose field bound exceeds 2^30 is refused: fits() is false), int64 for int64 values,
+/// whose field bound reaches 2^30 is refused: fits() is false), int64 for int64 values,
 /// double for floating values.
 template <class Value>
 using lane_field_t = std::conditional_t<std::is_integral_v<Value>,
@@ -168,12 +168,12 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
   }
 
   /// Whether the lanes kernel takes this model: fewer than 2^32 spins and, for int32 local
-  /// fields, |site term| + sum |pair| at most 2^30 at every spin (2^62 for int64).
+  /// fields, |site term| + sum |pair| below 2^30 at every spin (2^62 for int64), so 2 |field| fits.
   static bool fits(const Model& model) noexcept {
     const std::size_t n = model.num_spins();
     if (static_cast<std::uint64_t>(n) >= (std::uint64_t{1} << 32)) return false;
     if constexpr (std::is_integral_v<field_type>) {
-      const std::uint64_t limit = sizeof(field_type) == 4 ? (std::uint64_t{1} << 30) : (std::uint64_t{1} << 62);
+      const std::uint64_t limit = sizeof(field_type) == 4 ? (std::uint64_t{1} << 30) - 1 : (std::uint64_t{1} << 62) - 1;
       for (std::size_t i = 0; i < n; ++i) {
         const auto ii = static_cast<index_type>(i);
         std::uint64_t s = detail::magnitude_u64(model.site_term(ii));
