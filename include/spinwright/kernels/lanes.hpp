@@ -639,7 +639,7 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
           const std::int32_t qd = up[l] != 0 ? q[l] : (1 << 30);
           take[l] = u[l] < static_cast<std::uint32_t>(qd) ? 1 : 0;
         } else {
-          const std::uint64_t prod = static_cast<std::uint64_t>(u[l]) * static_cast<std::uint32_t>(q[l] + (1 << 30));
+          const std::uint64_t prod = static_cast<std::uint64_t>(u[l]) * (static_cast<std::uint32_t>(q[l]) + (1u << 30));
           const std::uint64_t bound =
               up[l] != 0 ? static_cast<std::uint64_t>(static_cast<std::uint32_t>(q[l])) << 30 : std::uint64_t{1} << 60;
           take[l] = prod < bound ? 1 : 0;
