@@ -117,6 +117,7 @@ std::string solve_json(const LoadedModel& m, const SolveSettings& s, const RunRe
   j.member("restarts", static_cast<std::uint64_t>(r.tally.restarts()));
   j.member("threads", r.threads);
   j.member("ranks", static_cast<std::uint64_t>(job_ranks()));
+  j.member("lanes", static_cast<std::uint64_t>(r.lane_width));
   j.member("sweeps", r.tally.total_sweeps());
   j.member("seconds", r.seconds);
   j.member("interrupted", r.interrupted);
@@ -191,6 +192,9 @@ std::string solve_text(const LoadedModel& m, const SolveSettings& s, const RunRe
                            (job_ranks() > 1 ? " on each of " + std::to_string(job_ranks()) + " ranks" : "") +
                            ", seed " + std::to_string(s.run.seed));
     t.line("sweeps", std::to_string(r.tally.total_sweeps()) + " in total");
+    if (r.lane_width > 0) {
+      t.line("lanes", std::to_string(r.lane_width) + " restarts at a time in lockstep (" + r.lane_unit + ")");
+    }
   }
   t.line("time", seconds_text(r.seconds));
   if (r.interrupted) {

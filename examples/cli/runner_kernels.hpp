@@ -13,6 +13,7 @@
 #include <spinwright/kernels/beta_span.hpp>
 #include <spinwright/kernels/descent.hpp>
 #include <spinwright/kernels/exact.hpp>
+#include <spinwright/kernels/lanes.hpp>
 #include <spinwright/kernels/population.hpp>
 #include <spinwright/kernels/quantum_anneal.hpp>
 #include <spinwright/kernels/tabu.hpp>
@@ -24,6 +25,8 @@
 #include <atomic>     // std::atomic
 #include <cmath>      // std::ceil, std::log, std::isfinite
 #include <limits>     // std::numeric_limits
+#include <thread>     // std::thread
+#include <vector>     // std::vector
 
 namespace spinwright_cli::detail {
 
@@ -212,6 +215,74 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
   return s;
 }
 
+// Many annealing restarts of a whole schedule: blocks of lanes (kernels/lanes.hpp) on the
+// threads, each lane's best polished as one_restart's is; restarts first .. first + count - 1.
+// Lane r's answer depends on (seed, r) only (not on the block it runs in), so shares of any
+// size, on any rank, give the same tally.
+template <class Model>
+std::vector<spinwright::Solution<double>> lane_share(const Model& model, const RunOptions& o, std::uint64_t first,
+                                                     std::uint64_t count, double b0, double b1,
+                                                     std::atomic<std::uint64_t>& cut_short) {
+  constexpr std::size_t width = spinwright::default_lane_width;
+  using Lanes = spinwright::LaneAnnealer<Model, width>;
+  spinwright::AnnealParams p;
+  p.initial = o.warm != nullptr ? o.warm->data() : nullptr;
+  if (o.schedule.given()) p.schedule = spinwright::Schedule::geometric(b0, b1);
+  const std::uint64_t blocks = (count + width - 1) / width;
+  std::vector<spinwright::Solution<double>> results(static_cast<std::size_t>(count));
+  std::atomic<std::uint64_t> next{0};
+  auto worker = [&]() {
+    for (std::uint64_t b = next.fetch_add(1); b < blocks; b = next.fetch_add(1)) {
+      const std::uint64_t at = b * width;
+      const auto n = static_cast<std::size_t>(std::min<std::uint64_t>(width, count - at));
+      Lanes lanes(model, p, o.seed, first + at, n);
+      spinwright::Budget budget;
+      budget.sweeps = o.sweeps;
+      budget.stop = &interrupt_token();
+      budget.clock = spinwright::steady_clock();
+      ProgressObserver observer{o.progress, nullptr, 0};
+      double seconds = 0;
+      const spinwright::StopReason why = lanes.advance(budget, observer, &seconds);
+      for (std::size_t l = 0; l < n; ++l) {
+        auto lane = lanes.solution(l);
+        lane.reason = why;
+        lane.seconds = seconds;
+        if (cut(why)) cut_short.fetch_add(1, std::memory_order_relaxed);
+        auto& slot = results[static_cast<std::size_t>(at + l)];
+        slot = as_double(finish(model, std::move(lane)));
+        if (o.progress != nullptr) {
+          o.progress->best.offer(slot.energy);
+          o.progress->restarts_done.fetch_add(1, std::memory_order_relaxed);
+        }
+      }
+    }
+  };
+  const auto threads = static_cast<unsigned>(std::min<std::uint64_t>(o.threads, blocks));
+  if (threads <= 1) {
+    worker();
+  } else {
+    std::vector<std::thread> pool;
+    for (unsigned t = 0; t < threads; ++t) pool.emplace_back(worker);
+    for (auto& th : pool) th.join();
+  }
+  return results;
+}
+
+// Lanes run when they apply: annealing over a whole schedule (no time filling, target, time
+// limit or per-restart trace: those are per restart), at least half a block of restarts, a
+// sparse model within the lanes' field bound.
+template <class Model>
+bool lanes_apply(const Model& model, const RunOptions& o) {
+  if constexpr (Model::is_dense) {
+    return false;
+  } else {
+    constexpr std::size_t width = spinwright::default_lane_width;
+    return o.kernel == Kernel::anneal && !o.fill_time && !o.time_driven && !o.has_target && o.traces == nullptr &&
+           o.restarts >= width / 2 && !(o.time_limit < std::numeric_limits<double>::infinity()) &&
+           spinwright::LaneAnnealer<Model, width>::fits(model);
+  }
+}
+
 template <class Model>
 Failure run_restarts_on(const LoadedModel& m, const Model& model, const RunOptions& o, double start, RunResult& out) {
   (void)m;
@@ -230,6 +301,15 @@ Failure run_restarts_on(const LoadedModel& m, const Model& model, const RunOptio
   out.beta_start = b0;
   out.beta_end = b1;
   std::atomic<std::uint64_t> cut_short{0};
+  if (lanes_apply(model, o)) {
+    out.tally = spread_shares<double>(o.restarts, [&](std::uint64_t first, std::uint64_t count) {
+      return lane_share(model, o, first, count, b0, b1, cut_short);
+    });
+    out.lane_width = spinwright::default_lane_width;
+    out.lane_unit = spinwright::lane_unit_name(spinwright::best_lane_unit());
+    out.cut_short = cut_short.load();
+    return {};
+  }
   out.tally = spread_restarts<double>(
       o.restarts, o.threads, [&](std::uint64_t r) { return one_restart(model, o, r, start, b0, b1, cut_short); });
   out.cut_short = cut_short.load();

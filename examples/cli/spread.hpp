@@ -59,6 +59,22 @@ spinwright::Tally<Energy> spread_restarts(std::uint64_t restarts, unsigned threa
 #endif
 }
 
+// The same for a runner of whole shares: run_share(begin, count) -> the Solutions of restarts
+// begin .. begin + count - 1 in order (e.g. restarts in lockstep lanes), each depending on
+// (seed, r) only.
+template <class Energy, class RunShare>
+spinwright::Tally<Energy> spread_shares(std::uint64_t restarts, RunShare&& run_share) {
+#if SPINWRIGHT_CLI_MPI
+  return spinwright::mpi::distributed_shares<Energy>(MPI_COMM_WORLD, restarts, std::forward<RunShare>(run_share), 0,
+                                                     spinwright::mpi::Deliver::every_rank);
+#else
+  spinwright::Tally<Energy> tally;
+  if (restarts == 0) return tally;
+  for (auto& s : run_share(std::uint64_t{0}, restarts)) tally.add(std::move(s));
+  return tally;
+#endif
+}
+
 }  // namespace spinwright_cli
 
 #endif  // SPINWRIGHT_CLI_SPREAD_HPP

@@ -12,6 +12,7 @@
 #include "kernels/breakout.hpp"
 #include "kernels/descent.hpp"
 #include "kernels/exact.hpp"
+#include "kernels/lanes.hpp"
 #include "kernels/population.hpp"
 #include "kernels/quantum_anneal.hpp"
 #include "kernels/schedule.hpp"

@@ -246,6 +246,29 @@ TEST_CASE("cli: every bad input exits 1 with file:line: reason and no output") {
   check_input_error(run(dir, {"solve", g, "--format", "mtx"}), g + ":1:");
 }
 
+TEST_CASE("cli: many annealing restarts run in lockstep lanes, and the report says so") {
+  // kernels/lanes.hpp: at least default_lane_width / 2 restarts of --kernel anneal run W at a
+  // time; the spins must not depend on the thread count (common practice: (seed, r) streams).
+  TempDir dir;
+  REQUIRE(dir.ok());
+  const std::string path = dir.write("g.txt", random_graph(80, 300, -2, 2, 5).edge_list());
+  std::vector<Json> runs;
+  for (const char* threads : {"1", "2"}) {
+    const RunOutput r = run(dir, {"solve", path, "--kernel", "anneal", "--restarts", "20", "--sweeps", "60", "--seed",
+                                  "9", "--threads", threads, "--report", "json"});
+    REQUIRE(r.code == 0);
+    runs.push_back(parse_ok(r));
+  }
+  CHECK(runs[0]["lanes"].num == 32);
+  CHECK(spins_of(runs[1]) == spins_of(runs[0]));
+  CHECK(runs[1]["tally"]["mean"].text == runs[0]["tally"]["mean"].text);
+  const RunOutput text = run(dir, {"solve", path, "--kernel", "anneal", "--restarts", "20", "--sweeps", "60"});
+  CHECK(text.out.find("lockstep") != std::string::npos);
+  const RunOutput few = run(dir, {"solve", path, "--kernel", "anneal", "--restarts", "3", "--report", "json"});
+  REQUIRE(few.code == 0);
+  CHECK(parse_ok(few)["lanes"].num == 0);
+}
+
 TEST_CASE("cli: solve --report json holds the documented keys, and its cut and energy are right") {
   TempDir dir;
   REQUIRE(dir.ok());

@@ -136,6 +136,89 @@ bool better(const RestartRecord<Energy>& a, const RestartRecord<Energy>& b) {
 // programs whose every rank goes on with the answer, such as spinwright-mpi.
 enum class Deliver : std::uint8_t { root, every_rank };
 
+namespace detail {
+
+// The common end of distributed_restarts and distributed_shares: this rank's records (its
+// share, in restart order), its best record and state (best_spins_local: null when the share is
+// empty), gathered to the root in rank order = restart order.
+template <class Energy>
+Tally<Energy> gather_share(MPI_Comm comm, const Place& place, const std::vector<RestartRecord<Energy>>& records,
+                           bool have_local, const RestartRecord<Energy>& best_local,
+                           const std::vector<std::int8_t>* best_spins_local, int root, Deliver deliver) {
+  using Record = RestartRecord<Energy>;
+  // Gather the records (as bytes) to the root, in rank order = restart order.
+  const int bytes = static_cast<int>(records.size() * sizeof(Record));
+  std::vector<int> counts(place.is_root(root) ? static_cast<std::size_t>(place.ranks) : 0);
+  MPI_Gather(&bytes, 1, MPI_INT, counts.data(), 1, MPI_INT, root, comm);
+  std::vector<int> offsets(counts.size());
+  std::vector<Record> all;
+  if (place.is_root(root)) {
+    int at = 0;
+    for (std::size_t k = 0; k < counts.size(); ++k) {
+      offsets[k] = at;
+      at += counts[k];
+    }
+    all.resize(static_cast<std::size_t>(at) / sizeof(Record));
+  }
+  MPI_Gatherv(records.data(), bytes, MPI_BYTE, all.data(), counts.data(), offsets.data(), MPI_BYTE, root, comm);
+
+  // Each rank's best travels too (small), so the root knows whose state to ask for.
+  std::vector<Record> bests(place.is_root(root) ? static_cast<std::size_t>(place.ranks) : 0);
+  std::vector<int> has(place.is_root(root) ? static_cast<std::size_t>(place.ranks) : 0);
+  const int have = have_local ? 1 : 0;
+  MPI_Gather(&best_local, static_cast<int>(sizeof(Record)), MPI_BYTE, bests.data(), static_cast<int>(sizeof(Record)),
+             MPI_BYTE, root, comm);
+  MPI_Gather(&have, 1, MPI_INT, has.data(), 1, MPI_INT, root, comm);
+  int winner = -1;
+  if (place.is_root(root)) {
+    for (int k = 0; k < place.ranks; ++k) {
+      const auto kk = static_cast<std::size_t>(k);
+      if (has[kk] && (winner < 0 || detail::better(bests[kk], bests[static_cast<std::size_t>(winner)]))) winner = k;
+    }
+  }
+  MPI_Bcast(&winner, 1, MPI_INT, root, comm);
+
+  Tally<Energy> out;
+  std::vector<std::int8_t> best_spins;
+  if (winner >= 0) {
+    if (place.rank == winner) best_spins = *best_spins_local;
+    if (winner != root) {
+      if (place.rank == winner) {
+        const auto n = static_cast<std::uint64_t>(best_spins.size());
+        MPI_Send(&n, 1, MPI_UINT64_T, root, 0, comm);
+        MPI_Send(best_spins.data(), static_cast<int>(n), MPI_INT8_T, root, 1, comm);
+      } else if (place.is_root(root)) {
+        std::uint64_t n = 0;
+        MPI_Recv(&n, 1, MPI_UINT64_T, winner, 0, comm, MPI_STATUS_IGNORE);
+        best_spins.resize(static_cast<std::size_t>(n));
+        MPI_Recv(best_spins.data(), static_cast<int>(n), MPI_INT8_T, winner, 1, comm, MPI_STATUS_IGNORE);
+      }
+    }
+  }
+  if (deliver == Deliver::every_rank) {
+    std::uint64_t sizes[2] = {static_cast<std::uint64_t>(all.size()), static_cast<std::uint64_t>(best_spins.size())};
+    MPI_Bcast(sizes, 2, MPI_UINT64_T, root, comm);
+    all.resize(static_cast<std::size_t>(sizes[0]));
+    best_spins.resize(static_cast<std::size_t>(sizes[1]));
+    MPI_Bcast(all.data(), static_cast<int>(all.size() * sizeof(Record)), MPI_BYTE, root, comm);
+    MPI_Bcast(best_spins.data(), static_cast<int>(best_spins.size()), MPI_INT8_T, root, comm);
+    bests.resize(static_cast<std::size_t>(place.ranks));
+    MPI_Bcast(bests.data(), static_cast<int>(bests.size() * sizeof(Record)), MPI_BYTE, root, comm);
+  } else if (!place.is_root(root)) {
+    return out;
+  }
+
+  const Record& best = bests[static_cast<std::size_t>(winner < 0 ? 0 : winner)];
+  for (const Record& r : all) {
+    Solution<Energy> s = detail::solution_of(r);
+    if (winner >= 0 && r.restart == best.restart) s.spins = best_spins;
+    out.add(std::move(s));
+  }
+  return out;
+}
+
+}  // namespace detail
+
 // Runs restarts 0 .. restarts - 1 over the ranks of `comm` (threads per rank, as run_restarts;
 // 0 = one per hardware thread)
 // and returns on `root` the Tally run_restarts would return in one process: same energies in
@@ -193,76 +276,34 @@ Tally<Energy> distributed_restarts(MPI_Comm comm, std::uint64_t restarts, unsign
   const bool have_local = local_best >= 0;
   Record best_local{};
   if (have_local) best_local = detail::record_of(thread_best[static_cast<std::size_t>(local_best)]);
+  return detail::gather_share<Energy>(comm, place, records, have_local, best_local,
+                                      have_local ? &thread_best[static_cast<std::size_t>(local_best)].spins : nullptr,
+                                      root, deliver);
+}
 
-  // Gather the records (as bytes) to the root, in rank order = restart order.
-  const int bytes = static_cast<int>(records.size() * sizeof(Record));
-  std::vector<int> counts(place.is_root(root) ? static_cast<std::size_t>(place.ranks) : 0);
-  MPI_Gather(&bytes, 1, MPI_INT, counts.data(), 1, MPI_INT, root, comm);
-  std::vector<int> offsets(counts.size());
-  std::vector<Record> all;
-  if (place.is_root(root)) {
-    int at = 0;
-    for (std::size_t k = 0; k < counts.size(); ++k) {
-      offsets[k] = at;
-      at += counts[k];
-    }
-    all.resize(static_cast<std::size_t>(at) / sizeof(Record));
+// The same, for programs that run a whole share at once (e.g. restarts in lockstep lanes):
+// run_share(begin, count) -> std::vector<Solution<Energy>> for restarts begin .. begin + count - 1
+// in order, each depending on (seed, r) only. Same result and messages as distributed_restarts.
+template <class Energy, class RunShare>
+Tally<Energy> distributed_shares(MPI_Comm comm, std::uint64_t restarts, RunShare&& run_share, int root = 0,
+                                 Deliver deliver = Deliver::root) {
+  static_assert(std::is_trivially_copyable<Energy>::value, "energies travel as bytes");
+  using Record = detail::RestartRecord<Energy>;
+  const Place place = place_in(comm);
+  const std::uint64_t begin = share_begin(place.rank, restarts, place.ranks);
+  const std::uint64_t mine = share_size(place.rank, restarts, place.ranks);
+  std::vector<Solution<Energy>> share;
+  if (mine > 0) share = run_share(begin, mine);
+  std::vector<Record> records(share.size());
+  std::size_t best = 0;
+  for (std::size_t k = 0; k < share.size(); ++k) {
+    share[k].restart = begin + k;
+    records[k] = detail::record_of(share[k]);
+    if (detail::better(records[k], records[best])) best = k;
   }
-  MPI_Gatherv(records.data(), bytes, MPI_BYTE, all.data(), counts.data(), offsets.data(), MPI_BYTE, root, comm);
-
-  // Each rank's best travels too (small), so the root knows whose state to ask for.
-  std::vector<Record> bests(place.is_root(root) ? static_cast<std::size_t>(place.ranks) : 0);
-  std::vector<int> has(place.is_root(root) ? static_cast<std::size_t>(place.ranks) : 0);
-  const int have = have_local ? 1 : 0;
-  MPI_Gather(&best_local, static_cast<int>(sizeof(Record)), MPI_BYTE, bests.data(), static_cast<int>(sizeof(Record)),
-             MPI_BYTE, root, comm);
-  MPI_Gather(&have, 1, MPI_INT, has.data(), 1, MPI_INT, root, comm);
-  int winner = -1;
-  if (place.is_root(root)) {
-    for (int k = 0; k < place.ranks; ++k) {
-      const auto kk = static_cast<std::size_t>(k);
-      if (has[kk] && (winner < 0 || detail::better(bests[kk], bests[static_cast<std::size_t>(winner)]))) winner = k;
-    }
-  }
-  MPI_Bcast(&winner, 1, MPI_INT, root, comm);
-
-  Tally<Energy> out;
-  std::vector<std::int8_t> best_spins;
-  if (winner >= 0) {
-    if (place.rank == winner) best_spins = thread_best[static_cast<std::size_t>(local_best)].spins;
-    if (winner != root) {
-      if (place.rank == winner) {
-        const auto n = static_cast<std::uint64_t>(best_spins.size());
-        MPI_Send(&n, 1, MPI_UINT64_T, root, 0, comm);
-        MPI_Send(best_spins.data(), static_cast<int>(n), MPI_INT8_T, root, 1, comm);
-      } else if (place.is_root(root)) {
-        std::uint64_t n = 0;
-        MPI_Recv(&n, 1, MPI_UINT64_T, winner, 0, comm, MPI_STATUS_IGNORE);
-        best_spins.resize(static_cast<std::size_t>(n));
-        MPI_Recv(best_spins.data(), static_cast<int>(n), MPI_INT8_T, winner, 1, comm, MPI_STATUS_IGNORE);
-      }
-    }
-  }
-  if (deliver == Deliver::every_rank) {
-    std::uint64_t sizes[2] = {static_cast<std::uint64_t>(all.size()), static_cast<std::uint64_t>(best_spins.size())};
-    MPI_Bcast(sizes, 2, MPI_UINT64_T, root, comm);
-    all.resize(static_cast<std::size_t>(sizes[0]));
-    best_spins.resize(static_cast<std::size_t>(sizes[1]));
-    MPI_Bcast(all.data(), static_cast<int>(all.size() * sizeof(Record)), MPI_BYTE, root, comm);
-    MPI_Bcast(best_spins.data(), static_cast<int>(best_spins.size()), MPI_INT8_T, root, comm);
-    bests.resize(static_cast<std::size_t>(place.ranks));
-    MPI_Bcast(bests.data(), static_cast<int>(bests.size() * sizeof(Record)), MPI_BYTE, root, comm);
-  } else if (!place.is_root(root)) {
-    return out;
-  }
-
-  const Record& best = bests[static_cast<std::size_t>(winner < 0 ? 0 : winner)];
-  for (const Record& r : all) {
-    Solution<Energy> s = detail::solution_of(r);
-    if (winner >= 0 && r.restart == best.restart) s.spins = best_spins;
-    out.add(std::move(s));
-  }
-  return out;
+  const bool have_local = !share.empty();
+  return detail::gather_share<Energy>(comm, place, records, have_local, have_local ? records[best] : Record{},
+                                      have_local ? &share[best].spins : nullptr, root, deliver);
 }
 
 }  // namespace mpi
