@@ -95,6 +95,23 @@ TEST_CASE("Deliver::every_rank: the same tally on every rank") {
   check_same(got, sw::run_restarts<std::int64_t>(5, 1, one));
 }
 
+TEST_CASE("distributed_shares: a runner of whole shares gives the same tally") {
+  auto read = sw::io::read_edge_list<std::int32_t>(std::string(SPINWRIGHT_DATA_DIR) + "/maxcut/G43.txt");
+  REQUIRE(sw::mpi::agree(MPI_COMM_WORLD, read.ok()));
+  sw::AnnealParams params;
+  params.sweeps = 100;
+  auto one = [&](std::uint64_t r) { return sw::anneal(read.value(), params, 9, r); };
+  auto share = [&](std::uint64_t first, std::uint64_t count) {
+    std::vector<sw::Solution<std::int64_t>> out;
+    for (std::uint64_t r = first; r < first + count; ++r) out.push_back(one(r));
+    return out;
+  };
+  for (std::uint64_t restarts : {7ull, 2ull, 0ull}) {
+    auto got = sw::mpi::distributed_shares<std::int64_t>(MPI_COMM_WORLD, restarts, share);
+    if (sw::mpi::place_in(MPI_COMM_WORLD).is_root()) check_same(got, sw::run_restarts<std::int64_t>(restarts, 1, one));
+  }
+}
+
 TEST_CASE("ties go to the lowest restart index, whichever rank holds it") {
   // Two spins, one antiferromagnetic bond: every restart ends at energy -1 in one of two states.
   sw::IsingBuilder<double> b(2);

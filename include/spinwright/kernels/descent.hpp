@@ -1,20 +1,7 @@
-// spinwright — descent to a local minimum: steepest (best improving move of the whole
-// neighbourhood each time) or first improvement (scan the neighbourhood cyclically, take any
-// improving move). Usable alone, from random or given spins, or to polish another kernel's
-// Solution. A one-call function descend() / polish() and a stepping object Descender.
-//
-// Generic over the model and over any enumerable move (moves/move.hpp): SingleFlip by
-// default; CountKeepingSwap and GroupFlip work too. "Local minimum" is with respect to that move's
-// neighbourhood. One pass = neighbourhood_size(state) evaluated moves; a Solution's `sweeps`
-// counts passes. Descent that reaches a local minimum ends with StopReason::budget_exhausted.
-//
-// Floating models: a move counts as improving when its delta is below -tolerance, where
-// tolerance = 1e-12 * (1 + energy bound), so rounding in the tracked local fields can never
-// make two moves undo each other forever.
-//
-// Allocation: the constructor allocates (heap or caller Arena); step(), advance(), reset() and
-// warm_start() do not. With SPINWRIGHT_NO_HEAP the heap constructors, run(), solution(),
-// descend() and polish() are not declared.
+// spinwright — descent to a local minimum, steepest or first improvement, over any enumerable
+// move (moves/move.hpp): alone, from random or given spins, or to polish another kernel's
+// Solution; a one-call function descend() / polish() and a stepping object Descender. The rules,
+// the floating tolerance and what allocates: docs/kernels.md.
 #ifndef SPINWRIGHT_KERNELS_DESCENT_HPP
 #define SPINWRIGHT_KERNELS_DESCENT_HPP
 

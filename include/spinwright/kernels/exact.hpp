@@ -1,37 +1,7 @@
-// spinwright — exact enumeration of every spin assignment in Gray-code order.
-//
-// Each step flips one spin (SpinState::flip, O(degree)), so 2^N states cost about
-// 2^N * degree operations. The result gives the ground energy, the ground state with the
-// lowest canonical index, the number of ground states, and optionally the k lowest distinct
-// energy levels with their degeneracies.
-//
-// Canonical index of an assignment: sum_k x_k 2^k with x_k = (1 - s_k) / 2 (spin 0 is the
-// least significant bit, spin +1 is bit 0). Among several ground states the one with the
-// lowest canonical index is reported, whatever the visiting order or the thread count.
-//
-// Work split: the states are cut into a fixed number of chunks that depends only on N and
-// the parameters (never on the thread count): the top bits of the canonical index name the
-// chunk and the low bits are enumerated in Gray order inside it. Chunk results are merged in
-// chunk order, so parallel/exact_threads.hpp gives bit-identical answers for any thread count.
-//
-// Global flip symmetry: an Ising model with every field zero has E(s) = E(-s). When
-// ExactParams::flip_symmetry is set (the default) and the model qualifies, only the states
-// with spin N-1 = +1 (bit 0) are visited and every count is doubled. The reported ground state
-// is unchanged: of s and -s the one with bit N-1 = 0 has the lower canonical index. QUBO
-// models and Ising models with any non-zero field are always enumerated in full.
-//
-// Floating models: energies are accumulated incrementally in double precision, so two
-// assignments with mathematically equal energy can differ by rounding. Energies that differ
-// by at most tolerance * max(1, energy_bound()) are counted as one level (ExactParams::tolerance,
-// default 1e-9); the level's energy is the lowest value seen. Integer models are exact
-// (tolerance ignored).
-//
-// Size limits: N > ExactParams::max_spins (default 30, about 10^9 states) and N > 40 (the
-// hard limit, exact_hard_limit) are refused with StatusCode::size_limit.
-//
-// Stopping: ExactParams::stop, when set, is polled every 2^16 states; a requested stop ends
-// the enumeration with StatusCode::stopped and no answer (a partial enumeration proves
-// nothing).
+// spinwright — exact enumeration of every spin assignment in Gray-code order: ground energy,
+// the ground state of lowest canonical index, the number of ground states and optionally the k
+// lowest levels; a fixed chunking so threads give bit-identical answers, the flip-symmetry
+// shortcut, the floating-level tolerance and the size limits are in docs/kernels.md.
 #ifndef SPINWRIGHT_KERNELS_EXACT_HPP
 #define SPINWRIGHT_KERNELS_EXACT_HPP
 

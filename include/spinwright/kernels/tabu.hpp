@@ -1,36 +1,7 @@
-// spinwright — tabu search over one-flip moves: a one-call function tabu_walk() and a
-// stepping object TabuWalker for embedding.
-//
-// Method: F. Glover, "Tabu search — Part I", ORSA J. Comput. 1(3), 190-206 (1989), and
-// "Tabu search — Part II", ORSA J. Comput. 2(1), 4-32 (1990). Each move flips the spin whose flip
-// lowers the energy most (or raises it least) among the spins that are not tabu; a spin flipped
-// at move m is tabu for the next `tenure` moves. Aspiration: a tabu spin may still be flipped when
-// that flip gives an energy below the best found so far. After `stagnation` moves without a new
-// best, the search restarts from the best state with a random fraction of its spins flipped
-// (perturbation), with an empty tabu list and a freshly drawn tenure (tenure + a random extra in
-// [0, tenure_spread]).
-//
-// Move selection without a scan: two tournament trees (complete binary trees over the spins, each
-// internal node holding the leaf of least delta below it; ties go to the leftmost leaf), one over the
-// deltas of the free spins and one over the deltas of the tabu spins (the other entries hold +inf).
-// The best free move and the best tabu move are read at the roots in O(1). Flipping spin i changes
-// the deltas of i and of its neighbours, so each flip updates deg(i) + 1 leaves of both trees in
-// O((deg(i) + 1) log N); when that exceeds the cost of rebuilding both trees bottom-up (O(N), as on
-// dense models) the trees are rebuilt instead. Spins sit on the leaves in a random order drawn
-// afresh at every cycle (start and perturbation), so ties between equal deltas (frequent with
-// small integer weights) are broken at random rather than always towards low indices. Releasing a spin from the tabu
-// list (at most one per move: the list is a FIFO of flip times) is two leaf updates, O(log N). A move therefore costs
-// O(min((deg + 1) log N, N)) on top of SpinState::flip's O(deg).
-//
-// One sweep is N moves (so a Budget's sweeps mean the same amount of flipping as for annealing).
-// Best state: tracked at every move; the spins are copied only when the search leaves a best state,
-// so a run of improving moves copies nothing.
-//
-// Allocation: the constructor allocates (state, trees, tabu list, best copy, permutation);
-// step(), reset() and warm_start() allocate nothing.
-//
-// Hooks (descent_move, tabu_move, forced_move, new_cycle, jump_to): single moves on the same
-// trees and tabu list for searches built on the walk (kernels/breakout.hpp).
+// spinwright — tabu search over one-flip moves (Glover 1989, 1990): a one-call function
+// tabu_walk() and a stepping object TabuWalker; move selection on two tournament trees (free and
+// tabu spins) in O((deg + 1) log N), aspiration, perturbation after stagnation, and hooks for
+// searches built on the walk (kernels/breakout.hpp). The method and its costs: docs/kernels.md.
 #ifndef SPINWRIGHT_KERNELS_TABU_HPP
 #define SPINWRIGHT_KERNELS_TABU_HPP
 

@@ -1,38 +1,7 @@
-// spinwright — replica-exchange tempering: a one-call function temper() and a stepping object
-// Tempering for embedding (construct once, call step(n) from your own loop, read best()).
-//
-// Method: K. Hukushima, K. Nemoto, "Exchange Monte Carlo method and application to spin glass
-// simulations", J. Phys. Soc. Jpn. 65, 1604-1608 (1996). One replica per rung of a ladder of
-// inverse temperatures beta_0 < ... < beta_{T-1}; one sweep = one Metropolis sweep (N sites drawn
-// at random by default, or in index order) on every replica, then a swap attempt between every neighbouring pair of
-// rungs (k, k+1) in increasing k, accepted with probability min(1, exp((beta_k - beta_{k+1}) (E_k - E_{k+1}))). Swaps
-// exchange which replica sits on which rung; no spins are copied.
-//
-// Ladder: geometric (default) or linear between beta_min and beta_max, or a user list.
-// beta_min / beta_max default to the automatic range of the annealing kernels (estimate_beta_span:
-// a typical uphill flip accepted with probability 1/2 at the hot end, the smallest uphill step with
-// probability 1e-3 at the cold end). Adaptive option: a warm-up of adapt_rounds rounds of
-// adapt_sweeps sweeps each; during a round the energy of the replica on each rung is recorded, and
-// after it the inner rungs are moved so that every neighbouring pair has the same share of
-// L = sum_k (beta_{k+1} - beta_k) sqrt(sigma_k sigma_{k+1}), sigma_k the energy standard deviation
-// on rung k. The swap acceptance of a pair falls with (delta beta * sigma) (the energy histograms
-// of the two rungs overlap less), so equal shares even out the acceptances; repeating the rounds
-// refines sigma on the new ladder (placement by equal energy-fluctuation length; common practice).
-// beta_min and beta_max stay fixed. Swap counters are reset after each adjustment, so the reported
-// acceptances are those of the final ladder.
-//
-// Houdayer cluster moves (optional; J. Houdayer, "A cluster Monte Carlo algorithm for
-// 2-dimensional spin glasses", Eur. Phys. J. B 22, 479-484 (2001)): two replicas per rung, each set
-// with its own swaps. After every sweep, on each rung whose beta is <= houdayer_beta_max, a random
-// site where the two replicas differ seeds a cluster grown over non-zero couplings through sites
-// where they differ; the cluster is flipped in both replicas. The sum of the two energies is
-// unchanged (fields and boundary couplings cancel because the replicas are opposite on the cluster
-// and equal just outside it), so the move is always accepted. Meant for sparse graphs: on dense
-// models the cluster is nearly the whole set of differing sites.
-//
-// Allocation: the constructor allocates (replicas, acceptors, ladder, counters, best copy, cluster
-// workspace); step(), reset() and warm_start() allocate nothing. run() and solution() allocate the
-// returned spin vector and the reported ladder and acceptances.
+// spinwright — replica-exchange tempering (Hukushima & Nemoto 1996): a one-call function
+// temper() and a stepping object Tempering; geometric, linear or listed ladders, an adaptive
+// ladder by equal energy-fluctuation length, optional Houdayer cluster moves. The method, the
+// ladder rules and what allocates: docs/kernels.md.
 #ifndef SPINWRIGHT_KERNELS_TEMPER_HPP
 #define SPINWRIGHT_KERNELS_TEMPER_HPP
 
