@@ -94,7 +94,7 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
   Annealer(const Model& model, const AnnealParams& params, Move move, std::uint64_t seed, std::uint64_t restart = 0)
       : model_(&model),
         params_(params),
-        state_(model),
+        state_(model, DeferredStart{}),
         move_(std::move(move)),
         acceptor_(make_acceptor(model, params.acceptance, params.table_limit, uses_hazard(params))),
         best_spins_(model.num_spins(), 1) {
@@ -111,7 +111,7 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
            std::uint64_t restart = 0)
       : model_(&model),
         params_(params),
-        state_(model, arena),
+        state_(model, arena, DeferredStart{}),
         move_(std::move(move)),
         acceptor_(make_acceptor(model, params.acceptance, params.table_limit, arena, uses_hazard(params))),
         best_spins_(model.num_spins(), arena, 1) {
