@@ -118,27 +118,10 @@ double sampled_flip_magnitude(const Model& model, std::uint64_t k) {
   return d < 0 ? -d : d;
 }
 
-}  // namespace detail
-
-// Rule (see docs/moves.md, "beta span from the model"): the model's own flip deltas, sampled
-// at uniformly random states (the start of an anneal), set both ends.
-//  - 1024 samples, 128 with SPINWRIGHT_NO_HEAP (site and state from a fixed hash of the
-//    sample's number, so the span depends on the model and that setting only); the magnitudes |delta| of the non-zero
-//    ones stand for the uphill flips (a downhill flip's reverse is uphill by as much).
-//  - beta_start solves mean_k exp(-beta d_k) = start_acceptance (bisection; the mean
-//    acceptance of the sampled uphill flips, the initial acceptance ratio of Kirkpatrick,
-//    Gelatt & Vecchi 1983 and Johnson, Aragon, McGeoch & Schevon 1989, estimated from
-//    sampled transitions as Ben-Ameur 2004 does, without his Boltzmann weights).
-//  - beta_end = ln(1 / end_acceptance) / d_min, d_min the smallest uphill move: the smallest
-//    sampled magnitude, or the smallest change one coefficient makes (2 |J| or 2 |h| for
-//    Ising, |Q| for QUBO) when that is smaller, since a random state need not show the
-//    small moves of low-energy states.
-// hot_delta reports the delta whose acceptance is start_acceptance at beta_start
-// (ln(1 / start_acceptance) / beta_start) and cold_delta is d_min. A model with no non-zero
-// coefficient gets beta 1 .. 1; one whose samples all flip for free falls back to
-// estimate_beta_span. No allocation.
+// sample_beta_span with `cold_bound` = estimate_beta_span(model).cold_delta supplied by the
+// caller (a kernel that scans the coefficients once for several purposes).
 template <class Model>
-BetaSpan sample_beta_span(const Model& model, const BetaSpanTargets& targets = BetaSpanTargets{}) {
+BetaSpan sample_beta_span_bounded(const Model& model, const BetaSpanTargets& targets, double cold_bound) {
   // Held on the stack: 8 KiB, or 1 KiB where firmware stacks are small.
   constexpr std::size_t samples = SPINWRIGHT_NO_HEAP ? 128 : 1024;
   double d[samples];
@@ -183,11 +166,37 @@ BetaSpan sample_beta_span(const Model& model, const BetaSpanTargets& targets = B
   r.hot_delta = ln0 / r.beta_start;
   // A random state need not show the smallest move a low-energy state makes: the smallest
   // change one coefficient can make bounds it from below.
-  const double bound = estimate_beta_span(model).cold_delta;
+  const double bound = cold_bound;
   r.cold_delta = bound > 0 && bound < lo_d ? bound : lo_d;
   r.beta_end = std::log(1 / p1) / r.cold_delta;
   if (r.beta_end < r.beta_start) r.beta_end = r.beta_start;
   return r;
+}
+
+}  // namespace detail
+
+// Rule (see docs/moves.md, "beta span from the model"): the model's own flip deltas, sampled
+// at uniformly random states (the start of an anneal), set both ends.
+//  - 1024 samples, 128 with SPINWRIGHT_NO_HEAP (site and state from a fixed hash of the
+//    sample's number, so the span depends on the model and that setting only); the magnitudes |delta| of the non-zero
+//    ones stand for the uphill flips (a downhill flip's reverse is uphill by as much).
+//  - beta_start solves mean_k exp(-beta d_k) = start_acceptance (bisection; the mean
+//    acceptance of the sampled uphill flips, the initial acceptance ratio of Kirkpatrick,
+//    Gelatt & Vecchi 1983 and Johnson, Aragon, McGeoch & Schevon 1989, estimated from
+//    sampled transitions as Ben-Ameur 2004 does, without his Boltzmann weights).
+//  - beta_end = ln(1 / end_acceptance) / d_min, d_min the smallest uphill move: the smallest
+//    sampled magnitude, or the smallest change one coefficient makes (2 |J| or 2 |h| for
+//    Ising, |Q| for QUBO) when that is smaller, since a random state need not show the
+//    small moves of low-energy states.
+// hot_delta reports the delta whose acceptance is start_acceptance at beta_start
+// (ln(1 / start_acceptance) / beta_start) and cold_delta is d_min. A model with no non-zero
+// coefficient gets beta 1 .. 1; one whose samples all flip for free falls back to
+// estimate_beta_span. No allocation.
+template <class Model>
+BetaSpan sample_beta_span(const Model& model, const BetaSpanTargets& targets = BetaSpanTargets{}) {
+  // The bound is read only when some sample flips at a cost; reading it first keeps one code
+  // path (the result is the same).
+  return detail::sample_beta_span_bounded(model, targets, estimate_beta_span(model).cold_delta);
 }
 
 }  // namespace spinwright
