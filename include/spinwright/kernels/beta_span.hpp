@@ -8,9 +8,10 @@
 #include "../config.hpp"
 #include "../model/form.hpp"
 
-#include <cmath>    // std::sqrt, std::exp, std::log
-#include <cstddef>  // std::size_t
-#include <cstdint>  // std::uint64_t
+#include <algorithm>  // std::sort, std::unique, std::lower_bound
+#include <cmath>      // std::sqrt, std::exp, std::log
+#include <cstddef>    // std::size_t
+#include <cstdint>    // std::uint64_t
 
 namespace spinwright {
 
@@ -122,7 +123,7 @@ double sampled_flip_magnitude(const Model& model, std::uint64_t k) {
 // caller (a kernel that scans the coefficients once for several purposes).
 template <class Model>
 BetaSpan sample_beta_span_bounded(const Model& model, const BetaSpanTargets& targets, double cold_bound) {
-  // Held on the stack: 8 KiB, or 1 KiB where firmware stacks are small.
+  // Held on the stack: 18 KiB, or 2.25 KiB where firmware stacks are small.
   constexpr std::size_t samples = SPINWRIGHT_NO_HEAP ? 128 : 1024;
   double d[samples];
   std::size_t m = 0;
@@ -148,9 +149,22 @@ BetaSpan sample_beta_span_bounded(const Model& model, const BetaSpanTargets& tar
   // ln0 / lo_d it is <= p0.
   double lo = ln0 / hi_d;
   double hi = ln0 / lo_d;
+  // Integer models show few distinct magnitudes: each bisection step takes one exp() per
+  // distinct value and sums the samples in their own order, the same sum bit for bit as one
+  // exp() per sample.
+  double u[samples];             // the distinct magnitudes, ascending
+  std::uint16_t which[samples];  // sample k's magnitude is u[which[k]]
+  for (std::size_t k = 0; k < m; ++k) u[k] = d[k];
+  std::sort(u, u + m);
+  const std::size_t distinct = static_cast<std::size_t>(std::unique(u, u + m) - u);
+  for (std::size_t k = 0; k < m; ++k) {
+    which[k] = static_cast<std::uint16_t>(std::lower_bound(u, u + distinct, d[k]) - u);
+  }
+  double* term = d;  // the magnitudes are no longer needed: term[q] = exp(-beta u[q])
   auto mean_acceptance = [&](double beta) {
+    for (std::size_t q = 0; q < distinct; ++q) term[q] = std::exp(-beta * u[q]);
     double sum = 0;
-    for (std::size_t k = 0; k < m; ++k) sum += std::exp(-beta * d[k]);
+    for (std::size_t k = 0; k < m; ++k) sum += term[which[k]];
     return sum / static_cast<double>(m);
   };
   for (int it = 0; it < 60 && hi - lo > 1e-12 * hi; ++it) {
