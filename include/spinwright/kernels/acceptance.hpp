@@ -495,21 +495,30 @@ CoefficientScan scan_coefficients(const Model& model) {
   if constexpr (std::is_integral_v<typename Model::energy_type>) {
     std::uint64_t bits = 0;
     std::uint64_t best = 0;
-    std::uint64_t smallest = 0;  // 0: none seen yet
+    // Values of 32 bits or fewer cannot overflow a row sum in 64 bits: the row is summed
+    // plainly and capped once, the same result as capping at every step.
+    constexpr bool narrow = sizeof(value_type) <= 4;
+    std::uint64_t smallest = ~std::uint64_t{0};  // all ones: none seen yet
     for (std::size_t i = 0; i < n; ++i) {
       const auto ii = static_cast<index_type>(i);
       const std::uint64_t lin = magnitude_u64(model.site_term(ii));
       bits |= lin;
       std::uint64_t row = lin;
-      if (lin != 0 && (smallest == 0 || lin < smallest)) smallest = lin;
+      if (lin != 0 && lin < smallest) smallest = lin;
       model.for_each_neighbour(ii, [&](index_type j, value_type v) {
         const std::uint64_t m = magnitude_u64(v);
         bits |= m;
-        add_bounded(row, m, integer_energy_limit);
-        if (j != ii && m != 0 && (smallest == 0 || m < smallest)) smallest = m;
+        if constexpr (narrow) {
+          row += m;
+        } else {
+          add_bounded(row, m, integer_energy_limit);
+        }
+        if (m < smallest && m != 0 && j != ii) smallest = m;
       });
+      if (narrow && row > integer_energy_limit) row = integer_energy_limit;
       if (row > best) best = row;
     }
+    if (smallest == ~std::uint64_t{0}) smallest = 0;
     r.shift = Model::form == Form::ising ? 1 : 0;
     if (bits != 0) {
       while ((bits & 1) == 0) {
