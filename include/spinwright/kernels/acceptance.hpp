@@ -11,6 +11,7 @@
 #include "../detail/buffer.hpp"
 #include "../model/form.hpp"
 #include "../rng/xoshiro.hpp"
+#include "beta_span.hpp"
 
 #include <cmath>        // std::exp, std::log, std::log1p
 #include <cstddef>      // std::size_t, std::ptrdiff_t
@@ -472,6 +473,97 @@ class Acceptor {
   bool hazard_ready_ = false;             // hazard_ matches beta_
   bool table_mode_ = integer;             // the table decides (integer models; floating ones with integer coefficients)
 };
+
+namespace detail {
+
+// What an annealer's set-up reads off the coefficients: the acceptance tables' shift and
+// largest delta (equal to delta_shift / max_flip_delta, or integral_float_model for floating
+// models) and estimate_beta_span(model).cold_delta, the bound sample_beta_span needs. One
+// pass for integer models; floating ones take the two passes they took before.
+struct CoefficientScan {
+  unsigned shift = 0;
+  std::uint64_t max_delta = 0;  // 0 with shift 0 for floating models without integer coefficients
+  double cold_bound = 0;
+};
+
+template <class Model>
+CoefficientScan scan_coefficients(const Model& model) {
+  using index_type = typename Model::index_type;
+  using value_type = typename Model::value_type;
+  CoefficientScan r;
+  const std::size_t n = model.num_spins();
+  if constexpr (std::is_integral_v<typename Model::energy_type>) {
+    std::uint64_t bits = 0;
+    std::uint64_t best = 0;
+    // Values of 32 bits or fewer cannot overflow a row sum in 64 bits: the row is summed
+    // plainly and capped once, the same result as capping at every step.
+    constexpr bool narrow = sizeof(value_type) <= 4;
+    std::uint64_t smallest = ~std::uint64_t{0};  // all ones: none seen yet
+    for (std::size_t i = 0; i < n; ++i) {
+      const auto ii = static_cast<index_type>(i);
+      const std::uint64_t lin = magnitude_u64(model.site_term(ii));
+      bits |= lin;
+      std::uint64_t row = lin;
+      if (lin != 0 && lin < smallest) smallest = lin;
+      model.for_each_neighbour(ii, [&](index_type j, value_type v) {
+        const std::uint64_t m = magnitude_u64(v);
+        bits |= m;
+        if constexpr (narrow) {
+          row += m;
+        } else {
+          add_bounded(row, m, integer_energy_limit);
+        }
+        if (m < smallest && m != 0 && j != ii) smallest = m;
+      });
+      if (narrow && row > integer_energy_limit) row = integer_energy_limit;
+      if (row > best) best = row;
+    }
+    if (smallest == ~std::uint64_t{0}) smallest = 0;
+    r.shift = Model::form == Form::ising ? 1 : 0;
+    if (bits != 0) {
+      while ((bits & 1) == 0) {
+        bits >>= 1;
+        ++r.shift;
+      }
+    }
+    r.max_delta = Model::form == Form::ising ? 2 * best : best;
+    // estimate_beta_span's cold_delta: rounding to double is monotonic, so the smallest
+    // magnitude converted equals the smallest of the converted magnitudes; an integer model
+    // with a non-zero coefficient has a non-zero sum of squares.
+    r.cold_bound = (Model::form == Form::ising ? 2 : 1) * static_cast<double>(smallest);
+  } else {
+    if (!integral_float_model(model, r.shift, r.max_delta)) {
+      r.shift = 0;
+      r.max_delta = 0;
+    }
+    r.cold_bound = estimate_beta_span(model).cold_delta;
+  }
+  return r;
+}
+
+}  // namespace detail
+
+// The acceptor from a scan already made (kernels that need the scan for more than the tables).
+#if !SPINWRIGHT_NO_HEAP
+template <class Energy>
+Acceptor<Energy> make_acceptor_from_scan(const detail::CoefficientScan& scan, Acceptance rule, std::size_t table_limit,
+                                         bool hazard = false) {
+  if constexpr (std::is_integral_v<Energy>) {
+    return Acceptor<Energy>(rule, scan.shift, scan.max_delta, table_limit, hazard);
+  } else {
+    return Acceptor<Energy>(rule, scan.shift, scan.max_delta, table_limit);
+  }
+}
+#endif
+template <class Energy>
+Acceptor<Energy> make_acceptor_from_scan(const detail::CoefficientScan& scan, Acceptance rule, std::size_t table_limit,
+                                         Arena& arena, bool hazard = false) {
+  if constexpr (std::is_integral_v<Energy>) {
+    return Acceptor<Energy>(rule, scan.shift, scan.max_delta, table_limit, arena, hazard);
+  } else {
+    return Acceptor<Energy>(rule, scan.shift, scan.max_delta, table_limit, arena);
+  }
+}
 
 #if !SPINWRIGHT_NO_HEAP
 // The acceptor suited to a model (integer models get the threshold table; `hazard` adds the

@@ -92,14 +92,7 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
       : Annealer(model, params, default_move(params), seed, restart) {}
 
   Annealer(const Model& model, const AnnealParams& params, Move move, std::uint64_t seed, std::uint64_t restart = 0)
-      : model_(&model),
-        params_(params),
-        state_(model),
-        move_(std::move(move)),
-        acceptor_(make_acceptor(model, params.acceptance, params.table_limit, uses_hazard(params))),
-        best_spins_(model.num_spins(), 1) {
-    init(seed, restart);
-  }
+      : Annealer(model, params, std::move(move), detail::scan_coefficients(model), seed, restart) {}
 #endif
 
   /// The same with the workspace carved from a caller-supplied arena (no heap; firmware).
@@ -109,14 +102,7 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
 
   Annealer(const Model& model, const AnnealParams& params, Move move, Arena& arena, std::uint64_t seed,
            std::uint64_t restart = 0)
-      : model_(&model),
-        params_(params),
-        state_(model, arena),
-        move_(std::move(move)),
-        acceptor_(make_acceptor(model, params.acceptance, params.table_limit, arena, uses_hazard(params))),
-        best_spins_(model.num_spins(), arena, 1) {
-    if (valid()) init(seed, restart);
-  }
+      : Annealer(model, params, std::move(move), arena, detail::scan_coefficients(model), seed, restart) {}
 
   /// Arena bytes the arena constructors need (the move's own storage not included).
   static std::size_t bytes_needed(const Model& model, const AnnealParams& params) {
@@ -198,6 +184,34 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
  private:
   friend class detail::Drive<Annealer>;
 
+  // The public constructors scan the coefficients once (kernels/acceptance.hpp,
+  // detail::scan_coefficients) for the acceptance tables and the beta span; the state is
+  // allocated without fields, which the start in init() computes once.
+#if !SPINWRIGHT_NO_HEAP
+  Annealer(const Model& model, const AnnealParams& params, Move move, const detail::CoefficientScan& scan,
+           std::uint64_t seed, std::uint64_t restart)
+      : model_(&model),
+        params_(params),
+        state_(model, DeferredStart{}),
+        move_(std::move(move)),
+        acceptor_(
+            make_acceptor_from_scan<energy_type>(scan, params.acceptance, params.table_limit, uses_hazard(params))),
+        best_spins_(model.num_spins(), 1) {
+    init(scan, seed, restart);
+  }
+#endif
+  Annealer(const Model& model, const AnnealParams& params, Move move, Arena& arena, const detail::CoefficientScan& scan,
+           std::uint64_t seed, std::uint64_t restart)
+      : model_(&model),
+        params_(params),
+        state_(model, arena, DeferredStart{}),
+        move_(std::move(move)),
+        acceptor_(make_acceptor_from_scan<energy_type>(scan, params.acceptance, params.table_limit, arena,
+                                                       uses_hazard(params))),
+        best_spins_(model.num_spins(), arena, 1) {
+    if (valid()) init(scan, seed, restart);
+  }
+
   // The schedule spans the budget's sweeps; with a time limit its position is also at least
   // the elapsed fraction of the limit, so a run cut by its deadline still ends cold.
   void begin_advance(std::uint64_t limit) noexcept {
@@ -207,17 +221,18 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
   }
   void before_sweep(double time_fraction) noexcept { time_fraction_ = time_fraction; }
 
-  void init(std::uint64_t seed, std::uint64_t restart) {
+  void init(const detail::CoefficientScan& scan, std::uint64_t seed, std::uint64_t restart) {
     schedule_sweeps_ = params_.sweeps;
     schedule_ = params_.schedule;
     if (schedule_.automatic()) {
-      range_ = sample_beta_span(*model_);
+      range_ = detail::sample_beta_span_bounded(*model_, BetaSpanTargets{}, scan.cold_bound);
       schedule_.beta_start = range_.beta_start;
       schedule_.beta_end = range_.beta_end;
     } else {
       range_.beta_start = schedule_.beta_start;
       range_.beta_end = schedule_.beta_end;
     }
+    tables_fresh_ = true;  // the acceptor was just built from this scan: no retune on the first start
     if (params_.initial != nullptr) {
       warm_start(params_.initial, seed, restart);
     } else {
@@ -239,9 +254,11 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
   }
 
   // Every restart re-reads the model (O(N + pairs), like the state's resync), so in-place
-  // coefficient edits between re-solves are honoured exactly.
+  // coefficient edits between re-solves are honoured exactly; the first start after
+  // construction skips the acceptor's retune, built from the same coefficients a moment ago.
   void start_from_state() {
-    acceptor_.retune(*model_);
+    if (!tables_fresh_) acceptor_.retune(*model_);
+    tables_fresh_ = false;
     detail::move_prepare(move_, state_);
     std::memcpy(best_spins_.data(), state_.spins(), best_spins_.size());
     best_energy_ = state_.energy();
@@ -362,6 +379,7 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
   Schedule schedule_{};
   BetaSpan range_{};
   Xoshiro256 rng_{};
+  bool tables_fresh_ = false;  // acceptor_ matches the model as scanned (set by init only)
   detail::Buffer<std::int8_t> best_spins_;
   energy_type best_energy_{};
   std::uint64_t best_sweep_ = 0;

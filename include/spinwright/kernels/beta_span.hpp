@@ -8,9 +8,10 @@
 #include "../config.hpp"
 #include "../model/form.hpp"
 
-#include <cmath>    // std::sqrt, std::exp, std::log
-#include <cstddef>  // std::size_t
-#include <cstdint>  // std::uint64_t
+#include <algorithm>  // std::sort, std::unique, std::lower_bound
+#include <cmath>      // std::sqrt, std::exp, std::log
+#include <cstddef>    // std::size_t
+#include <cstdint>    // std::uint64_t
 
 namespace spinwright {
 
@@ -118,28 +119,11 @@ double sampled_flip_magnitude(const Model& model, std::uint64_t k) {
   return d < 0 ? -d : d;
 }
 
-}  // namespace detail
-
-// Rule (see docs/moves.md, "beta span from the model"): the model's own flip deltas, sampled
-// at uniformly random states (the start of an anneal), set both ends.
-//  - 1024 samples, 128 with SPINWRIGHT_NO_HEAP (site and state from a fixed hash of the
-//    sample's number, so the span depends on the model and that setting only); the magnitudes |delta| of the non-zero
-//    ones stand for the uphill flips (a downhill flip's reverse is uphill by as much).
-//  - beta_start solves mean_k exp(-beta d_k) = start_acceptance (bisection; the mean
-//    acceptance of the sampled uphill flips, the initial acceptance ratio of Kirkpatrick,
-//    Gelatt & Vecchi 1983 and Johnson, Aragon, McGeoch & Schevon 1989, estimated from
-//    sampled transitions as Ben-Ameur 2004 does, without his Boltzmann weights).
-//  - beta_end = ln(1 / end_acceptance) / d_min, d_min the smallest uphill move: the smallest
-//    sampled magnitude, or the smallest change one coefficient makes (2 |J| or 2 |h| for
-//    Ising, |Q| for QUBO) when that is smaller, since a random state need not show the
-//    small moves of low-energy states.
-// hot_delta reports the delta whose acceptance is start_acceptance at beta_start
-// (ln(1 / start_acceptance) / beta_start) and cold_delta is d_min. A model with no non-zero
-// coefficient gets beta 1 .. 1; one whose samples all flip for free falls back to
-// estimate_beta_span. No allocation.
+// sample_beta_span with `cold_bound` = estimate_beta_span(model).cold_delta supplied by the
+// caller (a kernel that scans the coefficients once for several purposes).
 template <class Model>
-BetaSpan sample_beta_span(const Model& model, const BetaSpanTargets& targets = BetaSpanTargets{}) {
-  // Held on the stack: 8 KiB, or 1 KiB where firmware stacks are small.
+BetaSpan sample_beta_span_bounded(const Model& model, const BetaSpanTargets& targets, double cold_bound) {
+  // Held on the stack: 18 KiB, or 2.25 KiB where firmware stacks are small.
   constexpr std::size_t samples = SPINWRIGHT_NO_HEAP ? 128 : 1024;
   double d[samples];
   std::size_t m = 0;
@@ -165,9 +149,22 @@ BetaSpan sample_beta_span(const Model& model, const BetaSpanTargets& targets = B
   // ln0 / lo_d it is <= p0.
   double lo = ln0 / hi_d;
   double hi = ln0 / lo_d;
+  // Integer models show few distinct magnitudes: each bisection step takes one exp() per
+  // distinct value and sums the samples in their own order, the same sum bit for bit as one
+  // exp() per sample.
+  double u[samples];             // the distinct magnitudes, ascending
+  std::uint16_t which[samples];  // sample k's magnitude is u[which[k]]
+  for (std::size_t k = 0; k < m; ++k) u[k] = d[k];
+  std::sort(u, u + m);
+  const std::size_t distinct = static_cast<std::size_t>(std::unique(u, u + m) - u);
+  for (std::size_t k = 0; k < m; ++k) {
+    which[k] = static_cast<std::uint16_t>(std::lower_bound(u, u + distinct, d[k]) - u);
+  }
+  double* term = d;  // the magnitudes are no longer needed: term[q] = exp(-beta u[q])
   auto mean_acceptance = [&](double beta) {
+    for (std::size_t q = 0; q < distinct; ++q) term[q] = std::exp(-beta * u[q]);
     double sum = 0;
-    for (std::size_t k = 0; k < m; ++k) sum += std::exp(-beta * d[k]);
+    for (std::size_t k = 0; k < m; ++k) sum += term[which[k]];
     return sum / static_cast<double>(m);
   };
   for (int it = 0; it < 60 && hi - lo > 1e-12 * hi; ++it) {
@@ -183,11 +180,37 @@ BetaSpan sample_beta_span(const Model& model, const BetaSpanTargets& targets = B
   r.hot_delta = ln0 / r.beta_start;
   // A random state need not show the smallest move a low-energy state makes: the smallest
   // change one coefficient can make bounds it from below.
-  const double bound = estimate_beta_span(model).cold_delta;
+  const double bound = cold_bound;
   r.cold_delta = bound > 0 && bound < lo_d ? bound : lo_d;
   r.beta_end = std::log(1 / p1) / r.cold_delta;
   if (r.beta_end < r.beta_start) r.beta_end = r.beta_start;
   return r;
+}
+
+}  // namespace detail
+
+// Rule (see docs/moves.md, "beta span from the model"): the model's own flip deltas, sampled
+// at uniformly random states (the start of an anneal), set both ends.
+//  - 1024 samples, 128 with SPINWRIGHT_NO_HEAP (site and state from a fixed hash of the
+//    sample's number, so the span depends on the model and that setting only); the magnitudes |delta| of the non-zero
+//    ones stand for the uphill flips (a downhill flip's reverse is uphill by as much).
+//  - beta_start solves mean_k exp(-beta d_k) = start_acceptance (bisection; the mean
+//    acceptance of the sampled uphill flips, the initial acceptance ratio of Kirkpatrick,
+//    Gelatt & Vecchi 1983 and Johnson, Aragon, McGeoch & Schevon 1989, estimated from
+//    sampled transitions as Ben-Ameur 2004 does, without his Boltzmann weights).
+//  - beta_end = ln(1 / end_acceptance) / d_min, d_min the smallest uphill move: the smallest
+//    sampled magnitude, or the smallest change one coefficient makes (2 |J| or 2 |h| for
+//    Ising, |Q| for QUBO) when that is smaller, since a random state need not show the
+//    small moves of low-energy states.
+// hot_delta reports the delta whose acceptance is start_acceptance at beta_start
+// (ln(1 / start_acceptance) / beta_start) and cold_delta is d_min. A model with no non-zero
+// coefficient gets beta 1 .. 1; one whose samples all flip for free falls back to
+// estimate_beta_span. No allocation.
+template <class Model>
+BetaSpan sample_beta_span(const Model& model, const BetaSpanTargets& targets = BetaSpanTargets{}) {
+  // The bound is read only when some sample flips at a cost; reading it first keeps one code
+  // path (the result is the same).
+  return detail::sample_beta_span_bounded(model, targets, estimate_beta_span(model).cold_delta);
 }
 
 }  // namespace spinwright

@@ -32,6 +32,11 @@ struct StateCheck {
   double energy_error = 0;
 };
 
+// Tag for the constructors that allocate without computing fields or energy: the owner must
+// call randomize(), set_spins() or assign() before any other use (a kernel whose constructor
+// starts a run at once, so a random start scans the model once instead of twice).
+struct DeferredStart {};
+
 template <class Model>
 class SpinState {
  public:
@@ -51,6 +56,11 @@ class SpinState {
       : model_(&model), spins_(model.num_spins(), 1), fields_(model.num_spins()), mark_(model.num_spins(), 0) {
     resync();
   }
+
+  // Allocated, spins +1, fields and energy not computed (see DeferredStart).
+  SpinState(const Model& model, DeferredStart)
+      : model_(&model), spins_(model.num_spins(), 1), fields_(model.num_spins()), mark_(model.num_spins(), 0) {}
+  SpinState(const Model&&, DeferredStart) = delete;
 #endif
 
   // All spins +1; the arrays are carved from a caller-supplied arena (no heap). Check valid():
@@ -62,6 +72,14 @@ class SpinState {
         mark_(model.num_spins(), arena, 0) {
     if (valid()) resync();
   }
+
+  // The same from an arena, fields and energy not computed (see DeferredStart).
+  SpinState(const Model& model, Arena& arena, DeferredStart)
+      : model_(&model),
+        spins_(model.num_spins(), arena, 1),
+        fields_(model.num_spins(), arena),
+        mark_(model.num_spins(), arena, 0) {}
+  SpinState(const Model&&, Arena&, DeferredStart) = delete;
 
   // Arena bytes a state over n spins needs.
   static constexpr std::size_t bytes_needed(std::size_t n) noexcept {
@@ -194,11 +212,17 @@ class SpinState {
     flip(j);
   }
 
-  // Recompute every local field and the energy from the model.
+  // Recompute every local field and the energy from the model. Integer models take the
+  // energy from the fields (exact, O(N), no second pass over the pairs); floating models
+  // from the model, so their energy carries no rounding of the field sums.
   void resync() noexcept {
     const std::size_t n = spins_.size();
     for (std::size_t i = 0; i < n; ++i) fields_[i] = recompute_field(static_cast<index_type>(i));
-    energy_ = model_->energy(spins_.data());
+    if constexpr (std::is_integral_v<energy_type>) {
+      energy_ = energy_from_fields();
+    } else {
+      energy_ = model_->energy(spins_.data());
+    }
   }
 
   // Compare the tracked fields and energy with values recomputed from the model.
