@@ -106,8 +106,6 @@ struct RunResult {
   std::uint64_t ground_count = 0;  // exact kernel: number of ground states
   std::size_t lane_width = 0;      // restarts annealed W at a time in lockstep lanes (0: one at a time)
   const char* lane_unit = "";      // the vector unit the lanes ran on
-  std::size_t lane_width = 0;      // restarts annealed W at a time in lockstep lanes (0: one at a time)
-  const char* lane_unit = "";      // the vector unit the lanes ran on
 };
 
 // How many restarts ended at or below `energy` (within 1e-9 of the model's energy range `scale`).
