@@ -26,8 +26,8 @@ const char* kernel_name(Kernel k) {
 bool kernel_from_name(const std::string& name, bool& is_auto, Kernel& out) {
   is_auto = name == "auto";
   if (is_auto) return true;
-  for (const Kernel k : {Kernel::anneal, Kernel::temper, Kernel::tabu, Kernel::descent, Kernel::exact, Kernel::sqa,
-                         Kernel::population}) {
+  for (const Kernel k : {Kernel::anneal, Kernel::temper, Kernel::tabu, Kernel::breakout, Kernel::descent, Kernel::exact,
+                         Kernel::sqa, Kernel::population}) {
     if (name == kernel_name(k)) {
       out = k;
       return true;

@@ -30,6 +30,7 @@ enum class Kernel : std::uint8_t {
   tabu = static_cast<std::uint8_t>(spinwright::KernelKind::tabu),
   descent = static_cast<std::uint8_t>(spinwright::KernelKind::descent),
   exact = static_cast<std::uint8_t>(spinwright::KernelKind::exact),
+  breakout = static_cast<std::uint8_t>(spinwright::KernelKind::breakout),
   sqa = 64,
   population,
 };
@@ -40,7 +41,7 @@ const char* kernel_name(Kernel k);
 bool kernel_from_name(const std::string& name, bool& is_auto, Kernel& out);
 
 // The automatic choice: spinwright::choose_kernel of kernels/auto.hpp (exact for N <= 20,
-// tabu with 2000 sweeps at pair density >= 0.1, annealing otherwise with 4000 / 2000 / 1000
+// breakout with 1000 sweeps at pair density >= 0.1, annealing otherwise with 4000 / 2000 / 1000
 // sweeps by size), documented in docs/cli.md.
 struct AutoPick {
   Kernel kernel = Kernel::anneal;
@@ -50,7 +51,7 @@ struct AutoPick {
 AutoPick auto_choice(const LoadedModel& m);
 
 // The kernel that fills a time limit under `auto` (spinwright::auto_fill_kernel: annealing,
-// tempering for lattice-like graphs, tabu for dense models, exact for N <= 20).
+// tempering for lattice-like graphs, breakout for dense models, exact for N <= 20).
 Kernel auto_fill_choice(const LoadedModel& m);
 
 // Largest N the exact kernel takes from the command line.

@@ -11,6 +11,7 @@
 #include <spinwright/kernels/anneal.hpp>
 #include <spinwright/kernels/auto.hpp>
 #include <spinwright/kernels/beta_span.hpp>
+#include <spinwright/kernels/breakout.hpp>
 #include <spinwright/kernels/descent.hpp>
 #include <spinwright/kernels/exact.hpp>
 #include <spinwright/kernels/lanes.hpp>
@@ -185,6 +186,12 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
         spinwright::TabuParams p;
         p.initial = warm;
         raw = spinwright::tabu_walk(model, p, o.seed, r, budget, observer);
+        break;
+      }
+      case Kernel::breakout: {
+        spinwright::BreakoutParams p;
+        p.initial = warm;
+        raw = spinwright::breakout(model, p, o.seed, r, budget, observer);
         break;
       }
       case Kernel::sqa: {

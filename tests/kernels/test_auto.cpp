@@ -23,14 +23,15 @@ TEST_CASE("choose_kernel follows the documented rule") {
   CHECK(choose_kernel(ring(20, 1)).kernel == KernelKind::exact);
   CHECK(choose_kernel(ring(30, 1)).kernel == KernelKind::anneal);
   CHECK(choose_kernel(ring(30, 1)).sweeps == 4000);
-  CHECK(choose_kernel(ring(21, 1)).kernel == KernelKind::tabu);  // 21 pairs of 210: density 0.10
+  CHECK(choose_kernel(ring(21, 1)).kernel == KernelKind::breakout);  // 21 pairs of 210: density 0.10
+  CHECK(choose_kernel(ring(21, 1)).sweeps == 1000);
   // K_30: density 1.
   IsingBuilder<double> b(30);
   for (std::uint32_t i = 0; i < 30; ++i)
     for (std::uint32_t j = i + 1; j < 30; ++j) b.add_coupling(i, j, 1.0);
   const auto k30 = b.build().value();
-  CHECK(choose_kernel(k30).kernel == KernelKind::tabu);
-  CHECK(choose_kernel(DenseIsingModel<std::int32_t>::from(ring(40, 1)).value()).kernel == KernelKind::tabu);
+  CHECK(choose_kernel(k30).kernel == KernelKind::breakout);
+  CHECK(choose_kernel(DenseIsingModel<std::int32_t>::from(ring(40, 1)).value()).kernel == KernelKind::breakout);
 }
 
 TEST_CASE("solve_auto: exact ground state of a small frustrated model matches enumeration") {
@@ -280,17 +281,17 @@ TEST_CASE("a sweep budget keeps the fixed mode, even with a clock") {
   CHECK(s.sweeps == expected.sweeps);
 }
 
-TEST_CASE("time-filling tabu search: one run stopped by the deadline") {
-  // K_40 (density 1, so auto picks tabu); max cut floor(n^2 / 4) = 400 (Mantel/Turan; common practice).
+TEST_CASE("time-filling breakout search: one run stopped by the deadline") {
+  // K_40 (density 1, so auto picks breakout); max cut floor(n^2 / 4) = 400 (Mantel/Turan; common practice).
   IsingBuilder<std::int32_t> b(40);
   for (std::uint32_t i = 0; i < 40; ++i)
     for (std::uint32_t j = i + 1; j < 40; ++j) b.add_coupling(i, j, 1);
   const auto m = b.build().value();
-  REQUIRE(choose_kernel(m).kernel == KernelKind::tabu);
+  REQUIRE(choose_kernel(m).kernel == KernelKind::breakout);
   Ticker t;
   const auto s = solve_auto(m, 3, 0, ticking(t, 3000));
   CHECK(s.reason == StopReason::deadline);
-  // More sweeps than the fixed mode's 2000: the run filled the time (one read per sweep).
+  // More sweeps than the fixed mode's 1000: the run filled the time (one read per sweep).
   CHECK(s.sweeps > choose_kernel(m).sweeps);
   CHECK(s.sweeps <= 3000);
   CHECK(cut_value(m, s.spins.data()) == 400);

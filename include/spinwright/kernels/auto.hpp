@@ -1,57 +1,8 @@
-// spinwright — the `auto` choice: a kernel and its parameters picked from the model's size
-// and density, so that a user who does not tune still gets strong results.
-//
-// The rule (choose_kernel):
-//   * N <= 20                                  -> exact enumeration (at most 2^20 states: milliseconds);
-//   * dense models, or pair density >= 0.10    -> tabu search, sweeps = 2000
-//     (density = pairs / (N (N - 1) / 2); one-flip tabu with best-move selection is strongest
-//     where every spin interacts with many others, e.g. dense QUBO);
-//   * otherwise (sparse graphs, lattices)      -> annealing, sweeps = 4000 for N <= 10^4,
-//     2000 up to 10^5, 1000 beyond, geometric schedule over the beta span from the model, random
-//     site order, then steepest descent to polish the result.
-//
-// Two modes of solve_auto():
-//   * Fixed (no time limit, or a Budget with sweeps != 0): one run of the chosen kernel with the
-//     sweeps above (or the Budget's); a deadline only cuts that run short.
-//   * Time-filling (the Budget has a valid clock, a finite `seconds` and sweeps == 0): the whole
-//     time is used, by this rule (auto_fill_kernel):
-//       - lattice-like sparse models (every spin has degree 3 to 6: square and cubic grids, with
-//         +-1 or uniform couplings): one tempering run with Houdayer cluster moves (two replica
-//         sets), the automatic number of rungs, a geometric ladder from auto_fill_hot_factor (3)
-//         times the automatic hot beta to the automatic cold beta, sequential site order; it is
-//         stopped by the deadline and its best state polished by steepest descent.
-//       - other sparse models: successive anneals, each a full schedule (geometric over the
-//         beta span from the model, sequential site order, acceptance by auto_fill_acceptance:
-//         Metropolis, or heat-bath when at least a quarter of the spins have degree <= 2)
-//         followed by steepest descent. The first is auto_fill_first_sweeps (256) sweeps long
-//         and calibrates the time per sweep (clock time so far / anneal sweeps so far, descents
-//         included). Each next length is auto_fill_growth (4) times the last, capped by what
-//         fits in auto_fill_margin (90 %) of the remaining time at that rate; when the run after
-//         it could not grow again, it takes all that fits. The sequence ends when fewer than
-//         auto_fill_first_sweeps sweeps fit, or at the deadline (a run the deadline cuts short
-//         also ends cold, its schedule following the elapsed time, and is polished by
-//         first-improvement descent within what is left). Run k >= 1 draws its spins and moves from
-//         (auto_fill_seed(seed, k), restart); run 0 from (seed, restart). The best state over all
-//         runs is returned; `sweeps`, `attempted` and `accepted` add up every run and descent.
-//       - dense models (tabu search): one run with no sweep limit, stopped by the deadline (tabu
-//         keeps its best and restarts itself from it by perturbation).
-//       - exact enumeration: unchanged (its size limit bounds its time).
-//     The limit bounds the whole call: it counts from solve_auto's entry (Budget::start), so
-//     building the kernels, every descent and the result count against it; descents end at the
-//     deadline too, and no sweep is begun that would end past it (kernels/detail/drive.hpp).
-//     Why (measured on the G-set, docs/quality.md): sequential order runs about twice the sweeps
-//     per second of random order, and longer schedules beat more restarts; on the toroidal +-1
-//     grids tempering with cluster moves beats annealing by about 0.4 % of the cut, while on
-//     random sparse graphs annealing is better. Sequential Metropolis is not ergodic on rings and
-//     chains (zero-delta flips carry domain walls along the sweep; docs/moves.md): heat-bath
-//     acceptance keeps it so there.
-// Both modes honour the Budget's stop token (checked once per sweep) and target (checked at
-// every sweep end and after every descent). A run is deterministic given (seed, restart) and,
-// in the time-filling mode, the sequence of clock readings.
-//
-// Allocation: the time-filling mode constructs one Annealer and one Descender (or one Tempering,
-// or one TabuWalker) and reuses them for every run (a descent warm-starts from the annealer's
-// state without a rescan when that state is its best); nothing is allocated per sweep or per run.
+// spinwright — the `auto` choice: a kernel and its parameters picked from the model's size and
+// density (choose_kernel: exact for N <= 20, breakout for dense models, annealing then descent
+// otherwise), and solve_auto in its fixed and time-filling modes (auto_fill_kernel: tempering
+// with cluster moves on lattice-like graphs, growing anneals elsewhere). The rule, the
+// measurements behind it and what the time limit bounds: docs/kernels.md.
 #ifndef SPINWRIGHT_KERNELS_AUTO_HPP
 #define SPINWRIGHT_KERNELS_AUTO_HPP
 
@@ -61,6 +12,7 @@
 #include "descent.hpp"
 #include "exact.hpp"
 #include "solution.hpp"
+#include "breakout.hpp"
 #include "tabu.hpp"
 #include "temper.hpp"
 
@@ -75,7 +27,7 @@
 
 namespace spinwright {
 
-enum class KernelKind : std::uint8_t { anneal, temper, tabu, descent, exact };
+enum class KernelKind : std::uint8_t { anneal, temper, tabu, descent, exact, breakout };
 
 inline constexpr const char* to_string(KernelKind k) noexcept {
   switch (k) {
@@ -85,6 +37,8 @@ inline constexpr const char* to_string(KernelKind k) noexcept {
       return "temper";
     case KernelKind::tabu:
       return "tabu";
+    case KernelKind::breakout:
+      return "breakout";
     case KernelKind::descent:
       return "descent";
     case KernelKind::exact:
@@ -120,7 +74,7 @@ AutoChoice choose_kernel(const Model& model) noexcept {
   const double all_pairs = 0.5 * static_cast<double>(n) * static_cast<double>(n - 1);
   const double density = static_cast<double>(model.num_pairs()) / all_pairs;
   if (Model::is_dense || density >= auto_dense_threshold) {
-    return {KernelKind::tabu, 2000, "dense model (pair density >= 0.10): tabu search"};
+    return {KernelKind::breakout, 1000, "dense model (pair density >= 0.10): breakout local search"};
   }
   const std::uint64_t sweeps = n <= 10000 ? 4000 : (n <= 100000 ? 2000 : 1000);
   return {KernelKind::anneal, sweeps, "sparse model: annealing, then descent"};
@@ -333,13 +287,13 @@ Solution<typename Model::energy_type> solve_auto(const Model& model, std::uint64
       s.reason = StopReason::budget_exhausted;
       return s;
     }
-    case KernelKind::tabu: {
-      TabuParams params;
+    case KernelKind::breakout: {
+      BreakoutParams params;
       params.sweeps = choice.sweeps;
-      if (!fill) return tabu_walk(model, params, seed, restart, budget);
+      if (!fill) return breakout(model, params, seed, restart, budget);
       Budget run = budget;
-      run.sweeps = std::numeric_limits<std::uint64_t>::max();
-      return tabu_walk(model, params, seed, restart, run);
+      run.sweeps = unlimited_sweeps;
+      return breakout(model, params, seed, restart, run);
     }
     default: {
       if (fill) {
