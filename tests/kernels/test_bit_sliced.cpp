@@ -197,6 +197,19 @@ TEST_CASE("every restart's energy equals the model's energy of its spins") {
   }
   const auto best = b.best();
   CHECK(best.energy == mixed.energy(best.spins));
+  // accepted() after one sweep: the spins that changed in every restart (each site is met once).
+  BitSlicedAnnealer<Model, 2> c(cubic, p, 8);
+  std::vector<std::vector<std::int8_t>> before(c.restarts(), std::vector<std::int8_t>(cubic.num_spins()));
+  for (std::size_t r = 0; r < c.restarts(); ++r) c.current_spins(r, before[r].data());
+  c.step(1);
+  std::uint64_t changed = 0;
+  std::vector<std::int8_t> after(cubic.num_spins());
+  for (std::size_t r = 0; r < c.restarts(); ++r) {
+    c.current_spins(r, after.data());
+    for (std::size_t i = 0; i < after.size(); ++i) changed += after[i] != before[r][i];
+  }
+  CHECK(changed > 0);
+  CHECK(c.accepted() == changed);
 }
 
 TEST_CASE("a restart's run does not depend on the words per pass or the thread count") {

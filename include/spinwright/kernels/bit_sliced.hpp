@@ -601,7 +601,8 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   // change) is flipped when u's top bit is 0. Each bit is in one class, so each restart's chain
   // is exact Metropolis (with the coin); restarts of a word share u and so are correlated.
   template <int D>
-  SPINWRIGHT_BIT_INLINE void update_site_shared(std::size_t i, detail::StreamSet<Words>& streams) noexcept {
+  SPINWRIGHT_BIT_INLINE void update_site_shared(std::size_t i, detail::StreamSet<Words>& streams,
+                                                detail::Lanes<Words>& flips) noexcept {
     using L = detail::Lanes<Words>;
     std::uint64_t* s = spins_.data();
     const std::uint32_t* slot = slots_.data() + row_[i];
@@ -641,19 +642,28 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     }
     for (std::size_t w = 0; w < Words; ++w) {
       s[i * Words + w] = x.v[w] ^ accept.v[w];
-      accepted_lane_[w] += popcount(accept.v[w]);
+      flips.v[w] += byte_counts(accept.v[w]);
     }
   }
 
+  // Set bits of every byte of v, in that byte (0 .. 8): added over up to 31 sites, then folded.
+  SPINWRIGHT_BIT_INLINE static std::uint64_t byte_counts(std::uint64_t v) noexcept {
+    v = v - ((v >> 1) & 0x5555555555555555ULL);
+    v = (v & 0x3333333333333333ULL) + ((v >> 2) & 0x3333333333333333ULL);
+    return (v + (v >> 4)) & 0x0F0F0F0F0F0F0F0FULL;
+  }
+  static std::uint64_t fold_bytes(std::uint64_t v) noexcept {
+    v = (v & 0x00FF00FF00FF00FFULL) + ((v >> 8) & 0x00FF00FF00FF00FFULL);
+    v = v + (v >> 16);
+    v = v + (v >> 32);
+    return v & 0xFFFFu;
+  }
+
   static std::uint64_t popcount(std::uint64_t v) noexcept {
-#if defined(__GNUC__) || defined(__clang__)
-    return static_cast<std::uint64_t>(__builtin_popcountll(v));
-#else
     v = v - ((v >> 1) & 0x5555555555555555ULL);
     v = (v & 0x3333333333333333ULL) + ((v >> 2) & 0x3333333333333333ULL);
     v = (v + (v >> 4)) & 0x0F0F0F0F0F0F0F0FULL;
     return (v * 0x0101010101010101ULL) >> 56;
-#endif
   }
 
   void set_beta(double beta) noexcept {
@@ -673,9 +683,10 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   }
 
   template <bool Shared, int D>
-  SPINWRIGHT_BIT_INLINE void update(std::size_t i, detail::StreamSet<Words>& rng) noexcept {
+  SPINWRIGHT_BIT_INLINE void update(std::size_t i, detail::StreamSet<Words>& rng,
+                                    detail::Lanes<Words>& flips) noexcept {
     if constexpr (Shared) {
-      update_site_shared<D>(i, rng);
+      update_site_shared<D>(i, rng, flips);
     } else {
       update_site<D>(i, rng);
     }
@@ -684,58 +695,68 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   template <bool Shared>
   void sweep_sites(detail::StreamSet<Words>& rng) noexcept {
     const std::size_t n = model_->num_spins();
+    // Shared draws count flips per byte of the words (folded every 31 sites, before a byte
+    // can pass 255).
+    detail::Lanes<Words> flips = detail::Lanes<Words>::all(0);
+    unsigned pending = 0;
     for (std::size_t i = 0; i < n; ++i) {
+      if (Shared && ++pending == 32) {
+        for (std::size_t w = 0; w < Words; ++w) accepted_lane_[w] += fold_bytes(flips.v[w]);
+        flips = detail::Lanes<Words>::all(0);
+        pending = 1;
+      }
       switch (row_[i + 1] - row_[i]) {
         case 0:
-          update<Shared, 0>(i, rng);
+          update<Shared, 0>(i, rng, flips);
           break;
         case 1:
-          update<Shared, 1>(i, rng);
+          update<Shared, 1>(i, rng, flips);
           break;
         case 2:
-          update<Shared, 2>(i, rng);
+          update<Shared, 2>(i, rng, flips);
           break;
         case 3:
-          update<Shared, 3>(i, rng);
+          update<Shared, 3>(i, rng, flips);
           break;
         case 4:
-          update<Shared, 4>(i, rng);
+          update<Shared, 4>(i, rng, flips);
           break;
         case 5:
-          update<Shared, 5>(i, rng);
+          update<Shared, 5>(i, rng, flips);
           break;
         case 6:
-          update<Shared, 6>(i, rng);
+          update<Shared, 6>(i, rng, flips);
           break;
         case 7:
-          update<Shared, 7>(i, rng);
+          update<Shared, 7>(i, rng, flips);
           break;
         case 8:
-          update<Shared, 8>(i, rng);
+          update<Shared, 8>(i, rng, flips);
           break;
         case 9:
-          update<Shared, 9>(i, rng);
+          update<Shared, 9>(i, rng, flips);
           break;
         case 10:
-          update<Shared, 10>(i, rng);
+          update<Shared, 10>(i, rng, flips);
           break;
         case 11:
-          update<Shared, 11>(i, rng);
+          update<Shared, 11>(i, rng, flips);
           break;
         case 12:
-          update<Shared, 12>(i, rng);
+          update<Shared, 12>(i, rng, flips);
           break;
         case 13:
-          update<Shared, 13>(i, rng);
+          update<Shared, 13>(i, rng, flips);
           break;
         case 14:
-          update<Shared, 14>(i, rng);
+          update<Shared, 14>(i, rng, flips);
           break;
         default:
-          update<Shared, 15>(i, rng);
+          update<Shared, 15>(i, rng, flips);
           break;
       }
     }
+    for (std::size_t w = 0; w < Words; ++w) accepted_lane_[w] += fold_bytes(flips.v[w]);
   }
 
   bool sweep_once() {
