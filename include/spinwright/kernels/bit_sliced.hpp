@@ -1,7 +1,8 @@
 // spinwright — bit-sliced (multi-spin-coded) annealing for Ising models whose couplings are all
 // +-J, fields 0 or +-J, at most 15 neighbours a spin: 64 restarts per 64-bit word (restart k of a
 // word is bit k), Words words per site advanced together, unsatisfied bonds counted by bitwise
-// full adders, Metropolis acceptance from random bit masks, sequential sweeps.
+// full adders, Metropolis acceptance from one uniform per word and site shared by its 64
+// restarts (default) or from independent random bits per restart, sequential sweeps.
 // bit_sliced_fits(model) says whether a model qualifies; the method: docs/kernels.md ("Bit-sliced").
 #ifndef SPINWRIGHT_KERNELS_BIT_SLICED_HPP
 #define SPINWRIGHT_KERNELS_BIT_SLICED_HPP
@@ -174,9 +175,10 @@ constexpr std::uint64_t bit_sliced_stream(std::uint64_t word) noexcept { return 
 
 // The bit-sliced annealer over 64 * Words restarts side by side: those of the 64-bit words
 // first_word .. first_word + Words - 1 (restart 64 v + b is bit b of word v). Word v draws from
-// Xoshiro256::for_restart(seed, bit_sliced_stream(v)) only, and only while it has undecided
-// bits, so a restart's run does not depend on Words or on how words are spread over threads. Sweep k of a schedule of S
-// sweeps uses beta(k / (S - 1)) (negative beta counts as 0).
+// Xoshiro256::for_restart(seed, bit_sliced_stream(v)) only (shared draws: one number per site
+// of degree >= 1; independent bits: only while it has undecided bits), so a restart's run does not depend on Words or
+// on how words are spread over threads. Sweep k of a schedule of S sweeps uses beta(k / (S - 1)) (negative beta counts
+// as 0).
 template <class Model, std::size_t Words = 1>
 class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> {
   static_assert(Words >= 1 && Words <= 16, "Words is the number of 64-bit words per site (1 to 16)");
@@ -693,8 +695,10 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   }
 
   template <bool Shared>
-  void sweep_sites(detail::StreamSet<Words>& rng) noexcept {
+  void sweep_sites(detail::StreamSet<Words>& streams) noexcept {
     const std::size_t n = model_->num_spins();
+    // A local copy whose address never leaves the inlined updates: kept in registers.
+    detail::StreamSet<Words> rng = streams;
     // Shared draws count flips per byte of the words (folded every 31 sites, before a byte
     // can pass 255).
     detail::Lanes<Words> flips = detail::Lanes<Words>::all(0);
@@ -757,6 +761,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
       }
     }
     for (std::size_t w = 0; w < Words; ++w) accepted_lane_[w] += fold_bytes(flips.v[w]);
+    streams = rng;
   }
 
   bool sweep_once() {
