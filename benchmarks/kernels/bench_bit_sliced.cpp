@@ -17,6 +17,7 @@
 
 #include <chrono>
 #include <cstdint>
+#include <string>
 
 using namespace spinwright;
 
@@ -100,11 +101,12 @@ void bench_annealer(benchmark::State& st) {
   st.SetLabel("L32 Annealer int32 sequential, 1 restart");
 }
 
-template <std::size_t Words>
+template <std::size_t Words, bool Shared>
 void bench_kernel(benchmark::State& st) {
   const Model& model = lattice();
   BitSlicedParams p;
   p.sweeps = sweeps;
+  p.shared_draws = Shared;
   BitSlicedAnnealer<Model, Words> k(model, p, 1);
   double seconds = 0, attempts = 0, cpu = 0;
   std::uint64_t first = 0;
@@ -119,7 +121,8 @@ void bench_kernel(benchmark::State& st) {
     attempts += static_cast<double>(k.attempted());
   }
   report(st, attempts, seconds, static_cast<double>(k.best().energy) / static_cast<double>(model.num_spins()), cpu);
-  st.SetLabel("L32 bit-sliced kernel, " + std::to_string(64 * Words) + " restarts, 1 thread");
+  st.SetLabel(std::string("L32 bit-sliced kernel, ") + (Shared ? "shared draws, " : "independent bits, ") +
+              std::to_string(64 * Words) + " restarts, 1 thread");
 }
 
 void bench_one_call(benchmark::State& st) {
@@ -128,6 +131,7 @@ void bench_one_call(benchmark::State& st) {
   const auto threads = static_cast<unsigned>(st.range(1));
   BitSlicedParams p;
   p.sweeps = sweeps;
+  p.shared_draws = st.range(2) != 0;
   double seconds = 0, attempts = 0, best = 0;
   std::uint64_t seed = 1;
   for (auto _ : st) {
@@ -138,23 +142,26 @@ void bench_one_call(benchmark::State& st) {
     best = static_cast<double>(tally->best().energy) / static_cast<double>(model.num_spins());
   }
   report(st, attempts, seconds, best);
-  st.SetLabel("L32 anneal_bit_sliced, " + std::to_string(restarts) + " restarts, " + std::to_string(threads) +
-              " thread(s)");
+  st.SetLabel(std::string("L32 anneal_bit_sliced, ") + (p.shared_draws ? "shared draws, " : "independent bits, ") +
+              std::to_string(restarts) + " restarts, " + std::to_string(threads) + " thread(s)");
 }
 
 }  // namespace
 
 BENCHMARK(bench_reference)->Iterations(1)->Unit(benchmark::kMillisecond)->UseRealTime();
 BENCHMARK(bench_annealer)->Iterations(3)->Unit(benchmark::kMillisecond)->UseRealTime();
-BENCHMARK_TEMPLATE(bench_kernel, 1)->Iterations(3)->Unit(benchmark::kMillisecond)->UseRealTime();
-BENCHMARK_TEMPLATE(bench_kernel, 2)->Iterations(3)->Unit(benchmark::kMillisecond)->UseRealTime();
-BENCHMARK_TEMPLATE(bench_kernel, 4)->Iterations(3)->Unit(benchmark::kMillisecond)->UseRealTime();
+BENCHMARK_TEMPLATE(bench_kernel, 1, false)->Iterations(1)->Unit(benchmark::kMillisecond)->UseRealTime();
+BENCHMARK_TEMPLATE(bench_kernel, 1, true)->Iterations(3)->Unit(benchmark::kMillisecond)->UseRealTime();
+BENCHMARK_TEMPLATE(bench_kernel, 2, true)->Iterations(3)->Unit(benchmark::kMillisecond)->UseRealTime();
+BENCHMARK_TEMPLATE(bench_kernel, 4, true)->Iterations(3)->Unit(benchmark::kMillisecond)->UseRealTime();
 BENCHMARK(bench_one_call)
-    ->Args({64, 1})
-    ->Args({64, 2})
-    ->Args({128, 2})
-    ->Args({256, 1})
-    ->Args({256, 2})
+    ->Args({64, 1, 1})
+    ->Args({64, 2, 1})
+    ->Args({128, 1, 1})
+    ->Args({128, 2, 1})
+    ->Args({256, 1, 1})
+    ->Args({256, 2, 1})
+    ->Args({256, 2, 0})
     ->Iterations(3)
     ->Unit(benchmark::kMillisecond)
     ->UseRealTime();

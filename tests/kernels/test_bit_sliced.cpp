@@ -15,6 +15,7 @@
 
 #include <cmath>
 #include <cstdint>
+#include <string>
 #include <vector>
 
 using namespace spinwright;
@@ -51,6 +52,15 @@ void check_counter() {
         const bool at_most = ((detail::at_most<planes>(count, limit) >> b) & 1u) != 0;
         REQUIRE(at_most == (want <= static_cast<int>(limit)));
       }
+      // below() with a limit per bit: bit c of the word takes limit (c + base) % (D + 1).
+      std::uint64_t limit_planes[planes];
+      for (int p = 0; p < planes; ++p) {
+        limit_planes[p] = 0;
+        for (unsigned c = 0; c < 64; ++c) limit_planes[p] |= ((((c + base) % (D + 1)) >> p) & 1u) << c;
+      }
+      const unsigned limit_b = static_cast<unsigned>((b + base) % (D + 1));
+      const bool below = ((detail::below<planes>(count, limit_planes) >> b) & 1u) != 0;
+      REQUIRE(below == (want < static_cast<int>(limit_b)));
     }
   }
 }
@@ -110,6 +120,23 @@ TEST_CASE("the bitwise adders count every combination of up to 15 inputs") {
   check_counter<15>();
 }
 
+TEST_CASE("the adders over Lanes words give each word's scalar count") {
+  // Reference: the scalar adders checked exhaustively above.
+  Xoshiro256 rng(5);
+  detail::Lanes<3> in[11];
+  std::uint64_t scalar[3][11];
+  for (int t = 0; t < 11; ++t)
+    for (std::size_t w = 0; w < 3; ++w) scalar[w][t] = in[t].v[w] = rng.next();
+  detail::Lanes<3> count[4];
+  detail::count_bits<11>(in, count);
+  for (std::size_t w = 0; w < 3; ++w) {
+    std::uint64_t one[4];
+    detail::count_bits<11>(scalar[w], one);
+    for (int p = 0; p < 4; ++p) CHECK(count[p].v[w] == one[p]);
+    CHECK(detail::at_most<4>(count, 5).v[w] == detail::at_most<4>(one, 5));
+  }
+}
+
 TEST_CASE("each word's stream is Xoshiro256::for_restart(seed, bit_sliced_stream(word))") {
   // Reference: the library's scalar generator (rng/xoshiro.hpp, Blackman & Vigna 2021).
   detail::StreamSet<3> set{};
@@ -128,7 +155,23 @@ TEST_CASE("each word's stream is Xoshiro256::for_restart(seed, bit_sliced_stream
   const std::uint64_t all[3] = {1, 1, 1};
   set.next(out, all);
   CHECK(out[2] == g[2].next());  // the stream that never moved still starts at its beginning
+  g[0].next();
+  if (out[1] != g[1].next()) FAIL("stream 1 out of step");
+  for (int step = 0; step < 10; ++step) {
+    set.next_all(out);
+    for (std::size_t w = 0; w < 3; ++w) CHECK(out[w] == g[w].next());
+  }
 }
+
+namespace {
+// Both acceptance modes: one uniform per word and site (default), independent bits per restart.
+bool pick_mode() {
+  bool shared = true;
+  SUBCASE("shared draws") { shared = true; }
+  SUBCASE("independent bits") { shared = false; }
+  return shared;
+}
+}  // namespace
 
 TEST_CASE("every restart's energy equals the model's energy of its spins") {
   // Reference: SparseModel::energy of the unpacked spins (the model's own definition).
@@ -137,6 +180,7 @@ TEST_CASE("every restart's energy equals the model's energy of its spins") {
   REQUIRE(bit_sliced_fits(cubic).ok());
   REQUIRE(bit_sliced_fits(mixed).ok());
   BitSlicedParams p;
+  p.shared_draws = pick_mode();
   p.sweeps = 40;
   BitSlicedAnnealer<Model, 2> a(cubic, p, 5);
   REQUIRE(a.valid());
@@ -153,11 +197,25 @@ TEST_CASE("every restart's energy equals the model's energy of its spins") {
   }
   const auto best = b.best();
   CHECK(best.energy == mixed.energy(best.spins));
+  // accepted() after one sweep: the spins that changed in every restart (each site is met once).
+  BitSlicedAnnealer<Model, 2> c(cubic, p, 8);
+  std::vector<std::vector<std::int8_t>> before(c.restarts(), std::vector<std::int8_t>(cubic.num_spins()));
+  for (std::size_t r = 0; r < c.restarts(); ++r) c.current_spins(r, before[r].data());
+  c.step(1);
+  std::uint64_t changed = 0;
+  std::vector<std::int8_t> after(cubic.num_spins());
+  for (std::size_t r = 0; r < c.restarts(); ++r) {
+    c.current_spins(r, after.data());
+    for (std::size_t i = 0; i < after.size(); ++i) changed += after[i] != before[r][i];
+  }
+  CHECK(changed > 0);
+  CHECK(c.accepted() == changed);
 }
 
 TEST_CASE("a restart's run does not depend on the words per pass or the thread count") {
   const Model model = mixed_degree_model(80, 4);
   BitSlicedParams p;
+  p.shared_draws = pick_mode();
   p.sweeps = 60;
   BitSlicedAnnealer<Model, 4> wide(model, p, 11, 0);
   BitSlicedAnnealer<Model, 1> w2(model, p, 11, 2);
@@ -234,6 +292,7 @@ TEST_CASE("bit_sliced_fits names the term that keeps a model out") {
 TEST_CASE("arena constructor: bytes_needed is enough, too little leaves it not valid") {
   const Model model = plus_minus_cubic_lattice<std::int32_t>(4, 1).value();
   BitSlicedParams p;
+  p.shared_draws = pick_mode();
   p.sweeps = 20;
   const std::size_t need = BitSlicedAnnealer<Model, 2>::bytes_needed(model, p);
   std::vector<unsigned char> memory(need);
@@ -266,10 +325,16 @@ Estimate over_chains(const std::vector<double>& chain_means) {
 }
 
 // Energy per spin (and <|m|>) of every restart, averaged over `measure` sweeps at fixed beta
-// after `burn` sweeps; each restart bit is its own chain.
+// after `burn` sweeps. The words are independent (their own streams); the 64 restarts of a word
+// are independent only without shared draws, so the error comes from the spread of the Words
+// word means (each the mean of its 64 restarts' averages).
 template <std::size_t Words>
-void sample(const Model& model, double beta, int burn, int measure, int m_every, Estimate& u, Estimate& abs_m) {
+void sample(const Model& model, bool shared, double beta, int burn, int measure, int m_every, Estimate& u,
+            Estimate& abs_m, bool ordered_start = false) {
   BitSlicedParams p;
+  p.shared_draws = shared;
+  const std::vector<std::int8_t> up(model.num_spins(), 1);
+  if (ordered_start) p.initial = up.data();
   p.schedule = Schedule::constant(beta);
   p.sweeps = static_cast<std::uint64_t>(burn + measure);
   BitSlicedAnnealer<Model, Words> k(model, p, 2026);
@@ -294,12 +359,13 @@ void sample(const Model& model, double beta, int burn, int measure, int m_every,
       }
     }
   }
+  std::vector<double> e_word(Words, 0), m_word(Words, 0);
   for (std::size_t r = 0; r < lanes; ++r) {
-    e_sum[r] /= measure;
-    if (m_samples > 0) m_sum[r] /= m_samples;
+    e_word[r / 64] += e_sum[r] / measure / 64;
+    if (m_samples > 0) m_word[r / 64] += m_sum[r] / m_samples / 64;
   }
-  u = over_chains(e_sum);
-  abs_m = over_chains(m_sum);
+  u = over_chains(e_word);
+  abs_m = over_chains(m_word);
 }
 
 }  // namespace
@@ -308,19 +374,23 @@ TEST_CASE("fixed beta on the 4 x 4 ferromagnetic torus: exact Boltzmann energies
   // Exact u(T) of the 4 x 4 periodic ferromagnet (J = 1, h = 0; our form J = -1) by summing
   // over all 2^16 states (shared/REFERENCES.md, section 3: computed there by enumeration; the
   // density of states of P. D. Beale, Phys. Rev. Lett. 76, 78 (1996), from memory there).
-  // Every restart bit is an independent chain; the error is the spread of the 256 chains.
+  // The error is the spread of 16 independent words' means (1024 chains).
   const Model torus = square_torus<std::int32_t>(4, -1).value();
   const double T[] = {2.0, 2.269, 3.0};
   const double u_exact[] = {-1.75538028878, -1.56576893133, -1.01706962696};
+  const bool shared = pick_mode();
   for (int c = 0; c < 3; ++c) {
     CAPTURE(T[c]);
     // Our own enumeration of the same sum, as a check of the model and the table.
     CHECK(anneal_support::exact_mean_energy(torus, 1.0 / T[c]) / 16 == doctest::Approx(u_exact[c]).epsilon(1e-9));
+    // Shared draws: restarts of a word that meet in one state stay together (they share the
+    // draws), so a word holds few distinct chains on 16 spins: 16 times longer runs.
     Estimate u, m;
-    sample<4>(torus, 1.0 / T[c], 200, 4000, 0, u, m);
+    sample<16>(torus, shared, 1.0 / T[c], 200, shared ? 64000 : 4000, 0, u, m);
     CAPTURE(u.mean);
     CAPTURE(u.error);
-    MESSAGE("4x4 torus T = " << T[c] << ": u = " << u.mean << " +- " << u.error << " (exact " << u_exact[c] << ")");
+    MESSAGE(std::string(shared ? "shared " : "independent ")
+            << "4x4 torus T = " << T[c] << ": u = " << u.mean << " +- " << u.error << " (exact " << u_exact[c] << ")");
     CHECK(u.error < 2e-3);
     CHECK(std::fabs(u.mean - u_exact[c]) <= 4 * u.error);
   }
@@ -332,12 +402,17 @@ TEST_CASE("2D ferromagnet, L = 32, on both sides of Tc: Onsager's energy and Yan
   // section 1 (computed there with mpmath). <|m|> below Tc against C. N. Yang, Phys. Rev. 85,
   // 808 (1952): m = (1 - sinh(2/T)^-4)^(1/8) (REFERENCES.md: compare only for T <= 2, L >= 16).
   const Model lattice = square_torus<std::int32_t>(32, -1).value();
+  const bool shared = pick_mode();
   {
     Estimate u, m;
-    sample<1>(lattice, 1.0 / 2.0, 300, 1500, 10, u, m);
+    // From the ordered state (common practice below Tc: random starts leave some chains in
+    // long-lived striped states). With shared draws the 64 identical starts of a word stay
+    // identical, so each word is one chain.
+    sample<16>(lattice, shared, 1.0 / 2.0, 300, 1500, 10, u, m, true);
     CAPTURE(u.mean);
     CAPTURE(u.error);
-    MESSAGE("L = 32, T = 2: u = " << u.mean << " +- " << u.error << ", <|m|> = " << m.mean << " +- " << m.error);
+    MESSAGE(std::string(shared ? "shared " : "independent ")
+            << "L = 32, T = 2: u = " << u.mean << " +- " << u.error << ", <|m|> = " << m.mean << " +- " << m.error);
     CHECK(std::fabs(u.mean - -1.74556457531) <= 4 * u.error + 2e-7);
     const double yang = std::pow(1.0 - std::pow(std::sinh(2.0 / 2.0), -4.0), 0.125);
     CHECK(yang == doctest::Approx(0.911319377877).epsilon(1e-10));
@@ -347,10 +422,10 @@ TEST_CASE("2D ferromagnet, L = 32, on both sides of Tc: Onsager's energy and Yan
   }
   {
     Estimate u, m;
-    sample<1>(lattice, 1.0 / 3.0, 300, 1500, 0, u, m);
+    sample<16>(lattice, shared, 1.0 / 3.0, 300, 1500, 0, u, m);
     CAPTURE(u.mean);
     CAPTURE(u.error);
-    MESSAGE("L = 32, T = 3: u = " << u.mean << " +- " << u.error);
+    MESSAGE(std::string(shared ? "shared " : "independent ") << "L = 32, T = 3: u = " << u.mean << " +- " << u.error);
     CHECK(std::fabs(u.mean - -0.817309592502) <= 4 * u.error + 2e-7);
   }
 }
@@ -363,11 +438,13 @@ TEST_CASE("3D +-J spin glass: long anneals approach the published ground-state e
   // Six L = 10 instances (1000 spins; eight L = 8 instances averaged -1.772 +- 0.004 here,
   // small lattices sit higher), the best of 128 restarts of 4000 sweeps each; the instances' spread
   // gives the statistical error. Short anneals of 300 sweeps must end higher on average.
+  const bool shared = pick_mode();
   std::vector<double> long_runs, short_runs;
   for (std::uint64_t seed = 1; seed <= 6; ++seed) {
     const Model glass = plus_minus_cubic_lattice<std::int32_t>(10, seed).value();
     for (const std::uint64_t sweeps : {std::uint64_t{300}, std::uint64_t{4000}}) {
       BitSlicedParams p;
+      p.shared_draws = shared;
       p.sweeps = sweeps;
       const auto tally = anneal_bit_sliced(glass, p, 7, 128, 2);
       REQUIRE(tally.ok());
@@ -376,8 +453,9 @@ TEST_CASE("3D +-J spin glass: long anneals approach the published ground-state e
   }
   const Estimate e = over_chains(long_runs);
   const Estimate quick = over_chains(short_runs);
-  MESSAGE("3D +-J L = 10, 6 instances: best energy per spin " << e.mean << " +- " << e.error << " after 4000 sweeps, "
-                                                              << quick.mean << " after 300");
+  MESSAGE(std::string(shared ? "shared: " : "independent: ")
+          << "3D +-J L = 10, 6 instances: best energy per spin " << e.mean << " +- " << e.error
+          << " after 4000 sweeps, " << quick.mean << " after 300");
   CHECK(e.mean < quick.mean);
   CHECK(std::fabs(e.mean - -1.787) <= 0.005 + 4 * e.error);
 }

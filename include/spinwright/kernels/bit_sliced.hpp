@@ -1,7 +1,8 @@
 // spinwright — bit-sliced (multi-spin-coded) annealing for Ising models whose couplings are all
 // +-J, fields 0 or +-J, at most 15 neighbours a spin: 64 restarts per 64-bit word (restart k of a
 // word is bit k), Words words per site advanced together, unsatisfied bonds counted by bitwise
-// full adders, Metropolis acceptance from random bit masks, sequential sweeps.
+// full adders, Metropolis acceptance from one uniform per word and site shared by its 64
+// restarts (default) or from independent random bits per restart, sequential sweeps.
 // bit_sliced_fits(model) says whether a model qualifies; the method: docs/kernels.md ("Bit-sliced").
 #ifndef SPINWRIGHT_KERNELS_BIT_SLICED_HPP
 #define SPINWRIGHT_KERNELS_BIT_SLICED_HPP
@@ -37,6 +38,13 @@ struct BitSlicedParams {
   Schedule schedule{};                   // default: geometric over the beta span from the model
   const std::int8_t* initial = nullptr;  // warm start of every restart (n spins, +1/-1); random otherwise
   std::uint64_t progress_every = 0;      // observers' on_progress period in sweeps (0: never)
+  // One uniform random number per (word, site) shared by the word's 64 restarts (each
+  // restart's chain is still exact Metropolis, but restarts of one word are correlated);
+  // false: independent random bits per restart (about eight random words per word and site).
+  bool shared_draws = true;
+  // Energies counted and bests kept every best_every sweeps (0 counts as 1), at the last sweep
+  // of a schedule, and whenever a best or the current energies are asked for.
+  std::uint64_t best_every = 8;
 };
 
 /// Whether the bit-sliced kernel takes `model`: an Ising model whose couplings all have one
@@ -107,6 +115,21 @@ struct StreamSet {
     s3[w] = splitmix64(sm);
   }
 
+  // Next output of every stream into out; every stream moves.
+  SPINWRIGHT_BIT_INLINE void next_all(std::uint64_t* out) noexcept {
+    for (std::size_t w = 0; w < Words; ++w) {
+      const std::uint64_t a = s0[w], b = s1[w], c = s2[w], d = s3[w];
+      out[w] = rotl(a + d, 23) + a;
+      const std::uint64_t t = b << 17;
+      const std::uint64_t c1 = c ^ a;
+      const std::uint64_t d1 = d ^ b;
+      s0[w] = a ^ d1;
+      s1[w] = b ^ c1;
+      s2[w] = c1 ^ t;
+      s3[w] = rotl(d1, 45);
+    }
+  }
+
   SPINWRIGHT_BIT_INLINE void next(std::uint64_t* out, const std::uint64_t* move) noexcept {
     for (std::size_t w = 0; w < Words; ++w) {
       const std::uint64_t a = s0[w], b = s1[w], c = s2[w], d = s3[w];
@@ -152,9 +175,10 @@ constexpr std::uint64_t bit_sliced_stream(std::uint64_t word) noexcept { return 
 
 // The bit-sliced annealer over 64 * Words restarts side by side: those of the 64-bit words
 // first_word .. first_word + Words - 1 (restart 64 v + b is bit b of word v). Word v draws from
-// Xoshiro256::for_restart(seed, bit_sliced_stream(v)) only, and only while it has undecided
-// bits, so a restart's run does not depend on Words or on how words are spread over threads. Sweep k of a schedule of S
-// sweeps uses beta(k / (S - 1)) (negative beta counts as 0).
+// Xoshiro256::for_restart(seed, bit_sliced_stream(v)) only (shared draws: one number per site
+// of degree >= 1; independent bits: only while it has undecided bits), so a restart's run does not depend on Words or
+// on how words are spread over threads. Sweep k of a schedule of S sweeps uses beta(k / (S - 1)) (negative beta counts
+// as 0).
 template <class Model, std::size_t Words = 1>
 class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> {
   static_assert(Words >= 1 && Words <= 16, "Words is the number of 64-bit words per site (1 to 16)");
@@ -244,9 +268,15 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   std::uint64_t first_restart() const noexcept { return 64 * first_word_; }
 
   /// Best energy restart k (0 .. restarts() - 1) of the group has reached at a sweep end.
-  energy_type best_energy(std::size_t k) const noexcept { return energy_of_unsat(best_unsat_[k]); }
+  energy_type best_energy(std::size_t k) const noexcept {
+    track();
+    return energy_of_unsat(best_unsat_[k]);
+  }
   /// Its best spins (+1/-1) into out[0 .. n - 1].
-  void best_spins(std::size_t k, std::int8_t* out) const noexcept { copy_lane(best_.data(), k, out); }
+  void best_spins(std::size_t k, std::int8_t* out) const noexcept {
+    track();
+    copy_lane(best_.data(), k, out);
+  }
   /// The current energy of every restart of the group into out[0 .. restarts() - 1] (counts
   /// the unsatisfied bonds: O(bonds) word operations).
   void current_energies(energy_type* out) const noexcept {
@@ -260,11 +290,15 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   /// The best restart of the group (lowest energy, ties to the lowest k) as a BestView; the
   /// spins are unpacked into the kernel's own buffer, valid until the next call or sweep.
   BestView<energy_type> best() const noexcept {
+    track();
     const std::size_t k = best_lane();
     if (valid()) copy_lane(best_.data(), k, lane_spins_.data());
     return {lane_spins_.data(), lane_spins_.size(), valid() ? best_energy(k) : energy_type{}, best_sweep_};
   }
-  std::size_t best_restart() const noexcept { return best_lane(); }
+  std::size_t best_restart() const noexcept {
+    track();
+    return best_lane();
+  }
 
 #if !SPINWRIGHT_NO_HEAP
   /// The best restart as a Solution (energy recomputed from the model).
@@ -273,6 +307,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   Solution<energy_type> solution_of(std::size_t k) const {
     Solution<energy_type> s;
     if (!valid()) return s;
+    track();
     s.spins.assign(model_->num_spins(), 1);
     copy_lane(best_.data(), k, s.spins.data());
     s.energy = model_->energy(s.spins.data());
@@ -305,7 +340,10 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
 
   std::uint64_t default_sweeps() const noexcept { return params_.sweeps; }
   std::uint64_t progress_every() const noexcept { return params_.progress_every; }
-  double best_for_target() const noexcept { return valid() ? static_cast<double>(best_energy(best_lane())) : 0.0; }
+  /// The best energy as of the last sweep at which energies were counted (best_every).
+  double best_for_target() const noexcept {
+    return valid() ? static_cast<double>(energy_of_unsat(best_unsat_[best_lane()])) : 0.0;
+  }
 
  private:
   friend class detail::Drive<BitSlicedAnnealer>;
@@ -391,6 +429,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     count_unsatisfied(unsat);
     for (std::size_t k = 0; k < restarts_per_group; ++k) best_unsat_[k] = unsat[k];
     sweeps_ = 0;
+    tracked_at_ = 0;
     best_sweep_ = 0;
     time_fraction_ = 0;
   }
@@ -556,6 +595,72 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     }
   }
 
+  // The same update with one uniform u per word shared by its 64 restarts. A bit with k
+  // unsatisfied bonds, k <= kmax, is flipped when u / 2 < threshold(D - 2 k), 2^63 exp(-2 beta
+  // J (D - 2 k)); those thresholds grow with k, so the flipped bits are those with k >= kstar,
+  // kstar = the number of levels whose threshold u / 2 reaches (one scalar per word, turned
+  // into bit planes and compared with the counts by detail::below). A bit with k = D / 2 (no
+  // change) is flipped when u's top bit is 0. Each bit is in one class, so each restart's chain
+  // is exact Metropolis (with the coin); restarts of a word share u and so are correlated.
+  template <int D>
+  SPINWRIGHT_BIT_INLINE void update_site_shared(std::size_t i, detail::StreamSet<Words>& streams,
+                                                detail::Lanes<Words>& flips) noexcept {
+    using L = detail::Lanes<Words>;
+    std::uint64_t* s = spins_.data();
+    const std::uint32_t* slot = slots_.data() + row_[i];
+    L x;
+    for (std::size_t w = 0; w < Words; ++w) x.v[w] = s[i * Words + w];
+    L accept = L::all(~std::uint64_t{0});
+    if constexpr (D > 0) {
+      L in[D];
+      for (int t = 0; t < D; ++t) {
+        const std::uint64_t* nb = s + (slot[t] & ~antiparallel_flag) * Words;
+        const std::uint64_t flip = (slot[t] & antiparallel_flag) ? ~std::uint64_t{0} : 0;
+        for (std::size_t w = 0; w < Words; ++w) in[t].v[w] = nb[w] ^ x.v[w] ^ flip;
+      }
+      constexpr int planes = detail::count_planes(D);
+      constexpr int kmax = (D - 1) / 2;
+      L count[planes];
+      detail::count_bits<D>(in, count);
+      std::uint64_t u[Words];
+      streams.next_all(u);
+      std::uint64_t kstar[Words];
+      for (std::size_t w = 0; w < Words; ++w) {
+        const std::uint64_t half = u[w] >> 1;
+        std::uint64_t k = 0;
+        for (int level = 0; level <= kmax; ++level) k += half >= threshold_[D - 2 * level] ? 1u : 0u;
+        kstar[w] = k;
+      }
+      L limit[planes];
+      for (int p = 0; p < planes; ++p)
+        for (std::size_t w = 0; w < Words; ++w) limit[p].v[w] = std::uint64_t{0} - ((kstar[w] >> p) & 1u);
+      accept = ~detail::below<planes>(count, limit);
+      if constexpr (D % 2 == 0) {
+        const L even = detail::at_most<planes>(count, D / 2) & ~detail::at_most<planes>(count, D / 2 - 1);
+        L tails;
+        for (std::size_t w = 0; w < Words; ++w) tails.v[w] = std::uint64_t{0} - (u[w] >> 63);
+        accept &= ~(even & tails);
+      }
+    }
+    for (std::size_t w = 0; w < Words; ++w) {
+      s[i * Words + w] = x.v[w] ^ accept.v[w];
+      flips.v[w] += byte_counts(accept.v[w]);
+    }
+  }
+
+  // Set bits of every byte of v, in that byte (0 .. 8): added over up to 31 sites, then folded.
+  SPINWRIGHT_BIT_INLINE static std::uint64_t byte_counts(std::uint64_t v) noexcept {
+    v = v - ((v >> 1) & 0x5555555555555555ULL);
+    v = (v & 0x3333333333333333ULL) + ((v >> 2) & 0x3333333333333333ULL);
+    return (v + (v >> 4)) & 0x0F0F0F0F0F0F0F0FULL;
+  }
+  static std::uint64_t fold_bytes(std::uint64_t v) noexcept {
+    v = (v & 0x00FF00FF00FF00FFULL) + ((v >> 8) & 0x00FF00FF00FF00FFULL);
+    v = v + (v >> 16);
+    v = v + (v >> 32);
+    return v & 0xFFFFu;
+  }
+
   static std::uint64_t popcount(std::uint64_t v) noexcept {
     v = v - ((v >> 1) & 0x5555555555555555ULL);
     v = (v & 0x3333333333333333ULL) + ((v >> 2) & 0x3333333333333333ULL);
@@ -570,73 +675,122 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
       base_[d] = detail::FixedProbability::of(std::exp(-2.0 * bj * smallest));
     }
     step_ = detail::FixedProbability::of(std::exp(-4.0 * bj));
+    threshold_[0] = std::uint64_t{1} << 63;
+    for (int m = 1; m <= static_cast<int>(bit_sliced_max_degree); ++m) {
+      const double p = std::exp(-2.0 * bj * m);
+      const double scaled = std::ldexp(p, 63);
+      threshold_[m] = !(p < 1.0) ? std::uint64_t{1} << 63 : static_cast<std::uint64_t>(scaled);
+    }
     beta_now_ = beta;
+  }
+
+  template <bool Shared, int D>
+  SPINWRIGHT_BIT_INLINE void update(std::size_t i, detail::StreamSet<Words>& rng,
+                                    detail::Lanes<Words>& flips) noexcept {
+    if constexpr (Shared) {
+      update_site_shared<D>(i, rng, flips);
+    } else {
+      update_site<D>(i, rng);
+    }
+  }
+
+  template <bool Shared>
+  void sweep_sites(detail::StreamSet<Words>& streams) noexcept {
+    const std::size_t n = model_->num_spins();
+    // A local copy whose address never leaves the inlined updates: kept in registers.
+    detail::StreamSet<Words> rng = streams;
+    // Shared draws count flips per byte of the words (folded every 31 sites, before a byte
+    // can pass 255).
+    detail::Lanes<Words> flips = detail::Lanes<Words>::all(0);
+    unsigned pending = 0;
+    for (std::size_t i = 0; i < n; ++i) {
+      if (Shared && ++pending == 32) {
+        for (std::size_t w = 0; w < Words; ++w) accepted_lane_[w] += fold_bytes(flips.v[w]);
+        flips = detail::Lanes<Words>::all(0);
+        pending = 1;
+      }
+      switch (row_[i + 1] - row_[i]) {
+        case 0:
+          update<Shared, 0>(i, rng, flips);
+          break;
+        case 1:
+          update<Shared, 1>(i, rng, flips);
+          break;
+        case 2:
+          update<Shared, 2>(i, rng, flips);
+          break;
+        case 3:
+          update<Shared, 3>(i, rng, flips);
+          break;
+        case 4:
+          update<Shared, 4>(i, rng, flips);
+          break;
+        case 5:
+          update<Shared, 5>(i, rng, flips);
+          break;
+        case 6:
+          update<Shared, 6>(i, rng, flips);
+          break;
+        case 7:
+          update<Shared, 7>(i, rng, flips);
+          break;
+        case 8:
+          update<Shared, 8>(i, rng, flips);
+          break;
+        case 9:
+          update<Shared, 9>(i, rng, flips);
+          break;
+        case 10:
+          update<Shared, 10>(i, rng, flips);
+          break;
+        case 11:
+          update<Shared, 11>(i, rng, flips);
+          break;
+        case 12:
+          update<Shared, 12>(i, rng, flips);
+          break;
+        case 13:
+          update<Shared, 13>(i, rng, flips);
+          break;
+        case 14:
+          update<Shared, 14>(i, rng, flips);
+          break;
+        default:
+          update<Shared, 15>(i, rng, flips);
+          break;
+      }
+    }
+    for (std::size_t w = 0; w < Words; ++w) accepted_lane_[w] += fold_bytes(flips.v[w]);
+    streams = rng;
   }
 
   bool sweep_once() {
     const double beta = beta_at_sweep(sweeps_);
     if (sweeps_ == 0 || beta != beta_now_) set_beta(beta);
-    const std::size_t n = model_->num_spins();
     // The streams in a local whose address never leaves the inlined site updates, so that
     // they stay in registers across the spin writes.
     detail::StreamSet<Words> rng = streams_;
-    for (std::size_t i = 0; i < n; ++i) {
-      switch (row_[i + 1] - row_[i]) {
-        case 0:
-          update_site<0>(i, rng);
-          break;
-        case 1:
-          update_site<1>(i, rng);
-          break;
-        case 2:
-          update_site<2>(i, rng);
-          break;
-        case 3:
-          update_site<3>(i, rng);
-          break;
-        case 4:
-          update_site<4>(i, rng);
-          break;
-        case 5:
-          update_site<5>(i, rng);
-          break;
-        case 6:
-          update_site<6>(i, rng);
-          break;
-        case 7:
-          update_site<7>(i, rng);
-          break;
-        case 8:
-          update_site<8>(i, rng);
-          break;
-        case 9:
-          update_site<9>(i, rng);
-          break;
-        case 10:
-          update_site<10>(i, rng);
-          break;
-        case 11:
-          update_site<11>(i, rng);
-          break;
-        case 12:
-          update_site<12>(i, rng);
-          break;
-        case 13:
-          update_site<13>(i, rng);
-          break;
-        case 14:
-          update_site<14>(i, rng);
-          break;
-        default:
-          update_site<15>(i, rng);
-          break;
-      }
+    if (params_.shared_draws) {
+      sweep_sites<true>(rng);
+    } else {
+      sweep_sites<false>(rng);
     }
     streams_ = rng;
     ++sweeps_;
+    const std::uint64_t every = params_.best_every == 0 ? 1 : params_.best_every;
+    if (sweeps_ % every != 0 && sweeps_ < schedule_sweeps_) return false;
+    const std::int64_t before = best_unsat_[best_lane()];
+    track();
+    return best_unsat_[best_lane()] < before;
+  }
+
+  // Counts every restart's energy after the last sweep (if not done yet) and keeps the bests.
+  void track() const noexcept {
+    if (!valid() || tracked_at_ == sweeps_) return;
+    tracked_at_ = sweeps_;
+    const std::size_t n = model_->num_spins();
     std::int64_t unsat[restarts_per_group];
     count_unsatisfied(unsat);
-    bool improved_any = false;
     const std::int64_t before = best_unsat_[best_lane()];
     for (std::size_t w = 0; w < Words; ++w) {
       std::uint64_t improved = 0;
@@ -653,11 +807,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
         best_[at] = (best_[at] & ~improved) | (spins_[at] & improved);
       }
     }
-    if (best_unsat_[best_lane()] < before) {
-      improved_any = true;
-      best_sweep_ = sweeps_;
-    }
-    return improved_any;
+    if (best_unsat_[best_lane()] < before) best_sweep_ = sweeps_;
   }
 
   const Model* model_;
@@ -665,13 +815,15 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   Status status_;
   detail::Buffer<std::uint32_t> row_;
   detail::Buffer<std::uint32_t> slots_;
-  detail::Buffer<std::uint64_t> spins_;  // [site][word], site n is the field's fixed +1 spin
-  detail::Buffer<std::uint64_t> best_;   // [site][word], best state of every restart
+  detail::Buffer<std::uint64_t> spins_;         // [site][word], site n is the field's fixed +1 spin
+  mutable detail::Buffer<std::uint64_t> best_;  // [site][word], best state of every restart
   mutable detail::Buffer<std::int8_t> lane_spins_;
-  detail::Buffer<std::int64_t> best_unsat_;
+  mutable detail::Buffer<std::int64_t> best_unsat_;
   detail::StreamSet<Words> streams_{};
   detail::FixedProbability base_[bit_sliced_max_degree + 1]{};
   detail::FixedProbability step_{};
+  // Shared draws: an energy rise of 2 J m is taken when u / 2 < threshold_[m] (2^63 exp(-2 beta J m)).
+  std::uint64_t threshold_[bit_sliced_max_degree + 1]{};
   std::uint64_t accepted_lane_[Words]{};
   Schedule schedule_{};
   BetaSpan range_{};
@@ -680,7 +832,8 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   int planes_ = 1;
   std::uint64_t first_word_ = 0;
   std::uint64_t sweeps_ = 0;
-  std::uint64_t best_sweep_ = 0;
+  mutable std::uint64_t best_sweep_ = 0;
+  mutable std::uint64_t tracked_at_ = 0;  // sweeps_ when energies were last counted
   std::uint64_t schedule_sweeps_ = 0;
   double beta_now_ = 0;
   double time_fraction_ = 0;

@@ -7,6 +7,7 @@
 
 #include "../../config.hpp"
 
+#include <cstddef>  // std::size_t
 #include <cstdint>  // std::uint64_t
 
 // The adders are a handful of instructions each and sit in the innermost loop: inlined always.
@@ -22,19 +23,66 @@ namespace detail {
 // Planes needed to count up to D (the bit width of D): 1 -> 1, 2..3 -> 2, 4..7 -> 3, 8..15 -> 4.
 constexpr int count_planes(int d) noexcept { return d >= 8 ? 4 : d >= 4 ? 3 : d >= 2 ? 2 : 1; }
 
+// Words 64-bit words used as one wide word: every operator is a plain loop over a compile-time
+// length, which GCC and Clang turn into vector instructions. The adders below take either a
+// std::uint64_t or a Lanes<Words> (64 Words counters side by side).
+template <std::size_t Words>
+struct Lanes {
+  std::uint64_t v[Words];
+
+  static SPINWRIGHT_BIT_INLINE Lanes all(std::uint64_t x) noexcept {
+    Lanes r;
+    for (std::size_t w = 0; w < Words; ++w) r.v[w] = x;
+    return r;
+  }
+  friend SPINWRIGHT_BIT_INLINE Lanes operator&(const Lanes& a, const Lanes& b) noexcept {
+    Lanes r;
+    for (std::size_t w = 0; w < Words; ++w) r.v[w] = a.v[w] & b.v[w];
+    return r;
+  }
+  friend SPINWRIGHT_BIT_INLINE Lanes operator|(const Lanes& a, const Lanes& b) noexcept {
+    Lanes r;
+    for (std::size_t w = 0; w < Words; ++w) r.v[w] = a.v[w] | b.v[w];
+    return r;
+  }
+  friend SPINWRIGHT_BIT_INLINE Lanes operator^(const Lanes& a, const Lanes& b) noexcept {
+    Lanes r;
+    for (std::size_t w = 0; w < Words; ++w) r.v[w] = a.v[w] ^ b.v[w];
+    return r;
+  }
+  friend SPINWRIGHT_BIT_INLINE Lanes operator~(const Lanes& a) noexcept {
+    Lanes r;
+    for (std::size_t w = 0; w < Words; ++w) r.v[w] = ~a.v[w];
+    return r;
+  }
+  SPINWRIGHT_BIT_INLINE Lanes& operator^=(const Lanes& b) noexcept { return *this = *this ^ b; }
+  SPINWRIGHT_BIT_INLINE Lanes& operator|=(const Lanes& b) noexcept { return *this = *this | b; }
+  SPINWRIGHT_BIT_INLINE Lanes& operator&=(const Lanes& b) noexcept { return *this = *this & b; }
+};
+
+// All ones / all zeros of a word type.
+template <class T>
+SPINWRIGHT_BIT_INLINE T zeros() noexcept {
+  return T{};
+}
+template <class T>
+SPINWRIGHT_BIT_INLINE T ones() noexcept {
+  return ~T{};
+}
+
 // Full adder on 64 bit positions at once: a + b + c = sum + 2 carry.
-SPINWRIGHT_BIT_INLINE void full_add(std::uint64_t a, std::uint64_t b, std::uint64_t c, std::uint64_t& sum,
-                                    std::uint64_t& carry) noexcept {
-  const std::uint64_t ab = a ^ b;
+template <class T>
+SPINWRIGHT_BIT_INLINE void full_add(T a, T b, T c, T& sum, T& carry) noexcept {
+  const T ab = a ^ b;
   sum = ab ^ c;
   carry = (a & b) | (ab & c);
 }
 
 // Adds a one-bit word of weight 2^from into the planes (ripple of half adders).
-template <int Planes>
-SPINWRIGHT_BIT_INLINE void add_carry(std::uint64_t* planes, std::uint64_t carry, int from) noexcept {
+template <int Planes, class T>
+SPINWRIGHT_BIT_INLINE void add_carry(T* planes, T carry, int from) noexcept {
   for (int p = from; p < Planes; ++p) {
-    const std::uint64_t next = planes[p] & carry;
+    const T next = planes[p] & carry;
     planes[p] ^= carry;
     carry = next;
   }
@@ -43,13 +91,13 @@ SPINWRIGHT_BIT_INLINE void add_carry(std::uint64_t* planes, std::uint64_t carry,
 // planes[0 .. count_planes(D) - 1] = bitwise count of the D words in `in`: bit b of the
 // count is the number of inputs whose bit b is set. Inputs are taken three at a time by a
 // full adder whose sum has weight 1 and whose carry has weight 2.
-template <int D>
-SPINWRIGHT_BIT_INLINE void count_bits(const std::uint64_t* in, std::uint64_t* planes) noexcept {
+template <int D, class T>
+SPINWRIGHT_BIT_INLINE void count_bits(const T* in, T* planes) noexcept {
   constexpr int planes_used = count_planes(D);
-  for (int p = 0; p < planes_used; ++p) planes[p] = 0;
+  for (int p = 0; p < planes_used; ++p) planes[p] = zeros<T>();
   int k = 0;
   for (; k + 2 < D; k += 3) {
-    std::uint64_t s = 0, c = 0;
+    T s, c;
     full_add(in[k], in[k + 1], in[k + 2], s, c);
     add_carry<planes_used>(planes, s, 0);
     add_carry<planes_used>(planes, c, 1);
@@ -60,10 +108,10 @@ SPINWRIGHT_BIT_INLINE void count_bits(const std::uint64_t* in, std::uint64_t* pl
 // Bit b set where the count in `planes` (Planes planes) at bit b is at most `limit`
 // (comparison from the highest plane down: greater as soon as a plane is 1 where the limit
 // has 0 and all higher planes were equal).
-template <int Planes>
-SPINWRIGHT_BIT_INLINE std::uint64_t at_most(const std::uint64_t* planes, unsigned limit) noexcept {
-  std::uint64_t greater = 0;
-  std::uint64_t equal = ~std::uint64_t{0};
+template <int Planes, class T>
+SPINWRIGHT_BIT_INLINE T at_most(const T* planes, unsigned limit) noexcept {
+  T greater = zeros<T>();
+  T equal = ones<T>();
   for (int p = Planes - 1; p >= 0; --p) {
     if ((limit >> p) & 1u) {
       equal &= planes[p];
@@ -73,6 +121,20 @@ SPINWRIGHT_BIT_INLINE std::uint64_t at_most(const std::uint64_t* planes, unsigne
     }
   }
   return ~greater;
+}
+
+// Bit b set where the count in `planes` at bit b is below a limit that may differ per bit:
+// limit_planes[p] holds bit p of each bit's limit (the limit in the same plane form). No
+// branch on the limit, so the comparison runs over Lanes words at once.
+template <int Planes, class T>
+SPINWRIGHT_BIT_INLINE T below(const T* planes, const T* limit_planes) noexcept {
+  T less = zeros<T>();
+  T equal = ones<T>();
+  for (int p = Planes - 1; p >= 0; --p) {
+    less |= equal & ~planes[p] & limit_planes[p];
+    equal &= ~(planes[p] ^ limit_planes[p]);
+  }
+  return less;
 }
 
 }  // namespace detail
