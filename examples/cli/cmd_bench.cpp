@@ -363,6 +363,7 @@ int run_bench(int argc, const char* const* argv) {
   RunOptions& base = setup.base;
   base.restarts = 32;
   base.seed = 1;
+  base.independent_restarts = true;  // success probability and TTS99 count restarts as independent trials
   std::uint64_t threads = 0;
   if ((f = parse_count(args, "restarts", 1, 100000000, cmd, base.restarts)).failed()) return fail(f);
   if ((f = parse_count(args, "sweeps", 1, std::uint64_t{1} << 50, cmd, base.sweeps)).failed()) return fail(f);

@@ -118,6 +118,8 @@ std::string solve_json(const LoadedModel& m, const SolveSettings& s, const RunRe
   j.member("threads", r.threads);
   j.member("ranks", static_cast<std::uint64_t>(job_ranks()));
   j.member("lanes", static_cast<std::uint64_t>(r.lane_width));
+  j.member("bit_sliced", r.bit_sliced);
+  j.member("shared_draws", r.shared_draws);
   j.member("sweeps", r.tally.total_sweeps());
   j.member("seconds", r.seconds);
   j.member("interrupted", r.interrupted);
@@ -192,6 +194,11 @@ std::string solve_text(const LoadedModel& m, const SolveSettings& s, const RunRe
                            (job_ranks() > 1 ? " on each of " + std::to_string(job_ranks()) + " ranks" : "") +
                            ", seed " + std::to_string(s.run.seed));
     t.line("sweeps", std::to_string(r.tally.total_sweeps()) + " in total");
+    if (r.bit_sliced) {
+      t.line("bit-sliced", std::string("64 restarts to a word") +
+                               (r.shared_draws ? ", one random number per word and site (restarts of a word correlated)"
+                                               : ", independent random bits per restart"));
+    }
     if (r.lane_width > 0) {
       t.line("lanes", std::to_string(r.lane_width) + " restarts at a time in lockstep (" + r.lane_unit + ")");
     }

@@ -76,6 +76,9 @@ struct RunOptions {
   // run until their share of the limit (sweeps unlimited); annealing follows the elapsed
   // fraction of the limit along its schedule, so it ends cold at the deadline.
   bool time_driven = false;
+  // Restart statistics must come from independent restarts (bench): bit-sliced annealing then
+  // draws independent random bits per restart instead of sharing one number per word.
+  bool independent_restarts = false;
   ScheduleOptions schedule;
   std::uint64_t restarts = 1;
   unsigned threads = 1;
@@ -107,6 +110,8 @@ struct RunResult {
   std::uint64_t ground_count = 0;  // exact kernel: number of ground states
   std::size_t lane_width = 0;      // restarts annealed W at a time in lockstep lanes (0: one at a time)
   const char* lane_unit = "";      // the vector unit the lanes ran on
+  bool bit_sliced = false;         // restarts ran 64 to a word in bit-sliced annealing
+  bool shared_draws = false;       // ... with one random number per word and site (restarts of a word correlated)
 };
 
 // How many restarts ended at or below `energy` (within 1e-9 of the model's energy range `scale`).

@@ -11,6 +11,7 @@
 #include <spinwright/kernels/anneal.hpp>
 #include <spinwright/kernels/auto.hpp>
 #include <spinwright/kernels/beta_span.hpp>
+#include <spinwright/kernels/bit_sliced.hpp>
 #include <spinwright/kernels/breakout.hpp>
 #include <spinwright/kernels/descent.hpp>
 #include <spinwright/kernels/exact.hpp>
@@ -275,6 +276,72 @@ std::vector<spinwright::Solution<double>> lane_share(const Model& model, const R
   return results;
 }
 
+// Bit-sliced annealing of restarts first .. first + count - 1 (first a multiple of 64): one
+// kernel per word of 64 restarts on the threads; restart r's answer depends on (seed, r / 64,
+// r mod 64) only, so any split into whole words gives the same tally. Each restart's best is
+// polished as one_restart's is.
+template <class Model>
+std::vector<spinwright::Solution<double>> bit_sliced_share(const Model& model, const RunOptions& o, std::uint64_t first,
+                                                           std::uint64_t count, double b0, double b1, bool shared,
+                                                           std::atomic<std::uint64_t>& cut_short) {
+  spinwright::BitSlicedParams p;
+  p.initial = o.warm != nullptr ? o.warm->data() : nullptr;
+  p.shared_draws = shared;
+  if (o.schedule.given()) p.schedule = spinwright::Schedule::geometric(b0, b1);
+  const std::uint64_t first_word = first / 64;
+  const std::uint64_t words = (count + 63) / 64;
+  std::vector<spinwright::Solution<double>> results(static_cast<std::size_t>(count));
+  std::atomic<std::uint64_t> next{0};
+  auto worker = [&]() {
+    for (std::uint64_t w = next.fetch_add(1); w < words; w = next.fetch_add(1)) {
+      spinwright::BitSlicedAnnealer<Model, 1> kernel(model, p, o.seed, first_word + w);
+      spinwright::Budget budget;
+      budget.sweeps = o.sweeps;
+      budget.stop = &interrupt_token();
+      budget.clock = spinwright::steady_clock();
+      double seconds = 0;
+      const spinwright::StopReason why = kernel.advance(budget, &seconds);
+      for (std::size_t k = 0; k < 64; ++k) {
+        const std::uint64_t at = 64 * w + k;
+        if (at >= count) break;
+        auto s = kernel.solution_of(k);
+        s.reason = why;
+        s.seconds = seconds;
+        if (cut(why)) cut_short.fetch_add(1, std::memory_order_relaxed);
+        auto& slot = results[static_cast<std::size_t>(at)];
+        slot = as_double(finish(model, std::move(s)));
+        if (o.progress != nullptr) {
+          o.progress->best.offer(slot.energy);
+          o.progress->restarts_done.fetch_add(1, std::memory_order_relaxed);
+        }
+      }
+    }
+  };
+  const auto threads = static_cast<unsigned>(std::min<std::uint64_t>(o.threads, words));
+  if (threads <= 1) {
+    worker();
+  } else {
+    std::vector<std::thread> pool;
+    for (unsigned t = 0; t < threads; ++t) pool.emplace_back(worker);
+    for (auto& th : pool) th.join();
+  }
+  return results;
+}
+
+// Bit-sliced annealing runs when it applies: annealing over a whole schedule as for lanes, at
+// least half a word of restarts, and a model bit_sliced_fits takes (couplings of one magnitude,
+// fields 0 or of that magnitude, degree <= 15).
+template <class Model>
+bool bit_sliced_applies(const Model& model, const RunOptions& o) {
+  if constexpr (Model::is_dense || Model::form != spinwright::Form::ising) {
+    return false;
+  } else {
+    return o.kernel == Kernel::anneal && !o.fill_time && !o.time_driven && !o.has_target && o.traces == nullptr &&
+           o.restarts >= 32 && !(o.time_limit < std::numeric_limits<double>::infinity()) &&
+           spinwright::bit_sliced_fits(model).ok();
+  }
+}
+
 // Lanes run when they apply: annealing over a whole schedule (no time filling, target, time
 // limit or per-restart trace: those are per restart), at least half a block of restarts, a
 // sparse model within the lanes' field bound.
@@ -308,6 +375,21 @@ Failure run_restarts_on(const LoadedModel& m, const Model& model, const RunOptio
   out.beta_start = b0;
   out.beta_end = b1;
   std::atomic<std::uint64_t> cut_short{0};
+  if (bit_sliced_applies(model, o)) {
+    // Shared draws (fast, restarts of one word correlated) for solve; independent bits when the
+    // restarts feed statistics (bench) or share one warm start (shared draws would run them as one).
+    const bool shared = !o.independent_restarts && o.warm == nullptr;
+    out.tally = spread_shares<double>(
+        o.restarts,
+        [&](std::uint64_t first, std::uint64_t count) {
+          return bit_sliced_share(model, o, first, count, b0, b1, shared, cut_short);
+        },
+        64);
+    out.bit_sliced = true;
+    out.shared_draws = shared;
+    out.cut_short = cut_short.load();
+    return {};
+  }
   if (lanes_apply(model, o)) {
     out.tally = spread_shares<double>(o.restarts, [&](std::uint64_t first, std::uint64_t count) {
       return lane_share(model, o, first, count, b0, b1, cut_short);

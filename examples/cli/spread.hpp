@@ -62,12 +62,14 @@ spinwright::Tally<Energy> spread_restarts(std::uint64_t restarts, unsigned threa
 // The same for a runner of whole shares: run_share(begin, count) -> the Solutions of restarts
 // begin .. begin + count - 1 in order (e.g. restarts in lockstep lanes), each depending on
 // (seed, r) only.
+// With block > 1, shares start at multiples of block (bit-sliced words of 64 restarts).
 template <class Energy, class RunShare>
-spinwright::Tally<Energy> spread_shares(std::uint64_t restarts, RunShare&& run_share) {
+spinwright::Tally<Energy> spread_shares(std::uint64_t restarts, RunShare&& run_share, std::uint64_t block = 1) {
 #if SPINWRIGHT_CLI_MPI
   return spinwright::mpi::distributed_shares<Energy>(MPI_COMM_WORLD, restarts, std::forward<RunShare>(run_share), 0,
-                                                     spinwright::mpi::Deliver::every_rank);
+                                                     spinwright::mpi::Deliver::every_rank, block);
 #else
+  (void)block;
   spinwright::Tally<Energy> tally;
   if (restarts == 0) return tally;
   for (auto& s : run_share(std::uint64_t{0}, restarts)) tally.add(std::move(s));

@@ -284,14 +284,21 @@ Tally<Energy> distributed_restarts(MPI_Comm comm, std::uint64_t restarts, unsign
 // The same, for programs that run a whole share at once (e.g. restarts in lockstep lanes):
 // run_share(begin, count) -> std::vector<Solution<Energy>> for restarts begin .. begin + count - 1
 // in order, each depending on (seed, r) only. Same result and messages as distributed_restarts.
+// With block > 1 every share starts at a multiple of `block` (whole blocks are dealt to the
+// ranks), for kernels whose restarts come in groups (64 to a word in bit-sliced annealing).
 template <class Energy, class RunShare>
 Tally<Energy> distributed_shares(MPI_Comm comm, std::uint64_t restarts, RunShare&& run_share, int root = 0,
-                                 Deliver deliver = Deliver::root) {
+                                 Deliver deliver = Deliver::root, std::uint64_t block = 1) {
   static_assert(std::is_trivially_copyable<Energy>::value, "energies travel as bytes");
   using Record = detail::RestartRecord<Energy>;
   const Place place = place_in(comm);
-  const std::uint64_t begin = share_begin(place.rank, restarts, place.ranks);
-  const std::uint64_t mine = share_size(place.rank, restarts, place.ranks);
+  if (block == 0) block = 1;
+  const std::uint64_t units = (restarts + block - 1) / block;
+  const std::uint64_t unit_begin = share_begin(place.rank, units, place.ranks);
+  const std::uint64_t unit_end = unit_begin + share_size(place.rank, units, place.ranks);
+  const std::uint64_t begin = unit_begin * block < restarts ? unit_begin * block : restarts;
+  const std::uint64_t end = unit_end * block < restarts ? unit_end * block : restarts;
+  const std::uint64_t mine = end - begin;
   std::vector<Solution<Energy>> share;
   if (mine > 0) share = run_share(begin, mine);
   std::vector<Record> records(share.size());
