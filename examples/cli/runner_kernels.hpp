@@ -223,6 +223,51 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
   return s;
 }
 
+// Runs work(b) for b = 0 .. blocks - 1 on up to `threads` threads (blocks taken in turn).
+template <class Work>
+void on_threads(unsigned threads, std::uint64_t blocks, Work&& work) {
+  std::atomic<std::uint64_t> next{0};
+  auto worker = [&]() {
+    for (std::uint64_t b = next.fetch_add(1); b < blocks; b = next.fetch_add(1)) work(b);
+  };
+  const auto used = static_cast<unsigned>(std::min<std::uint64_t>(threads, blocks));
+  if (used <= 1) {
+    worker();
+    return;
+  }
+  std::vector<std::thread> pool;
+  for (unsigned t = 0; t < used; ++t) pool.emplace_back(worker);
+  for (auto& th : pool) th.join();
+}
+
+// The budget of a group of restarts stepped together (lanes, a bit-sliced word): the run's
+// sweeps, Ctrl-C, and a clock for the reported seconds.
+inline spinwright::Budget group_budget(const RunOptions& o) {
+  spinwright::Budget budget;
+  budget.sweeps = o.sweeps;
+  budget.stop = &interrupt_token();
+  budget.clock = spinwright::steady_clock();
+  return budget;
+}
+
+// One restart of a group, closed as one_restart closes its own: the group's stop reason and
+// seconds, the cut-short count, the closing descent, the progress line.
+template <class Model>
+spinwright::Solution<double> close_restart(const Model& model, const RunOptions& o,
+                                           spinwright::Solution<typename Model::energy_type>&& s,
+                                           spinwright::StopReason why, double seconds,
+                                           std::atomic<std::uint64_t>& cut_short) {
+  s.reason = why;
+  s.seconds = seconds;
+  if (cut(why)) cut_short.fetch_add(1, std::memory_order_relaxed);
+  spinwright::Solution<double> out = as_double(finish(model, std::move(s)));
+  if (o.progress != nullptr) {
+    o.progress->best.offer(out.energy);
+    o.progress->restarts_done.fetch_add(1, std::memory_order_relaxed);
+  }
+  return out;
+}
+
 // Many annealing restarts of a whole schedule: blocks of lanes (kernels/lanes.hpp) on the
 // threads, each lane's best polished as one_restart's is; restarts first .. first + count - 1.
 // Lane r's answer depends on (seed, r) only (not on the block it runs in), so shares of any
@@ -232,47 +277,21 @@ std::vector<spinwright::Solution<double>> lane_share(const Model& model, const R
                                                      std::uint64_t count, double b0, double b1,
                                                      std::atomic<std::uint64_t>& cut_short) {
   constexpr std::size_t width = spinwright::default_lane_width;
-  using Lanes = spinwright::LaneAnnealer<Model, width>;
   spinwright::AnnealParams p;
   p.initial = o.warm != nullptr ? o.warm->data() : nullptr;
   if (o.schedule.given()) p.schedule = spinwright::Schedule::geometric(b0, b1);
-  const std::uint64_t blocks = (count + width - 1) / width;
   std::vector<spinwright::Solution<double>> results(static_cast<std::size_t>(count));
-  std::atomic<std::uint64_t> next{0};
-  auto worker = [&]() {
-    for (std::uint64_t b = next.fetch_add(1); b < blocks; b = next.fetch_add(1)) {
-      const std::uint64_t at = b * width;
-      const auto n = static_cast<std::size_t>(std::min<std::uint64_t>(width, count - at));
-      Lanes lanes(model, p, o.seed, first + at, n);
-      spinwright::Budget budget;
-      budget.sweeps = o.sweeps;
-      budget.stop = &interrupt_token();
-      budget.clock = spinwright::steady_clock();
-      ProgressObserver observer{o.progress, nullptr, 0};
-      double seconds = 0;
-      const spinwright::StopReason why = lanes.advance(budget, observer, &seconds);
-      for (std::size_t l = 0; l < n; ++l) {
-        auto lane = lanes.solution(l);
-        lane.reason = why;
-        lane.seconds = seconds;
-        if (cut(why)) cut_short.fetch_add(1, std::memory_order_relaxed);
-        auto& slot = results[static_cast<std::size_t>(at + l)];
-        slot = as_double(finish(model, std::move(lane)));
-        if (o.progress != nullptr) {
-          o.progress->best.offer(slot.energy);
-          o.progress->restarts_done.fetch_add(1, std::memory_order_relaxed);
-        }
-      }
+  on_threads(o.threads, (count + width - 1) / width, [&](std::uint64_t b) {
+    const std::uint64_t at = b * width;
+    const auto n = static_cast<std::size_t>(std::min<std::uint64_t>(width, count - at));
+    spinwright::LaneAnnealer<Model, width> lanes(model, p, o.seed, first + at, n);
+    ProgressObserver observer{o.progress, nullptr, 0};
+    double seconds = 0;
+    const spinwright::StopReason why = lanes.advance(group_budget(o), observer, &seconds);
+    for (std::size_t l = 0; l < n; ++l) {
+      results[static_cast<std::size_t>(at + l)] = close_restart(model, o, lanes.solution(l), why, seconds, cut_short);
     }
-  };
-  const auto threads = static_cast<unsigned>(std::min<std::uint64_t>(o.threads, blocks));
-  if (threads <= 1) {
-    worker();
-  } else {
-    std::vector<std::thread> pool;
-    for (unsigned t = 0; t < threads; ++t) pool.emplace_back(worker);
-    for (auto& th : pool) th.join();
-  }
+  });
   return results;
 }
 
@@ -288,43 +307,16 @@ std::vector<spinwright::Solution<double>> bit_sliced_share(const Model& model, c
   p.initial = o.warm != nullptr ? o.warm->data() : nullptr;
   p.shared_draws = shared;
   if (o.schedule.given()) p.schedule = spinwright::Schedule::geometric(b0, b1);
-  const std::uint64_t first_word = first / 64;
-  const std::uint64_t words = (count + 63) / 64;
   std::vector<spinwright::Solution<double>> results(static_cast<std::size_t>(count));
-  std::atomic<std::uint64_t> next{0};
-  auto worker = [&]() {
-    for (std::uint64_t w = next.fetch_add(1); w < words; w = next.fetch_add(1)) {
-      spinwright::BitSlicedAnnealer<Model, 1> kernel(model, p, o.seed, first_word + w);
-      spinwright::Budget budget;
-      budget.sweeps = o.sweeps;
-      budget.stop = &interrupt_token();
-      budget.clock = spinwright::steady_clock();
-      double seconds = 0;
-      const spinwright::StopReason why = kernel.advance(budget, &seconds);
-      for (std::size_t k = 0; k < 64; ++k) {
-        const std::uint64_t at = 64 * w + k;
-        if (at >= count) break;
-        auto s = kernel.solution_of(k);
-        s.reason = why;
-        s.seconds = seconds;
-        if (cut(why)) cut_short.fetch_add(1, std::memory_order_relaxed);
-        auto& slot = results[static_cast<std::size_t>(at)];
-        slot = as_double(finish(model, std::move(s)));
-        if (o.progress != nullptr) {
-          o.progress->best.offer(slot.energy);
-          o.progress->restarts_done.fetch_add(1, std::memory_order_relaxed);
-        }
-      }
+  on_threads(o.threads, (count + 63) / 64, [&](std::uint64_t w) {
+    spinwright::BitSlicedAnnealer<Model, 1> kernel(model, p, o.seed, first / 64 + w);
+    double seconds = 0;
+    const spinwright::StopReason why = kernel.advance(group_budget(o), &seconds);
+    for (std::uint64_t k = 0; k < 64 && 64 * w + k < count; ++k) {
+      results[static_cast<std::size_t>(64 * w + k)] =
+          close_restart(model, o, kernel.solution_of(static_cast<std::size_t>(k)), why, seconds, cut_short);
     }
-  };
-  const auto threads = static_cast<unsigned>(std::min<std::uint64_t>(o.threads, words));
-  if (threads <= 1) {
-    worker();
-  } else {
-    std::vector<std::thread> pool;
-    for (unsigned t = 0; t < threads; ++t) pool.emplace_back(worker);
-    for (auto& th : pool) th.join();
-  }
+  });
   return results;
 }
 

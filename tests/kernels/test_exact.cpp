@@ -378,3 +378,25 @@ TEST_CASE("empty and one-spin models") {
   CHECK(r1->energy == -4);
   CHECK(r1->bits() == std::vector<std::uint8_t>{1});
 }
+
+TEST_CASE("a floating level merged within the tolerance keeps its lowest energy") {
+  // Two spins, J = -1, h_0 = 0.01: E(+,+) = -0.99, E(-,-) = -1.01, E(+,-) = 1.01, E(-,+) = 0.99
+  // (by hand). With a tolerance of 0.05 (times max(1, energy bound)) the two aligned states are
+  // one level, whose energy is the lower one, -1.01, whatever order they are visited in; the
+  // same for the two anti-aligned states (0.99).
+  spinwright::IsingBuilder<double> b(2);
+  b.add_coupling(0, 1, -1.0);
+  b.add_field(0, 0.01);
+  const auto m = b.build().value();
+  spinwright::ExactParams params;
+  params.tolerance = 0.05;
+  params.levels = 2;
+  const auto r = spinwright::solve_exact(m, params);
+  REQUIRE(r.ok());
+  REQUIRE(r->levels.size() == 2);
+  CHECK(r->levels[0].energy == doctest::Approx(-1.01).epsilon(1e-12));
+  CHECK(r->levels[0].count == 2);
+  CHECK(r->levels[1].energy == doctest::Approx(0.99).epsilon(1e-12));
+  CHECK(r->levels[1].count == 2);
+  CHECK(r->energy == doctest::Approx(-1.01).epsilon(1e-12));
+}
