@@ -52,7 +52,10 @@ CountingModel ring_with_chords(std::uint32_t n) {
   IsingBuilder<std::int32_t> b(n);
   for (std::uint32_t i = 0; i < n; ++i) {
     b.add_coupling(i, (i + 1) % n, static_cast<std::int32_t>(rng.below(21)) - 10);
-    b.add_coupling(i, rng.below(n), static_cast<std::int32_t>(rng.below(21)) - 10);
+    // One draw per statement: argument order is unspecified, the model must not depend on it.
+    const auto w = static_cast<std::int32_t>(rng.below(21)) - 10;
+    const std::uint32_t j = rng.below(n);
+    b.add_coupling(i, j, w);
   }
   return CountingModel(std::move(b.build().value()));
 }

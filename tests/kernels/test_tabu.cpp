@@ -223,8 +223,14 @@ TEST_CASE("tabu trajectory: re-flips inside the tenure only at new bests, shorte
     Xoshiro256 rng(40 + n);
     IsingBuilder<std::int32_t> b(n);
     for (std::uint32_t i = 0; i < n; ++i) b.add_field(i, static_cast<int>(rng.below(11)) - 5);
-    for (std::uint32_t k = 0; k < 4 * n; ++k)
-      b.add_coupling(rng.below(n), rng.below(n), static_cast<int>(rng.below(21)) - 10);
+    for (std::uint32_t k = 0; k < 4 * n; ++k) {
+      // One draw per statement: the order of a call's arguments is unspecified (and differs
+      // between GCC and Clang), and the model must be the same for every compiler.
+      const int w = static_cast<int>(rng.below(21)) - 10;
+      const std::uint32_t j = rng.below(n);
+      const std::uint32_t i = rng.below(n);
+      b.add_coupling(i, j, w);
+    }
     const auto q = b.build().value();
     const std::size_t tenure = 8;
     TabuParams p;

@@ -94,7 +94,7 @@ constexpr bool convert_coefficient(Arg a, Value& out, Status& why) noexcept {
       out = v;
       return true;
     } else {
-      bool fits;
+      bool fits = false;
       if constexpr (std::is_signed_v<Arg>) {
         fits = static_cast<std::int64_t>(a) >= static_cast<std::int64_t>(std::numeric_limits<Value>::min()) &&
                static_cast<std::int64_t>(a) <= static_cast<std::int64_t>(std::numeric_limits<Value>::max());
