@@ -7,6 +7,7 @@
 #define SPINWRIGHT_PARALLEL_MPI_TEMPERING_HPP
 
 #include "../control/stop_token.hpp"
+#include "../kernels/acceptance.hpp"
 #include "../kernels/solution.hpp"
 #include "../rng/xoshiro.hpp"
 #include "../state/spin_state.hpp"
@@ -58,6 +59,10 @@ class RankLadder {
       local_.emplace_back(model);
       streams_.push_back(Xoshiro256::for_restart(seed, replica));
       local_.back().randomize(streams_.back());
+      // The project's acceptance (threshold table for integer models: no exp per attempt),
+      // retuned only when the replica's rung changes.
+      acceptors_.push_back(make_acceptor(model, Acceptance::metropolis));
+      acceptor_rung_.push_back(t);  // no rung yet
     }
     swap_rng_ = Xoshiro256::for_restart(seed, t);
     rung_of_.resize(t);
@@ -95,8 +100,12 @@ class RankLadder {
   void sweep() {
     if (!valid_) return;
     for (std::size_t k = 0; k < local_.size(); ++k) {
-      const double beta = betas_[rung_of_[first_ + k]];
-      metropolis(local_[k], streams_[k], beta);
+      const std::size_t rung = rung_of_[first_ + k];
+      if (acceptor_rung_[k] != rung) {
+        acceptors_[k].set_beta(betas_[rung]);
+        acceptor_rung_[k] = rung;
+      }
+      metropolis(local_[k], streams_[k], acceptors_[k]);
       note_best(k);
     }
     share_energies();
@@ -153,12 +162,12 @@ class RankLadder {
   }
 
  private:
-  void metropolis(state_type& s, Xoshiro256& rng, double beta) {
+  void metropolis(state_type& s, Xoshiro256& rng, const Acceptor<energy_type>& acc) {
     const auto n = static_cast<std::uint32_t>(model_->num_spins());
     for (std::uint32_t a = 0; a < n; ++a) {
       const auto i = static_cast<index_type>(rng.below(n));
       const energy_type d = s.delta(i);
-      if (d <= energy_type{} || rng.uniform() < std::exp(-beta * static_cast<double>(d))) s.flip_with_delta(i, d);
+      if (acc.accept(d, rng)) s.flip_with_delta(i, d);
     }
   }
 
@@ -206,6 +215,8 @@ class RankLadder {
   std::uint64_t first_ = 0;  // index of this rank's first replica
   std::vector<state_type> local_;
   std::vector<Xoshiro256> streams_;
+  std::vector<Acceptor<energy_type>> acceptors_;  // one per local replica
+  std::vector<std::size_t> acceptor_rung_;        // the rung each acceptor is tuned to
   Xoshiro256 swap_rng_{};
   std::vector<std::size_t> rung_of_;     // replica -> rung
   std::vector<std::size_t> replica_on_;  // rung -> replica
