@@ -265,6 +265,8 @@ Failure bench_instance(const BenchSetup& setup, Instance& inst) {
       j.member("kernel", kernel_name(r.kernel));
       j.member("restarts", static_cast<std::uint64_t>(t.restarts()));
       j.member("threads", r.result.threads);
+      j.member("bit_sliced", r.result.bit_sliced);
+      j.member("shared_draws", r.result.shared_draws);
       j.member("sweeps", t.total_sweeps());
       j.member("seconds", r.result.seconds);
       j.member("best", t.best().energy);

@@ -311,7 +311,10 @@ TEST_CASE("cli: many annealing restarts of a +-1 model run bit-sliced, and the r
   const RunOutput b = run(dir, {"bench", path, "--kernel", "anneal", "--restarts", "64", "--sweeps", "50", "--report",
                                 "json", "--quiet"});
   REQUIRE(b.code == 0);
-  CHECK(parse_ok(b)["kernels"].items.size() == 1);
+  const Json bj = parse_ok(b);
+  REQUIRE(bj["kernels"].items.size() == 1);
+  CHECK(bj["kernels"].items[0]["bit_sliced"].b);
+  CHECK_FALSE(bj["kernels"].items[0]["shared_draws"].b);
   // Too few restarts, or a weight of another magnitude: the ordinary path.
   const RunOutput few = run(dir, {"solve", path, "--kernel", "anneal", "--restarts", "8", "--report", "json"});
   REQUIRE(few.code == 0);
