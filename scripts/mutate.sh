@@ -78,6 +78,11 @@ dependents() {
       "$build"/examples/cli/CMakeFiles/spinwright-cli.dir/compiler_depend.make 2>/dev/null; then
     found+=(cli_test_cli)
   fi
+  # The MPI test program lives under tests/mpi and runs only under mpirun (through ctest).
+  if grep -q -l -F "$abs" "$build"/tests/mpi/CMakeFiles/mpi_scale_out.dir/*.o.d \
+    "$build"/tests/mpi/CMakeFiles/mpi_scale_out.dir/compiler_depend.make 2>/dev/null; then
+    found+=(mpi_scale_out)
+  fi
   printf '%s\n' "${found[@]}" | sort -u
 }
 
@@ -134,6 +139,16 @@ run_mutant() {
       continue
     fi
     built_any=1
+    if [ "$t" = mpi_scale_out ]; then
+      # Runs under mpirun with 1, 2 and 3 ranks: ctest holds the launcher and its flags.
+      if ! timeout "$per_test_timeout" "${nice_cmd[@]}" ctest --test-dir "$build" -R '^mpi\.scale_out_np' \
+        --output-on-failure >"$log_dir/$name.$t.log" 2>&1; then
+        result=caught
+        detail="by $t"
+        break
+      fi
+      continue
+    fi
     local exe
     exe=$(find "$build/tests" -maxdepth 1 -type f -name "$t" | head -1)
     [ -n "$exe" ] || continue

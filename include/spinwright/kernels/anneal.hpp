@@ -1,25 +1,6 @@
 // spinwright — simulated annealing: a one-call function anneal() and a stepping object
 // Annealer for embedding (construct once, call step(n) from your own loop, read best()).
-//
-// Generic over every model type (IsingModel / QuboModel, DenseIsingModel / DenseQuboModel,
-// any value type) and over the move generator (moves/move.hpp; default SingleFlip).
-// One sweep makes move.moves_per_sweep(state) attempts at one beta; sweep k of a schedule of
-// S sweeps uses beta(k / (S - 1)); sweeps past the end stay at the final beta.
-//
-// Acceptance (kernels/acceptance.hpp): integer models use threshold tables; with the built-in
-// SingleFlip, cold sweeps take the hazard path (AnnealParams::hazard_below), which replaces
-// the uniform draw of each rejected attempt by one addition. Same chain, other
-// random stream: a run is still fully determined by its seed.
-//
-// Best state: checked at the end of every sweep; the spins are copied only when the energy
-// at a sweep end is lower than the best so far (O(n) per improvement, nothing otherwise).
-// A lower energy seen only in the middle of a sweep is not kept; polish the result with
-// descent (kernels/descent.hpp) when the last bit matters.
-//
-// Allocation: the constructor allocates (state, best copy, acceptance table, move lists), on
-// the heap or from a caller-supplied Arena; step(), advance(), reset() and warm_start()
-// allocate nothing. run() and solution() allocate the returned Solution's spin vector only;
-// with SPINWRIGHT_NO_HEAP they, anneal() and the heap constructors are not declared.
+// Schedules, acceptance, the best state and allocation: docs/kernels.md ("Simulated annealing").
 #ifndef SPINWRIGHT_KERNELS_ANNEAL_HPP
 #define SPINWRIGHT_KERNELS_ANNEAL_HPP
 

@@ -1,20 +1,6 @@
 // spinwright — IsingBuilder and QuboBuilder: accumulate terms, merge duplicates, fold
 // self-pairs exactly, drop exact zeros, and validate, then build an immutable-structure model.
-//
-//  * (i, j) and (j, i) are the same pair; repeated terms are summed.
-//  * Ising self-pair J_ii s_i s_i = J_ii goes to the offset; QUBO Q_ii x_i x_i = Q_ii x_i goes
-//    to the unary term.
-//  * Non-finite values, indices beyond the index type (or beyond a declared size), merged
-//    coefficients that no longer fit the value type, and integer models whose energy range
-//    could overflow the 64-bit accumulator are refused. The first refused term is remembered
-//    (its position in the order of add_* calls and its indices) and build() returns it.
-//  * build() never throws on bad data; it returns a Result.
-//  * Coefficients of any arithmetic type are taken; an integer builder refuses one that does
-//    not convert exactly (a fraction such as 2.7, or a value beyond the value type such as an
-//    int64_t 5e9 into int32_t) by status, never truncating it. Floating builders round to the
-//    nearest value of their type (a finite value beyond float's range is refused).
-//  * Indices of any integer type are taken; a negative one is refused as "negative". Errors
-//    name the term's indices in the caller's order (i, j).
+// What is refused and how errors name the term: docs/models.md ("Builders").
 #ifndef SPINWRIGHT_MODEL_BUILDER_HPP
 #define SPINWRIGHT_MODEL_BUILDER_HPP
 

@@ -1,16 +1,7 @@
 // spinwright — the incremental state of a run: spins, local fields and the current energy.
-//
-// Spins are stored as +1/-1 for both forms (for QUBO, x = (1 - s) / 2).
-//   Ising local field  f_i = h_i + sum_j J_ij s_j,      flip delta  -2 s_i f_i
-//   QUBO  local field  g_i = Q_ii + sum_j Q_ij x_j,     flip delta   s_i g_i   (x_i 0->1 when s_i = +1)
-// delta(i) is O(1); flip(i) is O(degree). Integer models are exact forever. Floating models
-// accumulate rounding in the local fields and the energy (double precision); resync()
-// recomputes both from the model, and check() measures the drift. See DEVELOPERS.md for the
-// drift measured after 10^8 flips.
-//
-// The state keeps a pointer to its model: the model must outlive it. Edit coefficients
-// through edit_site_term / edit_pair / edit_offset below so the fields stay exact; any other
-// state over the same model must then be resync()ed.
+// Spins are +1/-1 for both forms (QUBO x = (1 - s) / 2); delta(i) is O(1), flip(i) O(degree).
+// The state keeps a pointer to its model: the model must outlive it. Formulas, drift of
+// floating fields and in-place edits: docs/models.md ("The incremental state").
 #ifndef SPINWRIGHT_STATE_SPIN_STATE_HPP
 #define SPINWRIGHT_STATE_SPIN_STATE_HPP
 
