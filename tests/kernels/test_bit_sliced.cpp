@@ -251,6 +251,95 @@ TEST_CASE("a restart's run does not depend on the words per pass or the thread c
   CHECK(one->energies()[130] == word2.best_energy(2));
 }
 
+TEST_CASE("the checkerboard sweep: which models take it, energies, counts, words, units") {
+  // References: SparseModel::energy of the unpacked spins, the spins that changed in a sweep,
+  // the same word run alone, and the plain unit (the same word operations on any unit).
+  const Model cubic6 = plus_minus_cubic_lattice<std::int32_t>(6, 3).value();
+  const Model cubic5 = plus_minus_cubic_lattice<std::int32_t>(5, 3).value();
+  const Model square10 = square_torus<std::int32_t>(10, -1).value();  // 5 sites a row: 3 padding
+  IsingBuilder<std::int32_t> fb(16);
+  for (std::uint32_t y = 0; y < 4; ++y)
+    for (std::uint32_t x = 0; x < 4; ++x) {
+      fb.add_coupling(x + 4 * y, (x + 1) % 4 + 4 * y, -1);
+      fb.add_coupling(x + 4 * y, x + 4 * ((y + 1) % 4), -1);
+    }
+  fb.add_field(5, 1);
+  const Model with_field = fb.build().value();
+  BitSlicedParams p;
+  p.sweeps = 30;
+  CHECK(BitSlicedAnnealer<Model, 1>(cubic6, p, 1).checkerboard());
+  CHECK(BitSlicedAnnealer<Model, 1>(square10, p, 1).checkerboard());
+  const Model square4 = square_torus<std::int32_t>(4, -1).value();
+  const Model mixed = mixed_degree_model(64, 2);
+  CHECK(BitSlicedAnnealer<Model, 1>(square4, p, 1).checkerboard());
+  CHECK_FALSE(BitSlicedAnnealer<Model, 1>(cubic5, p, 1).checkerboard());       // odd side
+  CHECK_FALSE(BitSlicedAnnealer<Model, 1>(with_field, p, 1).checkerboard());   // a field
+  CHECK_FALSE(BitSlicedAnnealer<Model, 1>(mixed, p, 1).checkerboard());
+  {
+    BitSlicedParams q = p;
+    q.checkerboard = false;
+    CHECK_FALSE(BitSlicedAnnealer<Model, 1>(cubic6, q, 1).checkerboard());
+    q.checkerboard = true;
+    q.shared_draws = false;
+    CHECK_FALSE(BitSlicedAnnealer<Model, 1>(cubic6, q, 1).checkerboard());
+  }
+  for (const Model* m : {&cubic6, &square10}) {
+    BitSlicedAnnealer<Model, 2> a(*m, p, 5);
+    REQUIRE(a.checkerboard());
+    check_energies(*m, a);
+    for (int k = 0; k < 3; ++k) {
+      a.step(7);
+      check_energies(*m, a);
+    }
+    const auto best = a.best();
+    CHECK(best.energy == m->energy(best.spins));
+    // accepted() after one sweep: the spins that changed (each site is met once a sweep).
+    BitSlicedAnnealer<Model, 2> c(*m, p, 8);
+    std::vector<std::vector<std::int8_t>> before(c.restarts(), std::vector<std::int8_t>(m->num_spins()));
+    for (std::size_t r = 0; r < c.restarts(); ++r) c.current_spins(r, before[r].data());
+    c.step(1);
+    std::uint64_t changed = 0;
+    std::vector<std::int8_t> after(m->num_spins());
+    for (std::size_t r = 0; r < c.restarts(); ++r) {
+      c.current_spins(r, after.data());
+      for (std::size_t i = 0; i < after.size(); ++i) changed += after[i] != before[r][i];
+    }
+    CHECK(changed > 0);
+    CHECK(c.accepted() == changed);
+    // Word 1 of a two-word kernel is the one-word kernel on word 1; every unit agrees with plain.
+    BitSlicedAnnealer<Model, 2> wide(*m, p, 11, 0);
+    BitSlicedAnnealer<Model, 1> alone(*m, p, 11, 1);
+    wide.advance();
+    alone.advance();
+    std::vector<std::int8_t> x(m->num_spins()), y(m->num_spins());
+    for (std::size_t k = 0; k < 64; ++k) {
+      wide.current_spins(64 + k, x.data());
+      alone.current_spins(k, y.data());
+      REQUIRE(x == y);
+      CHECK(wide.best_energy(64 + k) == alone.best_energy(k));
+    }
+    for (const BitSlicedUnit unit : {BitSlicedUnit::plain, BitSlicedUnit::avx2, BitSlicedUnit::avx512}) {
+      BitSlicedAnnealer<Model, 2> on(*m, p, 11, 0);
+      if (!on.set_unit(unit)) continue;
+      CAPTURE(static_cast<int>(unit));
+      on.advance();
+      for (std::size_t k = 0; k < 128; ++k) {
+        on.current_spins(k, x.data());
+        wide.current_spins(k, y.data());
+        REQUIRE(x == y);
+      }
+      CHECK(on.accepted() == wide.accepted());
+    }
+    // A warm start puts every restart of the board in the given state.
+    BitSlicedParams warm = p;
+    const std::vector<std::int8_t> up(m->num_spins(), 1);
+    warm.initial = up.data();
+    BitSlicedAnnealer<Model, 1> w(*m, warm, 3);
+    w.current_spins(17, x.data());
+    CHECK(x == up);
+  }
+}
+
 TEST_CASE("bit_sliced_fits names the term that keeps a model out") {
   IsingBuilder<std::int32_t> b(4);
   b.add_coupling(0, 1, 1).add_coupling(1, 2, -1).add_coupling(2, 3, 3);

@@ -45,7 +45,37 @@ struct BitSlicedParams {
   // Energies counted and bests kept every best_every sweeps (0 counts as 1), at the last sweep
   // of a schedule, and whenever a best or the current energies are asked for.
   std::uint64_t best_every = 8;
+  // With shared draws, a model that is the L x L periodic square lattice or the L x L x L
+  // periodic cubic lattice (sites numbered as problems/lattice.hpp does, L even and at least 4,
+  // no fields) is swept by sublattice: every site of one colour (x + y + z even), then every
+  // site of the other, eight sites per step with one uniform each from eight streams per word
+  // (bit_sliced_site_stream). Faster than the sequential sweep, and different draws; false: the
+  // sequential sweep for every model.
+  bool checkerboard = true;
 };
+
+/// The vector unit the checkerboard sweep runs on (BitSlicedAnnealer::set_unit). Every unit
+/// gives the same answer.
+enum class BitSlicedUnit : std::uint8_t { plain, avx2, avx512 };
+
+/// The widest unit this CPU and build can run (plain off x86-64 or with other compilers).
+inline BitSlicedUnit bit_sliced_best_unit() noexcept {
+#if SPINWRIGHT_BIT_DISPATCH
+  if (__builtin_cpu_supports("avx512f") && __builtin_cpu_supports("avx512bw") && __builtin_cpu_supports("avx512vl") &&
+      __builtin_cpu_supports("avx512dq")) {
+    return BitSlicedUnit::avx512;
+  }
+  if (__builtin_cpu_supports("avx2")) return BitSlicedUnit::avx2;
+#endif
+  return BitSlicedUnit::plain;
+}
+
+/// The restart index r of Xoshiro256::for_restart(seed, r) of stream g (0 .. 7) of the eight
+/// that give the checkerboard sweep of 64-bit word `word` its uniforms: 2^63 + (g + 1) 2^48 +
+/// word (distinct from every bit_sliced_stream for words below 2^48).
+constexpr std::uint64_t bit_sliced_site_stream(std::uint64_t word, std::uint64_t g) noexcept {
+  return (std::uint64_t{1} << 63) | ((g + 1) << 48) | word;
+}
 
 /// Whether the bit-sliced kernel takes `model`: an Ising model whose couplings all have one
 /// magnitude J, whose fields are 0 or +-J, and whose spins have at most bit_sliced_max_degree
@@ -167,6 +197,60 @@ struct FixedProbability {
   }
 };
 
+// A model the checkerboard sweep takes: the periodic square (dims 2) or cubic (dims 3)
+// lattice of even side `side` >= 4, site (x, y, z) numbered x + side (y + side z), one bond to
+// each of the 2 dims nearest neighbours, no field; dims 0 otherwise.
+struct BitLattice {
+  std::size_t side = 0;
+  int dims = 0;
+  std::size_t half() const noexcept { return side / 2; }
+  std::size_t padded() const noexcept { return (half() + 7) / 8 * 8; }    // sites of a row, to a multiple of 8
+  std::size_t stride() const noexcept { return padded() + 2; }             // a row with its two ghost words
+  std::size_t rows() const noexcept { return dims == 3 ? side * side : side; }  // rows of one colour
+  std::size_t plane() const noexcept { return rows() * stride(); }
+};
+
+template <class Model>
+BitLattice bit_lattice_of(const Model& m) {
+  using index_type = typename Model::index_type;
+  using value_type = typename Model::value_type;
+  const std::size_t n = m.num_spins();
+  for (int dims = 3; dims >= 2; --dims) {
+    std::size_t side = 4;
+    while ((dims == 3 ? side * side * side : side * side) < n) side += 2;
+    if ((dims == 3 ? side * side * side : side * side) != n) continue;
+    bool ok = true;
+    const std::size_t layer = side * side;
+    for (std::size_t i = 0; i < n && ok; ++i) {
+      const auto ii = static_cast<index_type>(i);
+      if (m.site_term(ii) != value_type{0}) {
+        ok = false;
+        break;
+      }
+      const std::size_t x = i % side, y = (i / side) % side, z = i / layer;
+      const std::size_t base_y = i - x, base_z = i - y * side;
+      const std::size_t want[6] = {base_y + (x + 1) % side,
+                                   base_y + (x + side - 1) % side,
+                                   base_z + ((y + 1) % side) * side,
+                                   base_z + ((y + side - 1) % side) * side,
+                                   i - z * layer + ((z + 1) % side) * layer,
+                                   i - z * layer + ((z + side - 1) % side) * layer};
+      unsigned found = 0;
+      m.for_each_neighbour(ii, [&](index_type j, value_type v) {
+        if (j == ii || v == value_type{0}) return;
+        unsigned hit = 0;
+        for (int d = 0; d < 2 * dims; ++d)
+          if (want[d] == static_cast<std::size_t>(j)) hit |= 1u << d;
+        if (hit == 0 || (found & hit) != 0) ok = false;
+        found |= hit;
+      });
+      if (found != (1u << (2 * dims)) - 1) ok = false;
+    }
+    if (ok) return BitLattice{side, dims};
+  }
+  return BitLattice{};
+}
+
 }  // namespace detail
 
 /// The restart index r of Xoshiro256::for_restart(seed, r) that drives 64-bit word `word` of a
@@ -206,7 +290,9 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
         spins_(status_.ok() ? (model.num_spins() + 1) * Words : 0, 0),
         best_(status_.ok() ? model.num_spins() * Words : 0, 0),
         lane_spins_(status_.ok() ? model.num_spins() : 0, 1),
-        best_unsat_(status_.ok() ? restarts_per_group : 0, 0) {
+        best_unsat_(status_.ok() ? restarts_per_group : 0, 0),
+        lattice_(lattice_for(model, params, status_)),
+        board_(board_words(lattice_), 0) {
     if (valid()) init(seed, first_word);
   }
 #endif
@@ -222,22 +308,37 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
         spins_(status_.ok() ? (model.num_spins() + 1) * Words : 0, arena, 0),
         best_(status_.ok() ? model.num_spins() * Words : 0, arena, 0),
         lane_spins_(status_.ok() ? model.num_spins() : 0, arena, 1),
-        best_unsat_(status_.ok() ? restarts_per_group : 0, arena, 0) {
+        best_unsat_(status_.ok() ? restarts_per_group : 0, arena, 0),
+        lattice_(lattice_for(model, params, status_)),
+        board_(board_words(lattice_), arena, 0) {
     if (valid()) init(seed, first_word);
   }
 
   /// Arena bytes the arena constructor needs.
-  static std::size_t bytes_needed(const Model& model, const BitSlicedParams&) {
+  static std::size_t bytes_needed(const Model& model, const BitSlicedParams& params) {
     const std::size_t n = model.num_spins();
     return arena_bytes<std::uint32_t>(n + 1) + arena_bytes<std::uint32_t>(count_slots(model)) +
            arena_bytes<std::uint64_t>((n + 1) * Words) + arena_bytes<std::uint64_t>(n * Words) +
-           arena_bytes<std::int8_t>(n) + arena_bytes<std::int64_t>(restarts_per_group);
+           arena_bytes<std::int8_t>(n) + arena_bytes<std::int64_t>(restarts_per_group) +
+           arena_bytes<std::uint64_t>(board_words(lattice_for(model, params, bit_sliced_fits(model))));
   }
 
   /// False when the model does not qualify (status()) or an arena was too small.
   bool valid() const noexcept {
     return status_.ok() && row_.valid() && slots_.valid() && spins_.valid() && best_.valid() && lane_spins_.valid() &&
-           best_unsat_.valid();
+           best_unsat_.valid() && board_.valid();
+  }
+
+  /// Whether sweeps run by sublattice (BitSlicedParams::checkerboard, shared draws, a periodic
+  /// lattice of even side); the unit they run on, and a way to pick another (false, and no
+  /// change, when this CPU or build lacks it). Every unit gives the same answer.
+  bool checkerboard() const noexcept { return lattice_.dims != 0 && params_.shared_draws; }
+  BitSlicedUnit unit() const noexcept { return unit_; }
+  bool set_unit(BitSlicedUnit unit) noexcept {
+    const BitSlicedUnit best = bit_sliced_best_unit();
+    if (static_cast<int>(unit) > static_cast<int>(best)) return false;
+    unit_ = unit;
+    return true;
   }
   /// Why the model does not qualify (bit_sliced_fits), or success.
   const Status& status() const noexcept { return status_; }
@@ -285,7 +386,10 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     for (std::size_t k = 0; k < restarts_per_group; ++k) out[k] = energy_of_unsat(unsat[k]);
   }
   /// Its current spins (+1/-1) into out[0 .. n - 1].
-  void current_spins(std::size_t k, std::int8_t* out) const noexcept { copy_lane(spins_.data(), k, out); }
+  void current_spins(std::size_t k, std::int8_t* out) const noexcept {
+    sync();
+    copy_lane(spins_.data(), k, out);
+  }
 
   /// The best restart of the group (lowest energy, ties to the lowest k) as a BestView; the
   /// spins are unpacked into the kernel's own buffer, valid until the next call or sweep.
@@ -394,6 +498,8 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
       }
     }
     row_[n] = static_cast<std::uint32_t>(k);
+    unit_ = bit_sliced_best_unit();
+    if (lattice_.dims != 0) load_bonds();
     planes_ = 1;
     while (planes_ < 40 && (std::int64_t{1} << planes_) <= bonds_) ++planes_;
     schedule_sweeps_ = params_.sweeps;
@@ -417,6 +523,9 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     first_word_ = first_word;
     for (std::size_t w = 0; w < Words; ++w) {
       streams_.seed_lane(w, seed, bit_sliced_stream(first_word + w));
+      if (lattice_.dims != 0) {
+        for (std::size_t g = 0; g < 8; ++g) site_streams_[w].seed_lane(g, seed, bit_sliced_site_stream(first_word + w, g));
+      }
     }
   }
 
@@ -425,6 +534,8 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     for (std::size_t w = 0; w < Words; ++w) spins_[n * Words + w] = 0;
     for (std::size_t w = 0; w < Words; ++w) accepted_lane_[w] = 0;
     for (std::size_t k = 0; k < n * Words; ++k) best_[k] = spins_[k];
+    stale_ = false;
+    if (lattice_.dims != 0) load_board();
     std::int64_t unsat[restarts_per_group];
     count_unsatisfied(unsat);
     for (std::size_t k = 0; k < restarts_per_group; ++k) best_unsat_[k] = unsat[k];
@@ -461,6 +572,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   // Unsatisfied bonds of every restart: the bonds' words are counted 15 at a time by the
   // bitwise adders into 4 planes, which are added into a counter of `planes_` planes per word.
   void count_unsatisfied(std::int64_t* unsat) const noexcept {
+    sync();
     const std::size_t n = model_->num_spins();
     std::uint64_t total[Words][40] = {};
     std::uint64_t batch[Words][15];
@@ -648,6 +760,238 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     }
   }
 
+  SPINWRIGHT_BIT_INLINE static detail::Lanes<8> load8(const std::uint64_t* p) noexcept {
+    detail::Lanes<8> r;
+    for (std::size_t j = 0; j < 8; ++j) r.v[j] = p[j];
+    return r;
+  }
+  static detail::BitLattice lattice_for(const Model& model, const BitSlicedParams& params, const Status& fits) {
+    if (!fits.ok() || !params.checkerboard || !params.shared_draws) return detail::BitLattice{};
+    return detail::bit_lattice_of(model);
+  }
+  static std::size_t board_words(const detail::BitLattice& l) noexcept {
+    return l.dims == 0 ? 0 : (2 * Words + 2 * static_cast<std::size_t>(l.dims)) * l.plane();
+  }
+  // Where site i sits on the board: its colour and its offset within the colour's plane.
+  void board_place(std::size_t i, std::size_t& colour, std::size_t& at) const noexcept {
+    const std::size_t side = lattice_.side;
+    const std::size_t x = i % side, y = (i / side) % side, z = i / (side * side);
+    colour = (x + y + z) & 1u;
+    at = (z * side + y) * lattice_.stride() + 1 + x / 2;
+  }
+  // The ghost words of every row of one colour plane: the row's last site before its first,
+  // its first after its last.
+  void refresh_ghosts(std::uint64_t* plane) const noexcept {
+    const std::size_t rows = lattice_.rows(), stride = lattice_.stride(), half = lattice_.half();
+    for (std::size_t r = 0; r < rows; ++r) {
+      std::uint64_t* row = plane + r * stride;
+      row[0] = row[half];
+      row[half + 1] = row[1];
+    }
+  }
+  void load_bonds() noexcept {
+    const Model& m = *model_;
+    const std::size_t n = m.num_spins(), side = lattice_.side, plane = lattice_.plane();
+    const auto dims = static_cast<std::size_t>(lattice_.dims);
+    std::uint64_t* bonds = board_.data() + 2 * Words * plane;
+    for (std::size_t i = 0; i < n; ++i) {
+      const std::size_t x = i % side, y = (i / side) % side, z = i / (side * side);
+      const std::size_t up[3] = {i - x + (x + 1) % side, i - y * side + ((y + 1) % side) * side,
+                                 i - z * side * side + ((z + 1) % side) * side * side};
+      std::size_t colour = 0, at = 0;
+      board_place(i, colour, at);
+      const auto ii = static_cast<index_type>(i);
+      m.for_each_neighbour(ii, [&](index_type j, value_type v) {
+        for (std::size_t d = 0; d < dims; ++d) {
+          if (static_cast<std::size_t>(j) == up[d]) {
+            bonds[(colour * dims + d) * plane + at] = v > value_type{0} ? ~std::uint64_t{0} : 0;
+          }
+        }
+      });
+    }
+    for (std::size_t p = 0; p < 2 * dims; ++p) refresh_ghosts(bonds + p * plane);
+  }
+  // spins_ -> board_ (after a reset or warm start).
+  void load_board() noexcept {
+    const std::size_t n = model_->num_spins(), plane = lattice_.plane();
+    for (std::size_t i = 0; i < n; ++i) {
+      std::size_t colour = 0, at = 0;
+      board_place(i, colour, at);
+      for (std::size_t w = 0; w < Words; ++w) board_[(2 * w + colour) * plane + at] = spins_[i * Words + w];
+    }
+    for (std::size_t p = 0; p < 2 * Words; ++p) refresh_ghosts(board_.data() + p * plane);
+  }
+  // board_ -> spins_, when a sweep by sublattice has left spins_ behind.
+  void sync() const noexcept {
+    if (!stale_) return;
+    stale_ = false;
+    const std::size_t n = model_->num_spins(), plane = lattice_.plane();
+    for (std::size_t i = 0; i < n; ++i) {
+      std::size_t colour = 0, at = 0;
+      board_place(i, colour, at);
+      for (std::size_t w = 0; w < Words; ++w) spins_[i * Words + w] = board_[(2 * w + colour) * plane + at];
+    }
+  }
+
+  void sweep_board() noexcept {
+    switch (unit_) {
+#if SPINWRIGHT_BIT_DISPATCH
+      case BitSlicedUnit::avx512:
+        sweep_board_avx512();
+        break;
+      case BitSlicedUnit::avx2:
+        sweep_board_avx2();
+        break;
+#endif
+      default:
+        sweep_board_any();
+        break;
+    }
+    stale_ = true;
+  }
+#if SPINWRIGHT_BIT_DISPATCH
+  __attribute__((target("avx2"))) void sweep_board_avx2() noexcept { sweep_board_any(); }
+  __attribute__((target("avx2,avx512f,avx512bw,avx512vl,avx512dq"))) void sweep_board_avx512() noexcept {
+    sweep_board_any();
+  }
+#endif
+  SPINWRIGHT_BIT_INLINE void sweep_board_any() noexcept {
+    for (std::size_t w = 0; w < Words; ++w) {
+      if (lattice_.dims == 3) {
+        sweep_board_word<6>(w);
+      } else {
+        sweep_board_word<4>(w);
+      }
+    }
+  }
+
+  // Eight sites of one row of one colour: one site per j, plain scalar code over eight sites
+  // that the loop vectoriser turns into one (AVX-512) or two (AVX2) vector operations per line
+  // (restrict: the spins written, the other colour's spins and the bonds read, the streams and
+  // the counters never overlap). Sites j >= live are padding and never flip.
+  template <int D>
+  SPINWRIGHT_BIT_INLINE static void board_step(
+      std::uint64_t* SPINWRIGHT_BIT_RESTRICT s, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n0,
+      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n1, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n2,
+      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n3, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n4,
+      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n5, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b0,
+      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b1, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b2,
+      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b3, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b4,
+      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b5, std::uint64_t* SPINWRIGHT_BIT_RESTRICT r0,
+      std::uint64_t* SPINWRIGHT_BIT_RESTRICT r1, std::uint64_t* SPINWRIGHT_BIT_RESTRICT r2,
+      std::uint64_t* SPINWRIGHT_BIT_RESTRICT r3, std::uint64_t* SPINWRIGHT_BIT_RESTRICT flips,
+      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT limit, std::uint64_t live) noexcept {
+    constexpr std::size_t dims = D / 2;
+    SPINWRIGHT_BIT_LOOP for (std::size_t j = 0; j < 8; ++j) {
+      const std::uint64_t x = s[j];
+      std::uint64_t in[D];
+      in[0] = n0[j] ^ b0[j] ^ x;
+      in[1] = n1[j] ^ b1[j] ^ x;
+      in[2] = n2[j] ^ b2[j] ^ x;
+      in[3] = n3[j] ^ b3[j] ^ x;
+      if constexpr (D == 6) {
+        in[4] = n4[j] ^ b4[j] ^ x;
+        in[5] = n5[j] ^ b5[j] ^ x;
+      }
+      std::uint64_t count[3];
+      detail::count_bits<D>(in, count);
+      // Stream j's next uniform (xoshiro256++, as StreamSet::next_all).
+      const std::uint64_t a = r0[j], b = r1[j], c = r2[j], d = r3[j];
+      const std::uint64_t u = detail::StreamSet<8>::rotl(a + d, 23) + a;
+      const std::uint64_t t = b << 17;
+      const std::uint64_t c1 = c ^ a;
+      const std::uint64_t d1 = d ^ b;
+      r0[j] = a ^ d1;
+      r1[j] = b ^ c1;
+      r2[j] = c1 ^ t;
+      r3[j] = detail::StreamSet<8>::rotl(d1, 45);
+      // Level masks (u / 2 at or above the level's threshold) and the coin (u's top bit).
+      const std::uint64_t hu = u >> 1;
+      std::uint64_t above[dims];
+      for (std::size_t k = 0; k < dims; ++k) above[k] = hu >= limit[k] ? ~std::uint64_t{0} : 0;
+      const std::uint64_t tails = std::uint64_t{0} - (u >> 63);
+      std::uint64_t accept;
+      if constexpr (D == 6) {
+        // k >= 4 (count[2]); k = 3: coin not tails; k = 2, 1, 0: u / 2 below the level's threshold.
+        const std::uint64_t odd = (count[0] & ~tails) | (~count[0] & ~above[2]);   // k = 3 or 2
+        const std::uint64_t low = (count[0] & ~above[1]) | (~count[0] & ~above[0]);  // k = 1 or 0
+        accept = count[2] | (count[1] & odd) | (~count[1] & low);
+      } else {
+        // k >= 3; k = 2: coin not tails; k = 1, 0: u / 2 below the level's threshold.
+        const std::uint64_t low = (count[0] & ~above[1]) | (~count[0] & ~above[0]);
+        accept = count[2] | (count[1] & (count[0] | ~tails)) | (~count[1] & low);
+      }
+      accept &= j < live ? ~std::uint64_t{0} : 0;
+      s[j] = x ^ accept;
+      flips[j] += byte_counts(accept);
+    }
+  }
+
+  // One sweep of word w by sublattice: colour 0 then colour 1, each row of a colour in steps
+  // of eight sites (the row padded to a multiple of eight; padding sites are computed and never
+  // flipped). Every site of a colour has its 2 dims neighbours in the other colour; the y and z
+  // neighbours sit at the same offset in the neighbouring rows, the x neighbours one word left
+  // or right depending on the row's parity (the ghost words close the ring). Site h of a step
+  // takes the next uniform u of stream h mod 8 (every stream moves once a step) and the rule
+  // of update_site_shared: with k of D bonds unsatisfied, flipped for k > D / 2, for k = D / 2
+  // when u's top bit is 0, for k < D / 2 when u / 2 < threshold_[D - 2 k].
+  template <int D>
+  SPINWRIGHT_BIT_INLINE void sweep_board_word(std::size_t w) noexcept {
+    constexpr std::size_t dims = D / 2;
+    const std::size_t side = lattice_.side, half = lattice_.half(), padded = lattice_.padded();
+    const std::size_t stride = lattice_.stride(), plane = lattice_.plane();
+    const std::size_t layers = D == 6 ? side : 1;
+    std::uint64_t* board = board_.data();
+    const std::uint64_t* bonds = board + 2 * Words * plane;
+    detail::StreamSet<8> rng = site_streams_[w];
+    std::uint64_t flips[8] = {};
+    unsigned pending = 0;
+    std::uint64_t flipped = 0;
+    // Thresholds of the rises 2 J m for the levels k = 0 .. D / 2 - 1 (m = D - 2 k).
+    std::uint64_t limit[dims];
+    for (std::size_t k = 0; k < dims; ++k) limit[k] = threshold_[D - 2 * k];
+    for (std::size_t c = 0; c < 2; ++c) {
+      std::uint64_t* own = board + (2 * w + c) * plane;
+      const std::uint64_t* other = board + (2 * w + 1 - c) * plane;
+      const std::uint64_t* bond_own = bonds + c * dims * plane;
+      const std::uint64_t* bond_other = bonds + (1 - c) * dims * plane;
+      for (std::size_t z = 0; z < layers; ++z) {
+        for (std::size_t y = 0; y < side; ++y) {
+          const std::size_t o = (c + y + z) & 1u;
+          const std::size_t row = (z * side + y) * stride;
+          const std::size_t y_up = (z * side + (y + 1) % side) * stride;
+          const std::size_t y_down = (z * side + (y + side - 1) % side) * stride;
+          const std::size_t z_up = (((z + 1) % side) * side + y) * stride;
+          const std::size_t z_down = (((z + side - 1) % side) * side + y) * stride;
+          std::uint64_t* s = own + row + 1;
+          const std::uint64_t* x_up = other + row + o + 1;
+          const std::uint64_t* x_down = other + row + o;
+          const std::uint64_t* x_up_b = bond_own + row + 1;
+          const std::uint64_t* x_down_b = bond_other + row + o;
+          const std::uint64_t* y_up_b = bond_own + plane + row + 1;
+          const std::uint64_t* y_down_b = bond_other + plane + y_down + 1;
+          const std::uint64_t* z_up_b = bond_own + 2 * plane + row + 1;
+          const std::uint64_t* z_down_b = bond_other + 2 * plane + z_down + 1;
+          for (std::size_t h = 0; h < padded; h += 8) {
+            const std::uint64_t live = half - h;  // sites of this step inside the row (8 or more: all)
+            board_step<D>(s + h, x_up + h, x_down + h, other + y_up + 1 + h, other + y_down + 1 + h,
+                          other + z_up + 1 + h, other + z_down + 1 + h, x_up_b + h, x_down_b + h, y_up_b + h,
+                          y_down_b + h, z_up_b + h, z_down_b + h, rng.s0, rng.s1, rng.s2, rng.s3, flips, limit, live);
+            if (++pending == 31) {
+              for (std::size_t j = 0; j < 8; ++j) flipped += fold_bytes(flips[j]);
+              for (std::size_t j = 0; j < 8; ++j) flips[j] = 0;
+              pending = 0;
+            }
+          }
+        }
+      }
+      refresh_ghosts(own);
+    }
+    for (std::size_t j = 0; j < 8; ++j) flipped += fold_bytes(flips[j]);
+    accepted_lane_[w] += flipped;
+    site_streams_[w] = rng;
+  }
+
   // Set bits of every byte of v, in that byte (0 .. 8): added over up to 31 sites, then folded.
   SPINWRIGHT_BIT_INLINE static std::uint64_t byte_counts(std::uint64_t v) noexcept {
     v = v - ((v >> 1) & 0x5555555555555555ULL);
@@ -769,13 +1113,17 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     if (sweeps_ == 0 || beta != beta_now_) set_beta(beta);
     // The streams in a local whose address never leaves the inlined site updates, so that
     // they stay in registers across the spin writes.
-    detail::StreamSet<Words> rng = streams_;
-    if (params_.shared_draws) {
-      sweep_sites<true>(rng);
+    if (checkerboard()) {
+      sweep_board();
     } else {
-      sweep_sites<false>(rng);
+      detail::StreamSet<Words> rng = streams_;
+      if (params_.shared_draws) {
+        sweep_sites<true>(rng);
+      } else {
+        sweep_sites<false>(rng);
+      }
+      streams_ = rng;
     }
-    streams_ = rng;
     ++sweeps_;
     const std::uint64_t every = params_.best_every == 0 ? 1 : params_.best_every;
     if (sweeps_ % every != 0 && sweeps_ < schedule_sweeps_) return false;
@@ -815,10 +1163,20 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   Status status_;
   detail::Buffer<std::uint32_t> row_;
   detail::Buffer<std::uint32_t> slots_;
-  detail::Buffer<std::uint64_t> spins_;         // [site][word], site n is the field's fixed +1 spin
+  mutable detail::Buffer<std::uint64_t> spins_;  // [site][word], site n is the field's fixed +1 spin
   mutable detail::Buffer<std::uint64_t> best_;  // [site][word], best state of every restart
   mutable detail::Buffer<std::int8_t> lane_spins_;
   mutable detail::Buffer<std::int64_t> best_unsat_;
+  detail::BitLattice lattice_{};
+  // Checkerboard sweep: the spins of word w, colour c at board_[(2 w + c) plane + row stride +
+  // 1 + h] (row = z side + y, site x = 2 h + ((c + y + z) & 1)), a ghost word either side of a
+  // row (its last and first site); then the bonds: colour c, direction d (x, y, z) at
+  // (2 Words + c dims + d) plane + the same offset, all ones where the bond to the site's + d
+  // neighbour has J > 0. spins_ is brought up to date from it (sync) when it is read.
+  detail::Buffer<std::uint64_t> board_;
+  detail::StreamSet<8> site_streams_[Words]{};
+  BitSlicedUnit unit_ = BitSlicedUnit::plain;
+  mutable bool stale_ = false;  // spins_ behind board_
   detail::StreamSet<Words> streams_{};
   detail::FixedProbability base_[bit_sliced_max_degree + 1]{};
   detail::FixedProbability step_{};
