@@ -376,7 +376,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   /// Its best spins (+1/-1) into out[0 .. n - 1].
   void best_spins(std::size_t k, std::int8_t* out) const noexcept {
     track();
-    copy_lane(best_.data(), k, out);
+    copy_best(k, out);
   }
   /// The current energy of every restart of the group into out[0 .. restarts() - 1] (counts
   /// the unsatisfied bonds: O(bonds) word operations).
@@ -396,7 +396,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   BestView<energy_type> best() const noexcept {
     track();
     const std::size_t k = best_lane();
-    if (valid()) copy_lane(best_.data(), k, lane_spins_.data());
+    if (valid()) copy_best(k, lane_spins_.data());
     return {lane_spins_.data(), lane_spins_.size(), valid() ? best_energy(k) : energy_type{}, best_sweep_};
   }
   std::size_t best_restart() const noexcept {
@@ -405,7 +405,8 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   }
 
 #if !SPINWRIGHT_NO_HEAP
-  /// The best restart as a Solution (energy recomputed from the model).
+  /// The best restart as a Solution (its energy from the counted unsatisfied bonds, which is
+  /// the model's energy of its spins: J (2 unsatisfied - bonds) + offset).
   Solution<energy_type> solution() const { return solution_of(best_lane()); }
   /// Restart k of the group as a Solution; restart = first_restart() + k.
   Solution<energy_type> solution_of(std::size_t k) const {
@@ -413,8 +414,8 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     if (!valid()) return s;
     track();
     s.spins.assign(model_->num_spins(), 1);
-    copy_lane(best_.data(), k, s.spins.data());
-    s.energy = model_->energy(s.spins.data());
+    copy_best(k, s.spins.data());
+    s.energy = energy_of_unsat(best_unsat_[k]);
     s.sweeps = sweeps_;
     s.attempted = sweeps_ * model_->num_spins();
     s.accepted = 0;  // not counted per restart (accepted() counts the whole group)
@@ -535,7 +536,11 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     for (std::size_t w = 0; w < Words; ++w) accepted_lane_[w] = 0;
     for (std::size_t k = 0; k < n * Words; ++k) best_[k] = spins_[k];
     stale_ = false;
-    if (lattice_.dims != 0) load_board();
+    if (lattice_.dims != 0) {
+      load_board();
+      const std::size_t words = 2 * Words * lattice_.plane();
+      for (std::size_t k = 0; k < words; ++k) board_[words + k] = board_[k];
+    }
     std::int64_t unsat[restarts_per_group];
     count_unsatisfied(unsat);
     for (std::size_t k = 0; k < restarts_per_group; ++k) best_unsat_[k] = unsat[k];
@@ -556,11 +561,34 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     return k;
   }
 
+  // Restart k's best spins: from the best words of the board when sweeps run by sublattice.
+  void copy_best(std::size_t k, std::int8_t* out) const noexcept {
+    if (lattice_.dims == 0) {
+      copy_lane(best_.data(), k, out);
+      return;
+    }
+    const std::size_t n = model_->num_spins(), plane = lattice_.plane();
+    const std::size_t w = k / 64;
+    const unsigned bit = static_cast<unsigned>(k % 64);
+    const std::uint64_t* best = board_.data() + 2 * Words * plane + 2 * w * plane;
+    const std::size_t side = lattice_.side, stride = lattice_.stride(), rows = n / side;
+    for (std::size_t r = 0; r < rows; ++r) {  // r = z side + y: site r side + x
+      const std::size_t parity = (r + r / side) & 1u;  // (y + z) & 1
+      const std::uint64_t* row = best + r * stride + 1;
+      std::int8_t* o = out + r * side;
+      for (std::size_t x = 0; x < side; ++x) {
+        const std::size_t colour = (x + parity) & 1u;
+        o[x] = static_cast<std::int8_t>(1 - 2 * static_cast<int>((row[colour * plane + x / 2] >> bit) & 1u));
+      }
+    }
+  }
+
   void copy_lane(const std::uint64_t* words, std::size_t k, std::int8_t* out) const noexcept {
     const std::size_t n = model_->num_spins();
     const std::size_t w = k / 64;
     const unsigned bit = static_cast<unsigned>(k % 64);
-    for (std::size_t i = 0; i < n; ++i) out[i] = ((words[i * Words + w] >> bit) & 1u) ? -1 : 1;
+    for (std::size_t i = 0; i < n; ++i)
+      out[i] = static_cast<std::int8_t>(1 - 2 * static_cast<int>((words[i * Words + w] >> bit) & 1u));
   }
 
   double beta_at_sweep(std::uint64_t k) const noexcept {
@@ -572,7 +600,14 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   // Unsatisfied bonds of every restart: the bonds' words are counted 15 at a time by the
   // bitwise adders into 4 planes, which are added into a counter of `planes_` planes per word.
   void count_unsatisfied(std::int64_t* unsat) const noexcept {
-    sync();
+    if (lattice_.dims == 3) {
+      count_board<6>(unsat);
+      return;
+    }
+    if (lattice_.dims == 2) {
+      count_board<4>(unsat);
+      return;
+    }
     const std::size_t n = model_->num_spins();
     std::uint64_t total[Words][40] = {};
     std::uint64_t batch[Words][15];
@@ -770,7 +805,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     return detail::bit_lattice_of(model);
   }
   static std::size_t board_words(const detail::BitLattice& l) noexcept {
-    return l.dims == 0 ? 0 : (2 * Words + 2 * static_cast<std::size_t>(l.dims)) * l.plane();
+    return l.dims == 0 ? 0 : (4 * Words + 2 * static_cast<std::size_t>(l.dims)) * l.plane();
   }
   // Where site i sits on the board: its colour and its offset within the colour's plane.
   void board_place(std::size_t i, std::size_t& colour, std::size_t& at) const noexcept {
@@ -793,7 +828,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     const Model& m = *model_;
     const std::size_t n = m.num_spins(), side = lattice_.side, plane = lattice_.plane();
     const auto dims = static_cast<std::size_t>(lattice_.dims);
-    std::uint64_t* bonds = board_.data() + 2 * Words * plane;
+    std::uint64_t* bonds = board_.data() + 4 * Words * plane;
     for (std::size_t i = 0; i < n; ++i) {
       const std::size_t x = i % side, y = (i / side) % side, z = i / (side * side);
       const std::size_t up[3] = {i - x + (x + 1) % side, i - y * side + ((y + 1) % side) * side,
@@ -830,6 +865,107 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
       std::size_t colour = 0, at = 0;
       board_place(i, colour, at);
       for (std::size_t w = 0; w < Words; ++w) spins_[i * Words + w] = board_[(2 * w + colour) * plane + at];
+    }
+  }
+
+  // Unsatisfied bonds of every restart from the board: every bond has one end of colour 0, so
+  // the colour-0 sites' bond words, eight sites a step through the same adders, are summed
+  // into bitwise counters per step position (8 planes, emptied every 42 steps into wide ones).
+  template <int D>
+  void count_board(std::int64_t* unsat) const noexcept {
+    const std::size_t side = lattice_.side, half = lattice_.half(), padded = lattice_.padded();
+    const std::size_t stride = lattice_.stride(), plane = lattice_.plane();
+    const std::size_t layers = D == 6 ? side : 1;
+    const std::uint64_t* board = board_.data();
+    const std::uint64_t* bonds = board + 4 * Words * plane;
+    constexpr std::size_t dims = D / 2;
+    for (std::size_t w = 0; w < Words; ++w) {
+      const std::uint64_t* own = board + 2 * w * plane;
+      const std::uint64_t* other = own + plane;
+      std::uint64_t near[8 * 8] = {};   // [plane][position]
+      std::uint64_t wide[40 * 8] = {};  // [plane][position]
+      unsigned pending = 0;
+      auto empty = [&]() {
+        for (std::size_t j = 0; j < 8; ++j) {
+          std::uint64_t carry = 0;
+          for (std::size_t p = 0; p < 40; ++p) {
+            const std::uint64_t x = p < 8 ? near[p * 8 + j] : 0;
+            if (p >= 8 && carry == 0) break;
+            const std::uint64_t t = wide[p * 8 + j];
+            wide[p * 8 + j] = t ^ x ^ carry;
+            carry = (t & x) | (carry & (t ^ x));
+          }
+        }
+        for (std::size_t k = 0; k < 64; ++k) near[k] = 0;
+        pending = 0;
+      };
+      for (std::size_t z = 0; z < layers; ++z) {
+        for (std::size_t y = 0; y < side; ++y) {
+          const std::size_t o = (y + z) & 1u;
+          const std::size_t row = (z * side + y) * stride;
+          const std::size_t y_down = (z * side + (y + side - 1) % side) * stride;
+          const std::size_t z_down = (((z + side - 1) % side) * side + y) * stride;
+          const std::size_t y_up = (z * side + (y + 1) % side) * stride;
+          const std::size_t z_up = (((z + 1) % side) * side + y) * stride;
+          const std::uint64_t* bond_own = bonds;
+          const std::uint64_t* bond_other = bonds + dims * plane;
+          for (std::size_t h = 0; h < padded; h += 8) {
+            board_count_step<D>(own + row + 1 + h, other + row + o + 1 + h, other + row + o + h,
+                                other + y_up + 1 + h, other + y_down + 1 + h, other + z_up + 1 + h,
+                                other + z_down + 1 + h, bond_own + row + 1 + h, bond_other + row + o + h,
+                                bond_own + plane + row + 1 + h, bond_other + plane + y_down + 1 + h,
+                                bond_own + 2 * plane + row + 1 + h, bond_other + 2 * plane + z_down + 1 + h, near,
+                                half - h);
+            if (++pending == 42) empty();
+          }
+        }
+      }
+      empty();
+      for (unsigned b = 0; b < 64; ++b) {
+        std::int64_t c = 0;
+        for (std::size_t p = 0; p < 40; ++p) {
+          std::int64_t bits = 0;
+          for (std::size_t j = 0; j < 8; ++j) bits += static_cast<std::int64_t>((wide[p * 8 + j] >> b) & 1u);
+          c += bits << p;
+        }
+        unsat[w * 64 + b] = c;
+      }
+    }
+  }
+
+  // The count of one step of count_board: the unsatisfied bonds of eight colour-0 sites added
+  // into near[plane][j] (sites j >= live are padding and add nothing).
+  template <int D>
+  SPINWRIGHT_BIT_INLINE static void board_count_step(
+      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT s, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n0,
+      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n1, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n2,
+      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n3, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n4,
+      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n5, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b0,
+      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b1, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b2,
+      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b3, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b4,
+      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b5, std::uint64_t* SPINWRIGHT_BIT_RESTRICT near,
+      std::uint64_t live) noexcept {
+    SPINWRIGHT_BIT_LOOP for (std::size_t j = 0; j < 8; ++j) {
+      const std::uint64_t x = s[j];
+      const std::uint64_t keep = j < live ? ~std::uint64_t{0} : 0;
+      std::uint64_t in[D];
+      in[0] = (n0[j] ^ b0[j] ^ x) & keep;
+      in[1] = (n1[j] ^ b1[j] ^ x) & keep;
+      in[2] = (n2[j] ^ b2[j] ^ x) & keep;
+      in[3] = (n3[j] ^ b3[j] ^ x) & keep;
+      if constexpr (D == 6) {
+        in[4] = (n4[j] ^ b4[j] ^ x) & keep;
+        in[5] = (n5[j] ^ b5[j] ^ x) & keep;
+      }
+      std::uint64_t count[3];
+      detail::count_bits<D>(in, count);
+      std::uint64_t carry = 0;
+      for (std::size_t p = 0; p < 8; ++p) {
+        const std::uint64_t a = near[p * 8 + j];
+        const std::uint64_t x2 = p < 3 ? count[p] : 0;
+        near[p * 8 + j] = a ^ x2 ^ carry;
+        carry = (a & x2) | (carry & (a ^ x2));
+      }
     }
   }
 
@@ -942,7 +1078,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     const std::size_t stride = lattice_.stride(), plane = lattice_.plane();
     const std::size_t layers = D == 6 ? side : 1;
     std::uint64_t* board = board_.data();
-    const std::uint64_t* bonds = board + 2 * Words * plane;
+    const std::uint64_t* bonds = board + 4 * Words * plane;
     detail::StreamSet<8> rng = site_streams_[w];
     std::uint64_t flips[8] = {};
     unsigned pending = 0;
@@ -1150,6 +1286,13 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
         }
       }
       if (improved == 0) continue;
+      if (lattice_.dims != 0) {
+        const std::size_t words = 2 * lattice_.plane();
+        const std::uint64_t* now = board_.data() + w * words;
+        std::uint64_t* best = board_.data() + (Words + w) * words;
+        for (std::size_t x = 0; x < words; ++x) best[x] = (best[x] & ~improved) | (now[x] & improved);
+        continue;
+      }
       for (std::size_t i = 0; i < n; ++i) {
         const std::size_t at = i * Words + w;
         best_[at] = (best_[at] & ~improved) | (spins_[at] & improved);
@@ -1170,10 +1313,11 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   detail::BitLattice lattice_{};
   // Checkerboard sweep: the spins of word w, colour c at board_[(2 w + c) plane + row stride +
   // 1 + h] (row = z side + y, site x = 2 h + ((c + y + z) & 1)), a ghost word either side of a
-  // row (its last and first site); then the bonds: colour c, direction d (x, y, z) at
-  // (2 Words + c dims + d) plane + the same offset, all ones where the bond to the site's + d
-  // neighbour has J > 0. spins_ is brought up to date from it (sync) when it is read.
-  detail::Buffer<std::uint64_t> board_;
+  // row (its last and first site); then the best spins in the same form, (2 Words + 2 w + c)
+  // plane + ...; then the bonds: colour c, direction d (x, y, z) at (4 Words + c dims + d)
+  // plane + the same offset, all ones where the bond to the site's + d neighbour has J > 0.
+  // spins_ is brought up to date from the board (sync) only when a restart's spins are read.
+  mutable detail::Buffer<std::uint64_t> board_;
   detail::StreamSet<8> site_streams_[Words]{};
   BitSlicedUnit unit_ = BitSlicedUnit::plain;
   mutable bool stale_ = false;  // spins_ behind board_
