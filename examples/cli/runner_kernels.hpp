@@ -298,7 +298,9 @@ std::vector<spinwright::Solution<double>> lane_share(const Model& model, const R
 // Bit-sliced annealing of restarts first .. first + count - 1 (first a multiple of 64): one
 // kernel per word of 64 restarts on the threads; restart r's answer depends on (seed, r / 64,
 // r mod 64) only, so any split into whole words gives the same tally. Each restart's best is
-// polished as one_restart's is.
+// polished as one_restart's is. The words run a thread's worth at a time and the closing
+// descents of those words are then dealt to the threads one restart at a time, so that 64
+// restarts (one word) still polish on every thread.
 template <class Model>
 std::vector<spinwright::Solution<double>> bit_sliced_share(const Model& model, const RunOptions& o, std::uint64_t first,
                                                            std::uint64_t count, double b0, double b1, bool shared,
@@ -308,15 +310,27 @@ std::vector<spinwright::Solution<double>> bit_sliced_share(const Model& model, c
   p.shared_draws = shared;
   if (o.schedule.given()) p.schedule = spinwright::Schedule::geometric(b0, b1);
   std::vector<spinwright::Solution<double>> results(static_cast<std::size_t>(count));
-  on_threads(o.threads, (count + 63) / 64, [&](std::uint64_t w) {
-    spinwright::BitSlicedAnnealer<Model, 1> kernel(model, p, o.seed, first / 64 + w);
-    double seconds = 0;
-    const spinwright::StopReason why = kernel.advance(group_budget(o), &seconds);
-    for (std::uint64_t k = 0; k < 64 && 64 * w + k < count; ++k) {
-      results[static_cast<std::size_t>(64 * w + k)] =
-          close_restart(model, o, kernel.solution_of(static_cast<std::size_t>(k)), why, seconds, cut_short);
-    }
-  });
+  const std::uint64_t words = (count + 63) / 64;
+  const std::uint64_t group = o.threads == 0 ? 1 : o.threads;
+  for (std::uint64_t w0 = 0; w0 < words; w0 += group) {
+    const std::uint64_t in_group = std::min<std::uint64_t>(group, words - w0);
+    const std::uint64_t lo = 64 * w0, hi = std::min<std::uint64_t>(count, 64 * (w0 + in_group));
+    std::vector<spinwright::Solution<typename Model::energy_type>> raw(static_cast<std::size_t>(hi - lo));
+    std::vector<spinwright::StopReason> why(static_cast<std::size_t>(in_group));
+    std::vector<double> seconds(static_cast<std::size_t>(in_group), 0.0);
+    on_threads(o.threads, in_group, [&](std::uint64_t g) {
+      spinwright::BitSlicedAnnealer<Model, 1> kernel(model, p, o.seed, first / 64 + w0 + g);
+      why[static_cast<std::size_t>(g)] = kernel.advance(group_budget(o), &seconds[static_cast<std::size_t>(g)]);
+      for (std::uint64_t k = 0; k < 64 && lo + 64 * g + k < hi; ++k) {
+        raw[static_cast<std::size_t>(64 * g + k)] = kernel.solution_of(static_cast<std::size_t>(k));
+      }
+    });
+    on_threads(o.threads, hi - lo, [&](std::uint64_t r) {
+      const auto g = static_cast<std::size_t>(r / 64);
+      results[static_cast<std::size_t>(lo + r)] =
+          close_restart(model, o, std::move(raw[static_cast<std::size_t>(r)]), why[g], seconds[g], cut_short);
+    });
+  }
   return results;
 }
 
