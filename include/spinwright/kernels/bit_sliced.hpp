@@ -805,7 +805,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     return detail::bit_lattice_of(model);
   }
   static std::size_t board_words(const detail::BitLattice& l) noexcept {
-    return l.dims == 0 ? 0 : (4 * Words + 2 * static_cast<std::size_t>(l.dims)) * l.plane();
+    return l.dims == 0 ? 0 : (4 * Words + 2) * l.plane();
   }
   // Where site i sits on the board: its colour and its offset within the colour's plane.
   void board_place(std::size_t i, std::size_t& colour, std::size_t& at) const noexcept {
@@ -824,27 +824,31 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
       row[half + 1] = row[1];
     }
   }
+  // The bond signs: one word per site at the site's board offset in its colour's plane, bit d
+  // set where the bond to neighbour d (+x, -x, +y, -y, +z, -z) has J > 0 (a word, not a byte:
+  // the loops over eight sites then hold one type, which the vectoriser needs).
+  const std::uint64_t* bond_bits() const noexcept { return board_.data() + 4 * Words * lattice_.plane(); }
   void load_bonds() noexcept {
     const Model& m = *model_;
     const std::size_t n = m.num_spins(), side = lattice_.side, plane = lattice_.plane();
-    const auto dims = static_cast<std::size_t>(lattice_.dims);
-    std::uint64_t* bonds = board_.data() + 4 * Words * plane;
+    const std::size_t layer = side * side;
+    std::uint64_t* bits = board_.data() + 4 * Words * plane;
     for (std::size_t i = 0; i < n; ++i) {
-      const std::size_t x = i % side, y = (i / side) % side, z = i / (side * side);
-      const std::size_t up[3] = {i - x + (x + 1) % side, i - y * side + ((y + 1) % side) * side,
-                                 i - z * side * side + ((z + 1) % side) * side * side};
+      const std::size_t x = i % side, y = (i / side) % side, z = i / layer;
+      const std::size_t base_y = i - x, base_z = i - y * side, base = i - z * layer;
+      const std::size_t want[6] = {base_y + (x + 1) % side,          base_y + (x + side - 1) % side,
+                                   base_z + ((y + 1) % side) * side, base_z + ((y + side - 1) % side) * side,
+                                   base + ((z + 1) % side) * layer,  base + ((z + side - 1) % side) * layer};
       std::size_t colour = 0, at = 0;
       board_place(i, colour, at);
-      const auto ii = static_cast<index_type>(i);
-      m.for_each_neighbour(ii, [&](index_type j, value_type v) {
-        for (std::size_t d = 0; d < dims; ++d) {
-          if (static_cast<std::size_t>(j) == up[d]) {
-            bonds[(colour * dims + d) * plane + at] = v > value_type{0} ? ~std::uint64_t{0} : 0;
-          }
+      std::uint64_t b = 0;
+      m.for_each_neighbour(static_cast<index_type>(i), [&](index_type j, value_type v) {
+        for (int d = 0; d < 2 * lattice_.dims; ++d) {
+          if (static_cast<std::size_t>(j) == want[d] && v > value_type{0}) b |= std::uint64_t{1} << d;
         }
       });
+      bits[colour * plane + at] = b;
     }
-    for (std::size_t p = 0; p < 2 * dims; ++p) refresh_ghosts(bonds + p * plane);
   }
   // spins_ -> board_ (after a reset or warm start).
   void load_board() noexcept {
@@ -877,8 +881,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     const std::size_t stride = lattice_.stride(), plane = lattice_.plane();
     const std::size_t layers = D == 6 ? side : 1;
     const std::uint64_t* board = board_.data();
-    const std::uint64_t* bonds = board + 4 * Words * plane;
-    constexpr std::size_t dims = D / 2;
+    const std::uint64_t* bits = bond_bits();
     for (std::size_t w = 0; w < Words; ++w) {
       const std::uint64_t* own = board + 2 * w * plane;
       const std::uint64_t* other = own + plane;
@@ -907,15 +910,10 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
           const std::size_t z_down = (((z + side - 1) % side) * side + y) * stride;
           const std::size_t y_up = (z * side + (y + 1) % side) * stride;
           const std::size_t z_up = (((z + 1) % side) * side + y) * stride;
-          const std::uint64_t* bond_own = bonds;
-          const std::uint64_t* bond_other = bonds + dims * plane;
           for (std::size_t h = 0; h < padded; h += 8) {
             board_count_step<D>(own + row + 1 + h, other + row + o + 1 + h, other + row + o + h,
                                 other + y_up + 1 + h, other + y_down + 1 + h, other + z_up + 1 + h,
-                                other + z_down + 1 + h, bond_own + row + 1 + h, bond_other + row + o + h,
-                                bond_own + plane + row + 1 + h, bond_other + plane + y_down + 1 + h,
-                                bond_own + 2 * plane + row + 1 + h, bond_other + 2 * plane + z_down + 1 + h, near,
-                                half - h);
+                                other + z_down + 1 + h, bits + row + 1 + h, near, half - h);
             if (++pending == 42) empty();
           }
         }
@@ -940,22 +938,20 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
       const std::uint64_t* SPINWRIGHT_BIT_RESTRICT s, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n0,
       const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n1, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n2,
       const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n3, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n4,
-      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n5, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b0,
-      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b1, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b2,
-      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b3, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b4,
-      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b5, std::uint64_t* SPINWRIGHT_BIT_RESTRICT near,
-      std::uint64_t live) noexcept {
+      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n5, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT bits,
+      std::uint64_t* SPINWRIGHT_BIT_RESTRICT near, std::uint64_t live) noexcept {
     SPINWRIGHT_BIT_LOOP for (std::size_t j = 0; j < 8; ++j) {
       const std::uint64_t x = s[j];
       const std::uint64_t keep = j < live ? ~std::uint64_t{0} : 0;
       std::uint64_t in[D];
-      in[0] = (n0[j] ^ b0[j] ^ x) & keep;
-      in[1] = (n1[j] ^ b1[j] ^ x) & keep;
-      in[2] = (n2[j] ^ b2[j] ^ x) & keep;
-      in[3] = (n3[j] ^ b3[j] ^ x) & keep;
+      const std::uint64_t b = bits[j];
+      in[0] = (n0[j] ^ sign(b, 0) ^ x) & keep;
+      in[1] = (n1[j] ^ sign(b, 1) ^ x) & keep;
+      in[2] = (n2[j] ^ sign(b, 2) ^ x) & keep;
+      in[3] = (n3[j] ^ sign(b, 3) ^ x) & keep;
       if constexpr (D == 6) {
-        in[4] = (n4[j] ^ b4[j] ^ x) & keep;
-        in[5] = (n5[j] ^ b5[j] ^ x) & keep;
+        in[4] = (n4[j] ^ sign(b, 4) ^ x) & keep;
+        in[5] = (n5[j] ^ sign(b, 5) ^ x) & keep;
       }
       std::uint64_t count[3];
       detail::count_bits<D>(in, count);
@@ -1001,6 +997,11 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     }
   }
 
+  // All ones where bit d of a site's bond byte is set (that bond has J > 0).
+  SPINWRIGHT_BIT_INLINE static std::uint64_t sign(std::uint64_t bits, unsigned d) noexcept {
+    return std::uint64_t{0} - ((bits >> d) & 1u);
+  }
+
   // Eight sites of one row of one colour: one site per j, plain scalar code over eight sites
   // that the loop vectoriser turns into one (AVX-512) or two (AVX2) vector operations per line
   // (restrict: the spins written, the other colour's spins and the bonds read, the streams and
@@ -1010,10 +1011,8 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
       std::uint64_t* SPINWRIGHT_BIT_RESTRICT s, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n0,
       const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n1, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n2,
       const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n3, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n4,
-      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n5, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b0,
-      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b1, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b2,
-      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b3, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b4,
-      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT b5, std::uint64_t* SPINWRIGHT_BIT_RESTRICT r0,
+      const std::uint64_t* SPINWRIGHT_BIT_RESTRICT n5, const std::uint64_t* SPINWRIGHT_BIT_RESTRICT bits,
+      std::uint64_t* SPINWRIGHT_BIT_RESTRICT r0,
       std::uint64_t* SPINWRIGHT_BIT_RESTRICT r1, std::uint64_t* SPINWRIGHT_BIT_RESTRICT r2,
       std::uint64_t* SPINWRIGHT_BIT_RESTRICT r3, std::uint64_t* SPINWRIGHT_BIT_RESTRICT flips,
       const std::uint64_t* SPINWRIGHT_BIT_RESTRICT limit, std::uint64_t live) noexcept {
@@ -1021,13 +1020,14 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     SPINWRIGHT_BIT_LOOP for (std::size_t j = 0; j < 8; ++j) {
       const std::uint64_t x = s[j];
       std::uint64_t in[D];
-      in[0] = n0[j] ^ b0[j] ^ x;
-      in[1] = n1[j] ^ b1[j] ^ x;
-      in[2] = n2[j] ^ b2[j] ^ x;
-      in[3] = n3[j] ^ b3[j] ^ x;
+      const std::uint64_t bb = bits[j];
+      in[0] = n0[j] ^ sign(bb, 0) ^ x;
+      in[1] = n1[j] ^ sign(bb, 1) ^ x;
+      in[2] = n2[j] ^ sign(bb, 2) ^ x;
+      in[3] = n3[j] ^ sign(bb, 3) ^ x;
       if constexpr (D == 6) {
-        in[4] = n4[j] ^ b4[j] ^ x;
-        in[5] = n5[j] ^ b5[j] ^ x;
+        in[4] = n4[j] ^ sign(bb, 4) ^ x;
+        in[5] = n5[j] ^ sign(bb, 5) ^ x;
       }
       std::uint64_t count[3];
       detail::count_bits<D>(in, count);
@@ -1078,7 +1078,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     const std::size_t stride = lattice_.stride(), plane = lattice_.plane();
     const std::size_t layers = D == 6 ? side : 1;
     std::uint64_t* board = board_.data();
-    const std::uint64_t* bonds = board + 4 * Words * plane;
+    const std::uint64_t* bits = bond_bits();
     detail::StreamSet<8> rng = site_streams_[w];
     std::uint64_t flips[8] = {};
     unsigned pending = 0;
@@ -1089,8 +1089,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     for (std::size_t c = 0; c < 2; ++c) {
       std::uint64_t* own = board + (2 * w + c) * plane;
       const std::uint64_t* other = board + (2 * w + 1 - c) * plane;
-      const std::uint64_t* bond_own = bonds + c * dims * plane;
-      const std::uint64_t* bond_other = bonds + (1 - c) * dims * plane;
+      const std::uint64_t* bits_own = bits + c * plane;
       for (std::size_t z = 0; z < layers; ++z) {
         for (std::size_t y = 0; y < side; ++y) {
           const std::size_t o = (c + y + z) & 1u;
@@ -1102,17 +1101,11 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
           std::uint64_t* s = own + row + 1;
           const std::uint64_t* x_up = other + row + o + 1;
           const std::uint64_t* x_down = other + row + o;
-          const std::uint64_t* x_up_b = bond_own + row + 1;
-          const std::uint64_t* x_down_b = bond_other + row + o;
-          const std::uint64_t* y_up_b = bond_own + plane + row + 1;
-          const std::uint64_t* y_down_b = bond_other + plane + y_down + 1;
-          const std::uint64_t* z_up_b = bond_own + 2 * plane + row + 1;
-          const std::uint64_t* z_down_b = bond_other + 2 * plane + z_down + 1;
           for (std::size_t h = 0; h < padded; h += 8) {
             const std::uint64_t live = half - h;  // sites of this step inside the row (8 or more: all)
             board_step<D>(s + h, x_up + h, x_down + h, other + y_up + 1 + h, other + y_down + 1 + h,
-                          other + z_up + 1 + h, other + z_down + 1 + h, x_up_b + h, x_down_b + h, y_up_b + h,
-                          y_down_b + h, z_up_b + h, z_down_b + h, rng.s0, rng.s1, rng.s2, rng.s3, flips, limit, live);
+                          other + z_up + 1 + h, other + z_down + 1 + h, bits_own + row + 1 + h, rng.s0, rng.s1,
+                          rng.s2, rng.s3, flips, limit, live);
             if (++pending == 31) {
               for (std::size_t j = 0; j < 8; ++j) flipped += fold_bytes(flips[j]);
               for (std::size_t j = 0; j < 8; ++j) flips[j] = 0;
@@ -1314,8 +1307,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   // Checkerboard sweep: the spins of word w, colour c at board_[(2 w + c) plane + row stride +
   // 1 + h] (row = z side + y, site x = 2 h + ((c + y + z) & 1)), a ghost word either side of a
   // row (its last and first site); then the best spins in the same form, (2 Words + 2 w + c)
-  // plane + ...; then the bonds: colour c, direction d (x, y, z) at (4 Words + c dims + d)
-  // plane + the same offset, all ones where the bond to the site's + d neighbour has J > 0.
+  // plane + ...; then the bond signs, one word per site (bond_bits).
   // spins_ is brought up to date from the board (sync) only when a restart's spins are read.
   mutable detail::Buffer<std::uint64_t> board_;
   detail::StreamSet<8> site_streams_[Words]{};
