@@ -2,7 +2,9 @@
 // +-J, fields 0 or +-J, at most 15 neighbours a spin: 64 restarts per 64-bit word (restart k of a
 // word is bit k), Words words per site advanced together, unsatisfied bonds counted by bitwise
 // full adders, Metropolis acceptance from one uniform per word and site shared by its 64
-// restarts (default) or from independent random bits per restart, sequential sweeps.
+// restarts (default) or from independent random bits per restart, sequential sweeps; with
+// shared draws, even periodic square and cubic lattices are swept by sublattice, eight sites
+// per vector step (BitSlicedParams::checkerboard).
 // bit_sliced_fits(model) says whether a model qualifies; the method: docs/kernels.md ("Bit-sliced").
 #ifndef SPINWRIGHT_KERNELS_BIT_SLICED_HPP
 #define SPINWRIGHT_KERNELS_BIT_SLICED_HPP
