@@ -1,6 +1,7 @@
 // spinwright — bitwise adders for the bit-sliced kernel: 64 independent counters side by side,
 // one per bit of a word. count_bits<D> sums D one-bit words into the planes of a binary count
-// (full adders over the inputs); at_most() compares such a count with a constant, bit by bit.
+// (full adders over the inputs; hand-built trees for exactly 4 and 6); at_most() compares such
+// a count with a constant, bit by bit.
 // Used by kernels/bit_sliced.hpp; the method is described in docs/kernels.md ("Bit-sliced").
 #ifndef SPINWRIGHT_KERNELS_DETAIL_BIT_COUNT_HPP
 #define SPINWRIGHT_KERNELS_DETAIL_BIT_COUNT_HPP
