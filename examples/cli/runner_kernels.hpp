@@ -20,12 +20,14 @@
 #include <spinwright/kernels/quantum_anneal.hpp>
 #include <spinwright/kernels/tabu.hpp>
 #include <spinwright/kernels/temper.hpp>
+#include <spinwright/parallel/bit_sliced_restarts.hpp>
 #include <spinwright/parallel/exact_threads.hpp>
 #include <spinwright/parallel/restarts.hpp>
 
 #include <algorithm>  // std::max, std::min
 #include <atomic>     // std::atomic
 #include <cmath>      // std::ceil, std::log, std::isfinite
+#include <memory>     // std::unique_ptr
 #include <limits>     // std::numeric_limits
 #include <thread>     // std::thread
 #include <vector>     // std::vector
@@ -298,7 +300,8 @@ std::vector<spinwright::Solution<double>> lane_share(const Model& model, const R
 // Bit-sliced annealing of restarts first .. first + count - 1 (first a multiple of 64): one
 // kernel per word of 64 restarts on the threads; restart r's answer depends on (seed, r / 64,
 // r mod 64) only, so any split into whole words gives the same tally. Each restart's best is
-// polished as one_restart's is. The words run a thread's worth at a time and the closing
+// polished as one_restart's is. A lone word (64 restarts or fewer) on several threads shares
+// its half-sweeps among them (checkerboard). The words run a thread's worth at a time and the closing
 // descents of those words are then dealt to the threads one restart at a time, so that 64
 // restarts (one word) still polish on every thread.
 template <class Model>
@@ -320,7 +323,15 @@ std::vector<spinwright::Solution<double>> bit_sliced_share(const Model& model, c
     std::vector<double> seconds(static_cast<std::size_t>(in_group), 0.0);
     on_threads(o.threads, in_group, [&](std::uint64_t g) {
       spinwright::BitSlicedAnnealer<Model, 1> kernel(model, p, o.seed, first / 64 + w0 + g);
+      // A lone word on several threads: its half-sweeps are shared by all of them.
+      std::unique_ptr<spinwright::BitSlicedThreadTeam> team;
+      if (in_group == 1 && o.threads > 1 && kernel.checkerboard()) {
+        team = std::make_unique<spinwright::BitSlicedThreadTeam>(o.threads);
+        kernel.set_team(team.get());
+      }
       why[static_cast<std::size_t>(g)] = kernel.advance(group_budget(o), &seconds[static_cast<std::size_t>(g)]);
+      kernel.set_team(nullptr);
+      team.reset();
       for (std::uint64_t k = 0; k < 64 && lo + 64 * g + k < hi; ++k) {
         raw[static_cast<std::size_t>(64 * g + k)] = kernel.solution_of(static_cast<std::size_t>(k));
       }

@@ -330,6 +330,29 @@ TEST_CASE("the checkerboard sweep: which models take it, energies, counts, words
       }
       CHECK(on.accepted() == wide.accepted());
     }
+    // A team sharing the half-sweeps (two and three threads) gives the same run, and so does
+    // the one-call function on one, two and three threads.
+    for (const unsigned parts : {2u, 3u}) {
+      BitSlicedThreadTeam team(parts);
+      BitSlicedAnnealer<Model, 2> shared(*m, p, 11, 0);
+      shared.set_team(&team);
+      shared.advance();
+      shared.set_team(nullptr);
+      for (std::size_t k = 0; k < 128; ++k) {
+        shared.current_spins(k, x.data());
+        wide.current_spins(k, y.data());
+        REQUIRE(x == y);
+        CHECK(shared.best_energy(k) == wide.best_energy(k));
+      }
+      CHECK(shared.accepted() == wide.accepted());
+    }
+    const auto t1 = anneal_bit_sliced(*m, p, 13, 50, 1);
+    for (const unsigned threads : {2u, 3u}) {
+      const auto tn = anneal_bit_sliced(*m, p, 13, 50, threads);
+      REQUIRE(tn.ok());
+      CHECK(tn->energies() == t1->energies());
+      CHECK(tn->best().spins == t1->best().spins);
+    }
     // A warm start puts every restart of the board in the given state.
     BitSlicedParams warm = p;
     const std::vector<std::int8_t> up(m->num_spins(), 1);

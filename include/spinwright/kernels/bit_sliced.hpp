@@ -51,7 +51,7 @@ struct BitSlicedParams {
   // periodic cubic lattice (sites numbered as problems/lattice.hpp does, L even and at least 4,
   // no fields) is swept by sublattice: every site of one colour (x + y + z even), then every
   // site of the other, eight sites per step with one uniform each from eight streams per word
-  // (bit_sliced_site_stream). Faster than the sequential sweep, and different draws; false: the
+  // of each block of rows (bit_sliced_site_stream). Faster than the sequential sweep, and different draws; false: the
   // sequential sweep for every model.
   bool checkerboard = true;
 };
@@ -73,11 +73,24 @@ inline BitSlicedUnit bit_sliced_best_unit() noexcept {
 }
 
 /// The restart index r of Xoshiro256::for_restart(seed, r) of stream g (0 .. 7) of the eight
-/// that give the checkerboard sweep of 64-bit word `word` its uniforms: 2^63 + (g + 1) 2^48 +
-/// word (distinct from every bit_sliced_stream for words below 2^48).
-constexpr std::uint64_t bit_sliced_site_stream(std::uint64_t word, std::uint64_t g) noexcept {
-  return (std::uint64_t{1} << 63) | ((g + 1) << 48) | word;
+/// that give block `block` of the checkerboard sweep of 64-bit word `word` its uniforms (a
+/// block is one z layer of a cubic lattice, one row of a square one): 2^63 + (8 block + g + 1)
+/// 2^40 + word (distinct from every bit_sliced_stream for words below 2^40, blocks below 2^20).
+constexpr std::uint64_t bit_sliced_site_stream(std::uint64_t word, std::uint64_t block, std::uint64_t g) noexcept {
+  return (std::uint64_t{1} << 63) | ((8 * block + g + 1) << 40) | word;
 }
+
+/// Helpers that share each half-sweep of the checkerboard (BitSlicedAnnealer::set_team; one
+/// on threads: parallel/bit_sliced_restarts.hpp). The blocks of a colour are split into
+/// parts() contiguous ranges; each block has its own streams, so the answer does not depend
+/// on the number of parts.
+struct BitSlicedTeam {
+  virtual ~BitSlicedTeam() = default;
+  virtual unsigned parts() const noexcept = 0;
+  /// Calls work(context, p) once for every p in 0 .. parts() - 1, on any threads, and returns
+  /// when every call has returned.
+  virtual void run(void (*work)(void*, unsigned), void* context) noexcept = 0;
+};
 
 /// Whether the bit-sliced kernel takes `model`: an Ising model whose couplings all have one
 /// magnitude J, whose fields are 0 or +-J, and whose spins have at most bit_sliced_max_degree
@@ -294,7 +307,8 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
         lane_spins_(status_.ok() ? model.num_spins() : 0, 1),
         best_unsat_(status_.ok() ? restarts_per_group : 0, 0),
         lattice_(lattice_for(model, params, status_)),
-        board_(board_words(lattice_), 0) {
+        board_(board_words(lattice_), 0),
+        block_streams_(lattice_.dims != 0 ? Words * lattice_.side : 0) {
     if (valid()) init(seed, first_word);
   }
 #endif
@@ -312,7 +326,8 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
         lane_spins_(status_.ok() ? model.num_spins() : 0, arena, 1),
         best_unsat_(status_.ok() ? restarts_per_group : 0, arena, 0),
         lattice_(lattice_for(model, params, status_)),
-        board_(board_words(lattice_), arena, 0) {
+        board_(board_words(lattice_), arena, 0),
+        block_streams_(lattice_.dims != 0 ? Words * lattice_.side : 0, arena) {
     if (valid()) init(seed, first_word);
   }
 
@@ -322,13 +337,16 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     return arena_bytes<std::uint32_t>(n + 1) + arena_bytes<std::uint32_t>(count_slots(model)) +
            arena_bytes<std::uint64_t>((n + 1) * Words) + arena_bytes<std::uint64_t>(n * Words) +
            arena_bytes<std::int8_t>(n) + arena_bytes<std::int64_t>(restarts_per_group) +
-           arena_bytes<std::uint64_t>(board_words(lattice_for(model, params, bit_sliced_fits(model))));
+           arena_bytes<std::uint64_t>(board_words(lattice_for(model, params, bit_sliced_fits(model)))) +
+           arena_bytes<detail::StreamSet<8>>(lattice_for(model, params, bit_sliced_fits(model)).dims != 0
+                                                 ? Words * lattice_for(model, params, bit_sliced_fits(model)).side
+                                                 : 0);
   }
 
   /// False when the model does not qualify (status()) or an arena was too small.
   bool valid() const noexcept {
     return status_.ok() && row_.valid() && slots_.valid() && spins_.valid() && best_.valid() && lane_spins_.valid() &&
-           best_unsat_.valid() && board_.valid();
+           best_unsat_.valid() && board_.valid() && block_streams_.valid();
   }
 
   /// Whether sweeps run by sublattice (BitSlicedParams::checkerboard, shared draws, a periodic
@@ -336,6 +354,9 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   /// change, when this CPU or build lacks it). Every unit gives the same answer.
   bool checkerboard() const noexcept { return lattice_.dims != 0 && params_.shared_draws; }
   BitSlicedUnit unit() const noexcept { return unit_; }
+  /// Share each half-sweep of the checkerboard with a team (nullptr: none); the answer is the
+  /// same with any team. The team must outlive the sweeps it is used for.
+  void set_team(BitSlicedTeam* team) noexcept { team_ = team; }
   bool set_unit(BitSlicedUnit unit) noexcept {
     const BitSlicedUnit best = bit_sliced_best_unit();
     if (static_cast<int>(unit) > static_cast<int>(best)) return false;
@@ -527,7 +548,11 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     for (std::size_t w = 0; w < Words; ++w) {
       streams_.seed_lane(w, seed, bit_sliced_stream(first_word + w));
       if (lattice_.dims != 0) {
-        for (std::size_t g = 0; g < 8; ++g) site_streams_[w].seed_lane(g, seed, bit_sliced_site_stream(first_word + w, g));
+        for (std::size_t b = 0; b < lattice_.side; ++b) {
+          for (std::size_t g = 0; g < 8; ++g) {
+            block_streams_[w * lattice_.side + b].seed_lane(g, seed, bit_sliced_site_stream(first_word + w, b, g));
+          }
+        }
       }
     }
   }
@@ -967,36 +992,63 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     }
   }
 
+  struct TeamCall {
+    BitSlicedAnnealer* self;
+    std::size_t word, colour;
+    unsigned parts;
+    std::uint64_t flipped[64];
+  };
+  static void team_work(void* context, unsigned p) noexcept {
+    auto* call = static_cast<TeamCall*>(context);
+    const std::size_t blocks = call->self->lattice_.side;
+    call->flipped[p] = call->self->sweep_part(call->word, call->colour, blocks * p / call->parts,
+                                              blocks * (p + 1) / call->parts);
+  }
+
   void sweep_board() noexcept {
-    switch (unit_) {
-#if SPINWRIGHT_BIT_DISPATCH
-      case BitSlicedUnit::avx512:
-        sweep_board_avx512();
-        break;
-      case BitSlicedUnit::avx2:
-        sweep_board_avx2();
-        break;
-#endif
-      default:
-        sweep_board_any();
-        break;
+    const std::size_t blocks = lattice_.side;
+    unsigned parts = team_ != nullptr ? team_->parts() : 1;
+    if (parts > 64) parts = 64;
+    if (parts > blocks) parts = static_cast<unsigned>(blocks);
+    for (std::size_t w = 0; w < Words; ++w) {
+      for (std::size_t c = 0; c < 2; ++c) {
+        if (parts > 1 && team_->parts() == parts) {
+          TeamCall call{this, w, c, parts, {}};
+          team_->run(&team_work, &call);
+          for (unsigned p = 0; p < parts; ++p) accepted_lane_[w] += call.flipped[p];
+        } else {
+          accepted_lane_[w] += sweep_part(w, c, 0, blocks);
+        }
+      }
     }
     stale_ = true;
   }
+  // Blocks b0 .. b1 - 1 of colour c of word w on the chosen unit; the flips made.
+  std::uint64_t sweep_part(std::size_t w, std::size_t c, std::size_t b0, std::size_t b1) noexcept {
+    switch (unit_) {
 #if SPINWRIGHT_BIT_DISPATCH
-  __attribute__((target("avx2"))) void sweep_board_avx2() noexcept { sweep_board_any(); }
-  __attribute__((target("avx2,avx512f,avx512bw,avx512vl,avx512dq"))) void sweep_board_avx512() noexcept {
-    sweep_board_any();
+      case BitSlicedUnit::avx512:
+        return sweep_part_avx512(w, c, b0, b1);
+      case BitSlicedUnit::avx2:
+        return sweep_part_avx2(w, c, b0, b1);
+#endif
+      default:
+        return sweep_part_any(w, c, b0, b1);
+    }
+  }
+#if SPINWRIGHT_BIT_DISPATCH
+  __attribute__((target("avx2"))) std::uint64_t sweep_part_avx2(std::size_t w, std::size_t c, std::size_t b0,
+                                                                std::size_t b1) noexcept {
+    return sweep_part_any(w, c, b0, b1);
+  }
+  __attribute__((target("avx2,avx512f,avx512bw,avx512vl,avx512dq"))) std::uint64_t sweep_part_avx512(
+      std::size_t w, std::size_t c, std::size_t b0, std::size_t b1) noexcept {
+    return sweep_part_any(w, c, b0, b1);
   }
 #endif
-  SPINWRIGHT_BIT_INLINE void sweep_board_any() noexcept {
-    for (std::size_t w = 0; w < Words; ++w) {
-      if (lattice_.dims == 3) {
-        sweep_board_word<6>(w);
-      } else {
-        sweep_board_word<4>(w);
-      }
-    }
+  SPINWRIGHT_BIT_INLINE std::uint64_t sweep_part_any(std::size_t w, std::size_t c, std::size_t b0,
+                                                     std::size_t b1) noexcept {
+    return lattice_.dims == 3 ? sweep_blocks<6>(w, c, b0, b1) : sweep_blocks<4>(w, c, b0, b1);
   }
 
   // All ones where bit d of a site's bond byte is set (that bond has J > 0).
@@ -1065,62 +1117,64 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     }
   }
 
-  // One sweep of word w by sublattice: colour 0 then colour 1, each row of a colour in steps
+  // Blocks b0 .. b1 - 1 (z layers of a cubic lattice, rows of a square one) of colour c of word
+  // w; a sweep is colour 0 then colour 1, each row of a colour in steps
   // of eight sites (the row padded to a multiple of eight; padding sites are computed and never
   // flipped). Every site of a colour has its 2 dims neighbours in the other colour; the y and z
   // neighbours sit at the same offset in the neighbouring rows, the x neighbours one word left
   // or right depending on the row's parity (the ghost words close the ring). Site h of a step
-  // takes the next uniform u of stream h mod 8 (every stream moves once a step) and the rule
+  // takes the next uniform u of stream h mod 8 of its block (every stream moves once a step) and the rule
   // of update_site_shared: with k of D bonds unsatisfied, flipped for k > D / 2, for k = D / 2
   // when u's top bit is 0, for k < D / 2 when u / 2 < threshold_[D - 2 k].
   template <int D>
-  SPINWRIGHT_BIT_INLINE void sweep_board_word(std::size_t w) noexcept {
+  SPINWRIGHT_BIT_INLINE std::uint64_t sweep_blocks(std::size_t w, std::size_t c, std::size_t b0,
+                                                   std::size_t b1) noexcept {
     constexpr std::size_t dims = D / 2;
     const std::size_t side = lattice_.side, half = lattice_.half(), padded = lattice_.padded();
     const std::size_t stride = lattice_.stride(), plane = lattice_.plane();
-    const std::size_t layers = D == 6 ? side : 1;
+    const std::size_t rows_per_block = D == 6 ? side : 1;
     std::uint64_t* board = board_.data();
     const std::uint64_t* bits = bond_bits();
-    detail::StreamSet<8> rng = site_streams_[w];
     std::uint64_t flips[8] = {};
     unsigned pending = 0;
     std::uint64_t flipped = 0;
     // Thresholds of the rises 2 J m for the levels k = 0 .. D / 2 - 1 (m = D - 2 k).
     std::uint64_t limit[dims];
     for (std::size_t k = 0; k < dims; ++k) limit[k] = threshold_[D - 2 * k];
-    for (std::size_t c = 0; c < 2; ++c) {
-      std::uint64_t* own = board + (2 * w + c) * plane;
-      const std::uint64_t* other = board + (2 * w + 1 - c) * plane;
-      const std::uint64_t* bits_own = bits + c * plane;
-      for (std::size_t z = 0; z < layers; ++z) {
-        for (std::size_t y = 0; y < side; ++y) {
-          const std::size_t o = (c + y + z) & 1u;
-          const std::size_t row = (z * side + y) * stride;
-          const std::size_t y_up = (z * side + (y + 1) % side) * stride;
-          const std::size_t y_down = (z * side + (y + side - 1) % side) * stride;
-          const std::size_t z_up = (((z + 1) % side) * side + y) * stride;
-          const std::size_t z_down = (((z + side - 1) % side) * side + y) * stride;
-          std::uint64_t* s = own + row + 1;
-          const std::uint64_t* x_up = other + row + o + 1;
-          const std::uint64_t* x_down = other + row + o;
-          for (std::size_t h = 0; h < padded; h += 8) {
-            const std::uint64_t live = half - h;  // sites of this step inside the row (8 or more: all)
-            board_step<D>(s + h, x_up + h, x_down + h, other + y_up + 1 + h, other + y_down + 1 + h,
-                          other + z_up + 1 + h, other + z_down + 1 + h, bits_own + row + 1 + h, rng.s0, rng.s1,
-                          rng.s2, rng.s3, flips, limit, live);
-            if (++pending == 31) {
-              for (std::size_t j = 0; j < 8; ++j) flipped += fold_bytes(flips[j]);
-              for (std::size_t j = 0; j < 8; ++j) flips[j] = 0;
-              pending = 0;
-            }
+    std::uint64_t* own = board + (2 * w + c) * plane;
+    const std::uint64_t* other = board + (2 * w + 1 - c) * plane;
+    const std::uint64_t* bits_own = bits + c * plane;
+    for (std::size_t b = b0; b < b1; ++b) {
+      detail::StreamSet<8> rng = block_streams_[w * side + b];
+      for (std::size_t r = b * rows_per_block; r < (b + 1) * rows_per_block; ++r) {
+        const std::size_t z = r / side, y = r % side;
+        const std::size_t o = (c + y + z) & 1u;
+        const std::size_t row = r * stride;
+        const std::size_t y_up = (z * side + (y + 1) % side) * stride;
+        const std::size_t y_down = (z * side + (y + side - 1) % side) * stride;
+        const std::size_t z_up = (((z + 1) % side) * side + y) * stride;
+        const std::size_t z_down = (((z + side - 1) % side) * side + y) * stride;
+        std::uint64_t* s = own + row + 1;
+        const std::uint64_t* x_up = other + row + o + 1;
+        const std::uint64_t* x_down = other + row + o;
+        for (std::size_t h = 0; h < padded; h += 8) {
+          const std::uint64_t live = half - h;  // sites of this step inside the row (8 or more: all)
+          board_step<D>(s + h, x_up + h, x_down + h, other + y_up + 1 + h, other + y_down + 1 + h,
+                        other + z_up + 1 + h, other + z_down + 1 + h, bits_own + row + 1 + h, rng.s0, rng.s1,
+                        rng.s2, rng.s3, flips, limit, live);
+          if (++pending == 31) {
+            for (std::size_t j = 0; j < 8; ++j) flipped += fold_bytes(flips[j]);
+            for (std::size_t j = 0; j < 8; ++j) flips[j] = 0;
+            pending = 0;
           }
         }
+        s[-1] = s[half - 1];  // the row's ghost words (read by the other colour only)
+        s[half] = s[0];
       }
-      refresh_ghosts(own);
+      block_streams_[w * side + b] = rng;
     }
     for (std::size_t j = 0; j < 8; ++j) flipped += fold_bytes(flips[j]);
-    accepted_lane_[w] += flipped;
-    site_streams_[w] = rng;
+    return flipped;
   }
 
   // Set bits of every byte of v, in that byte (0 .. 8): added over up to 31 sites, then folded.
@@ -1312,7 +1366,8 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   // plane + ...; then the bond signs, one word per site (bond_bits).
   // spins_ is brought up to date from the board (sync) only when a restart's spins are read.
   mutable detail::Buffer<std::uint64_t> board_;
-  detail::StreamSet<8> site_streams_[Words]{};
+  detail::Buffer<detail::StreamSet<8>> block_streams_;  // [word][block]
+  BitSlicedTeam* team_ = nullptr;
   BitSlicedUnit unit_ = BitSlicedUnit::plain;
   mutable bool stale_ = false;  // spins_ behind board_
   detail::StreamSet<Words> streams_{};
