@@ -627,12 +627,8 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   // Unsatisfied bonds of every restart: the bonds' words are counted 15 at a time by the
   // bitwise adders into 4 planes, which are added into a counter of `planes_` planes per word.
   void count_unsatisfied(std::int64_t* unsat) const noexcept {
-    if (lattice_.dims == 3) {
-      count_board<6>(unsat);
-      return;
-    }
-    if (lattice_.dims == 2) {
-      count_board<4>(unsat);
+    if (lattice_.dims != 0) {
+      count_board_on_unit(unsat);
       return;
     }
     const std::size_t n = model_->num_spins();
@@ -899,11 +895,41 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     }
   }
 
+  void count_board_on_unit(std::int64_t* unsat) const noexcept {
+    switch (unit_) {
+#if SPINWRIGHT_BIT_DISPATCH
+      case BitSlicedUnit::avx512:
+        count_board_avx512(unsat);
+        break;
+      case BitSlicedUnit::avx2:
+        count_board_avx2(unsat);
+        break;
+#endif
+      default:
+        count_board_any(unsat);
+        break;
+    }
+  }
+#if SPINWRIGHT_BIT_DISPATCH
+  __attribute__((target("avx2"))) void count_board_avx2(std::int64_t* unsat) const noexcept { count_board_any(unsat); }
+  __attribute__((target("avx2,avx512f,avx512bw,avx512vl,avx512dq"))) void count_board_avx512(
+      std::int64_t* unsat) const noexcept {
+    count_board_any(unsat);
+  }
+#endif
+  SPINWRIGHT_BIT_INLINE void count_board_any(std::int64_t* unsat) const noexcept {
+    if (lattice_.dims == 3) {
+      count_board<6>(unsat);
+    } else {
+      count_board<4>(unsat);
+    }
+  }
+
   // Unsatisfied bonds of every restart from the board: every bond has one end of colour 0, so
   // the colour-0 sites' bond words, eight sites a step through the same adders, are summed
   // into bitwise counters per step position (8 planes, emptied every 42 steps into wide ones).
   template <int D>
-  void count_board(std::int64_t* unsat) const noexcept {
+  SPINWRIGHT_BIT_INLINE void count_board(std::int64_t* unsat) const noexcept {
     const std::size_t side = lattice_.side, half = lattice_.half(), padded = lattice_.padded();
     const std::size_t stride = lattice_.stride(), plane = lattice_.plane();
     const std::size_t layers = D == 6 ? side : 1;
