@@ -327,6 +327,7 @@ TEST_CASE("the checkerboard sweep: which models take it, energies, counts, words
         on.current_spins(k, x.data());
         wide.current_spins(k, y.data());
         REQUIRE(x == y);
+        CHECK(on.best_energy(k) == wide.best_energy(k));  // counted on that unit too
       }
       CHECK(on.accepted() == wide.accepted());
     }
