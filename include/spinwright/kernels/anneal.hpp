@@ -12,6 +12,7 @@
 #include "../rng/xoshiro.hpp"
 #include "../state/spin_state.hpp"
 #include "detail/drive.hpp"
+#include "detail/flip_loop.hpp"
 #include "detail/hazard_sweep.hpp"
 #include "acceptance.hpp"
 #include "beta_span.hpp"
@@ -303,6 +304,7 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
       const std::int8_t* spins = state_.spins();
       const energy_type* fields = state_.local_fields();
       const auto n = static_cast<std::uint32_t>(m);
+      detail::FlipLoop<Model> flips(state_);  // the flips with the arrays in registers
       auto visit = [&](std::uint32_t i) {
         const auto ii = static_cast<typename Model::index_type>(i);
         energy_type d;
@@ -312,7 +314,7 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
           d = spins[i] * fields[i];
         }
         if (acceptor.accept(d, rng)) {
-          state_.flip_with_delta(ii, d);
+          flips.flip(ii, d);
           ++accepted;
         }
       };
@@ -331,13 +333,14 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
             if (acceptor.accept(d, rng)) break;
           }
           if (i >= n) break;
-          state_.flip_with_delta(static_cast<typename Model::index_type>(i), d);
+          flips.flip(static_cast<typename Model::index_type>(i), d);
           ++accepted;
           ++i;
         }
       } else {
         for (std::uint32_t k = 0; k < n; ++k) visit(rng.below(n));
       }
+      flips.finish();
     } else {
       for (std::size_t k = 0; k < m; ++k) {
         const auto p = move_.propose(state_, rng);
