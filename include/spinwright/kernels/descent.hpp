@@ -55,8 +55,8 @@ class Descender : public detail::Drive<Descender<Model, Move>> {
       : Descender(model, params, Move{}, seed, restart) {}
 
   Descender(const Model& model, const DescentParams& params, Move move, std::uint64_t seed, std::uint64_t restart = 0)
-      : model_(&model), rule_(params.rule), state_(model), move_(std::move(move)) {
-    init(params, seed, restart);
+      : model_(&model), rule_(params.rule), state_(model, DeferredStart{}), move_(std::move(move)) {
+    init(params, seed, restart);  // the start (random or given spins) computes the fields once
   }
 #endif
 
@@ -67,7 +67,7 @@ class Descender : public detail::Drive<Descender<Model, Move>> {
 
   Descender(const Model& model, const DescentParams& params, Move move, Arena& arena, std::uint64_t seed,
             std::uint64_t restart = 0)
-      : model_(&model), rule_(params.rule), state_(model, arena), move_(std::move(move)) {
+      : model_(&model), rule_(params.rule), state_(model, arena, DeferredStart{}), move_(std::move(move)) {
     if (valid()) init(params, seed, restart);
   }
 
