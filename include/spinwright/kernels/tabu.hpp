@@ -33,10 +33,10 @@ namespace spinwright {
 //              move; the constants are from memory;
 //   by_density (the default): hundredth on dense models (pair density >= tabu_dense_threshold,
 //              or a DenseModel), tenth otherwise. Measured (docs/quality.md, "Tabu tenure"):
-//              hundredth reached the bqp and Billionnet-Elloumi reference values 2-10 times
-//              sooner (bqp500: 69 of 69 runs within 0.09 s, against 68 within 2 s), while on
-//              the sparse G-set graphs it stayed about 4 % below tenth at 500 sweeps and never
-//              reached G11's best cut, which tenth does in 0.06 s.
+//              on the bqp and Billionnet-Elloumi instances hundredth reached the reference value
+//              in all 69 runs within 0.09 s (tenth: 68 of 69 within 2 s; median times on bqp250
+//              1.6-11 times shorter), while on the sparse G-set graphs it stayed about 4 % below
+//              tenth at 500 sweeps and never reached G11's best cut, which tenth does in 0.06 s.
 enum class TabuTenure : std::uint8_t { by_density, tenth, hundredth };
 
 // Pair density (pairs / (N (N - 1) / 2)) from which TabuTenure::by_density takes hundredth:
