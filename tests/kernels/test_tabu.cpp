@@ -269,3 +269,54 @@ TEST_CASE("tabu trajectory: re-flips inside the tenure only at new bests, shorte
     if (n == 24) CHECK(inside > 0);
   }
 }
+
+// The automatic tenures (TabuTenure, kernels/tabu.hpp), drawn once per cycle: tenth is
+// max(N / 10, min(N / 4, 10)) plus [0, that / 2]; hundredth is N / 100 plus [1, 10]; by_density
+// (the default) is hundredth from pair density 0.08 on, tenth below. Over many cycles every
+// draw lies in its range and both ends are drawn; an explicit spread overrides the rule's, an
+// explicit tenure overrides both.
+TEST_CASE("automatic tabu tenures: the two rules and their ranges") {
+  Xoshiro256 rng(3);
+  const auto q = random_qubo<std::int32_t>(1000, 3000, rng);
+  struct Case {
+    TabuTenure rule;
+    std::size_t spread;
+    std::size_t low, high;
+  };
+  for (const Case c : {Case{TabuTenure::tenth, 0, 100, 150}, Case{TabuTenure::hundredth, 0, 11, 20},
+                       Case{TabuTenure::hundredth, 4, 11, 15}, Case{TabuTenure::by_density, 0, 100, 150}}) {
+    TabuParams p;
+    p.tenure_rule = c.rule;
+    p.tenure_spread = c.spread;
+    TabuWalker<QuboModel<std::int32_t>> t(q, p, 5);
+    std::size_t lo = t.tenure();
+    std::size_t hi = t.tenure();
+    for (int k = 0; k < 400; ++k) {
+      t.new_cycle();
+      CHECK(t.tenure() >= c.low);
+      CHECK(t.tenure() <= c.high);
+      lo = t.tenure() < lo ? t.tenure() : lo;
+      hi = t.tenure() > hi ? t.tenure() : hi;
+    }
+    CHECK(lo == c.low);
+    CHECK(hi == c.high);
+  }
+  CHECK(TabuParams{}.tenure_rule == TabuTenure::by_density);
+  // Dense: 200 spins, 5000 random pairs (about 4400 distinct: density about 0.22, above 0.08).
+  const auto dense = random_qubo<std::int32_t>(200, 5000, rng);
+  REQUIRE(static_cast<double>(dense.num_pairs()) >= tabu_dense_threshold * 200 * 199 / 2);
+  TabuWalker<QuboModel<std::int32_t>> d(dense, TabuParams{}, 7);
+  std::size_t lo = d.tenure();
+  std::size_t hi = d.tenure();
+  for (int k = 0; k < 400; ++k, d.new_cycle()) {
+    lo = d.tenure() < lo ? d.tenure() : lo;
+    hi = d.tenure() > hi ? d.tenure() : hi;
+  }
+  CHECK(lo == 3);  // 200 / 100 + 1
+  CHECK(hi == 12);
+  TabuParams fixed;
+  fixed.tenure_rule = TabuTenure::hundredth;
+  fixed.tenure = 7;  // explicit: no spread unless given
+  TabuWalker<QuboModel<std::int32_t>> t(q, fixed, 6);
+  for (int k = 0; k < 20; ++k, t.new_cycle()) CHECK(t.tenure() == 7);
+}

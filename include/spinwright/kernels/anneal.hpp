@@ -202,6 +202,7 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
     prime_beta();
   }
   void before_sweep(double time_fraction) noexcept { time_fraction_ = time_fraction; }
+  void watch_deadline(const detail::SweepDeadline* d) noexcept { watch_ = d; }
 
   void init(const detail::CoefficientScan& scan, std::uint64_t seed, std::uint64_t restart) {
     schedule_sweeps_ = params_.sweeps;
@@ -264,10 +265,10 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
     if (beta != acceptor_.beta()) acceptor_.set_beta(beta);
     Xoshiro256 rng = rng_;  // a local copy stays in registers across the spin writes
     detail::move_begin_sweep(move_, state_, rng);
-    const std::size_t m = move_.moves_per_sweep(state_);
-    const std::uint64_t accepted = acceptor_.rule() == Acceptance::metropolis
-                                       ? sweep_moves<Acceptance::metropolis>(rng, m)
-                                       : sweep_moves<Acceptance::heat_bath>(rng, m);
+    std::size_t m = move_.moves_per_sweep(state_);  // a watched sweep cut by the deadline: the attempts made
+    const std::uint64_t accepted = watching(m)                                  ? watched_moves(rng, m)
+                                   : acceptor_.rule() == Acceptance::metropolis ? sweep_moves<Acceptance::metropolis>(rng, m)
+                                                                                : sweep_moves<Acceptance::heat_bath>(rng, m);
     rng_ = rng;
     attempted_ += m;
     accepted_ += accepted;
@@ -280,6 +281,19 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
       return true;
     }
     return false;
+  }
+
+  // The drive's deadline inside a sweep of unknown duration (kernels/detail/drive.hpp), on the
+  // uniform path only: a sweep that would take the hazard path runs whole, as unwatched.
+  bool watching(std::size_t m) const noexcept {
+    if (watch_ == nullptr || m <= detail::sweep_watch_every) return false;
+    if constexpr (hazard_capable) return !detail::take_hazard_path(acceptor_, last_rate_, params_.hazard_below, m);
+    return true;
+  }
+  std::uint64_t watched_moves(Xoshiro256& rng, std::size_t& m) {
+    return acceptor_.rule() == Acceptance::metropolis
+               ? detail::watched_sweep(move_, state_, acceptor_.template fixed<Acceptance::metropolis>(), rng, m, *watch_)
+               : detail::watched_sweep(move_, state_, acceptor_.template fixed<Acceptance::heat_bath>(), rng, m, *watch_);
   }
 
   // `stream` is copied into a local for the sweep: a generator reached through a reference
@@ -374,6 +388,7 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
   std::uint64_t restart_ = 0;
   double last_rate_ = 1;      // accepted / attempted in the previous sweep (hazard path choice)
   double time_fraction_ = 0;  // elapsed fraction of advance()'s time limit (0 untimed)
+  const detail::SweepDeadline* watch_ = nullptr;  // set by the drive for a sweep of unknown duration
 };
 
 /// Refuses parameters a kernel cannot run with: a schedule end that is negative or not finite
