@@ -108,13 +108,13 @@ TEST_CASE("each move is the best admissible one-flip move") {
     int i_free = -1;
     std::int64_t best_tabu = 0;
     int i_tabu = -1;
-    for (int i = 0; i < 24; ++i) {
+    for (std::size_t i = 0; i < 24; ++i) {
       const std::int64_t d = t.state().delta(static_cast<std::uint32_t>(i));
       const bool tabu = last[i] != 0 && m < last[i] - 1 + 8 + 1;
       if (tabu) {
-        if (i_tabu < 0 || d < best_tabu) best_tabu = d, i_tabu = i;
+        if (i_tabu < 0 || d < best_tabu) best_tabu = d, i_tabu = static_cast<int>(i);
       } else if (i_free < 0 || d < best_free) {
-        best_free = d, i_free = i;
+        best_free = d, i_free = static_cast<int>(i);
       }
     }
     bool aspiration = false;
@@ -123,11 +123,11 @@ TEST_CASE("each move is the best admissible one-flip move") {
       ++aspirations;
     }
     std::vector<std::int64_t> deltas(24);
-    for (int i = 0; i < 24; ++i) deltas[i] = t.state().delta(static_cast<std::uint32_t>(i));
+    for (std::size_t i = 0; i < 24; ++i) deltas[i] = t.state().delta(static_cast<std::uint32_t>(i));
     t.step_moves(1);
-    int flipped = -1;
+    std::size_t flipped = 0;  // read only once exactly one spin changed
     int changed = 0;
-    for (int i = 0; i < 24; ++i) {
+    for (std::size_t i = 0; i < 24; ++i) {
       if (t.state().spin(static_cast<std::uint32_t>(i)) != before[i]) {
         flipped = i;
         ++changed;

@@ -445,11 +445,11 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     return k;
   }
 
-  void copy_lane(const std::uint64_t* words, std::size_t k, std::int8_t* out) const noexcept {
+  void copy_lane(const std::uint64_t* packed, std::size_t k, std::int8_t* out) const noexcept {
     const std::size_t n = model_->num_spins();
     const std::size_t w = k / 64;
     const unsigned bit = static_cast<unsigned>(k % 64);
-    for (std::size_t i = 0; i < n; ++i) out[i] = ((words[i * Words + w] >> bit) & 1u) ? -1 : 1;
+    for (std::size_t i = 0; i < n; ++i) out[i] = ((packed[i * Words + w] >> bit) & 1u) ? -1 : 1;
   }
 
   double beta_at_sweep(std::uint64_t k) const noexcept {
@@ -538,7 +538,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     const std::uint32_t* slot = slots_.data() + row_[i];
     std::uint64_t x[Words];
     for (std::size_t w = 0; w < Words; ++w) x[w] = s[i * Words + w];
-    std::uint64_t in[Words][D > 0 ? D : 1];
+    std::uint64_t in[Words][static_cast<std::size_t>(D > 0 ? D : 1)];
     for (int t = 0; t < D; ++t) {
       const std::size_t j = slot[t] & ~antiparallel_flag;
       const std::uint64_t flip = (slot[t] & antiparallel_flag) ? ~std::uint64_t{0} : 0;
@@ -550,7 +550,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     } else {
       constexpr int planes = detail::count_planes(D);
       constexpr unsigned kmax = (D - 1) / 2;
-      std::uint64_t count[Words][planes];
+      std::uint64_t count[Words][static_cast<std::size_t>(planes)];
       std::uint64_t running[Words];
       std::uint64_t even[Words];  // k = D / 2: the flip leaves the energy unchanged
       for (std::size_t w = 0; w < Words; ++w) {
@@ -612,7 +612,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     for (std::size_t w = 0; w < Words; ++w) x.v[w] = s[i * Words + w];
     L accept = L::all(~std::uint64_t{0});
     if constexpr (D > 0) {
-      L in[D];
+      L in[static_cast<std::size_t>(D)];
       for (int t = 0; t < D; ++t) {
         const std::uint64_t* nb = s + (slot[t] & ~antiparallel_flag) * Words;
         const std::uint64_t flip = (slot[t] & antiparallel_flag) ? ~std::uint64_t{0} : 0;
@@ -620,7 +620,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
       }
       constexpr int planes = detail::count_planes(D);
       constexpr int kmax = (D - 1) / 2;
-      L count[planes];
+      L count[static_cast<std::size_t>(planes)];
       detail::count_bits<D>(in, count);
       std::uint64_t u[Words];
       streams.next_all(u);
@@ -631,7 +631,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
         for (int level = 0; level <= kmax; ++level) k += half >= threshold_[D - 2 * level] ? 1u : 0u;
         kstar[w] = k;
       }
-      L limit[planes];
+      L limit[static_cast<std::size_t>(planes)];
       for (int p = 0; p < planes; ++p)
         for (std::size_t w = 0; w < Words; ++w) limit[p].v[w] = std::uint64_t{0} - ((kstar[w] >> p) & 1u);
       accept = ~detail::below<planes>(count, limit);
