@@ -76,7 +76,7 @@ const IsingModel<Value>& model_for(int g) {
 double total_weight(int g) {
   if (g == lattice) return 0;
   double w = 0;
-  for (const auto& e : graph_for(g).edges) w += e.w;
+  for (const auto& e : graph_for(g).edges) w += static_cast<double>(e.w);
   return w;
 }
 

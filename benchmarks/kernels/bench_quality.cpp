@@ -12,6 +12,10 @@
 // geometric beta over the model's beta span, following the elapsed fraction of the time), auto
 // (solve_auto filling the time: the baseline), auto_polish (solve_auto for 80 % of the
 // time, then the breakout search from its best), dense (qubo/ only: breakout on the dense copy).
+// tabu_hundredth / breakout_hundredth: the same with the tabu tenure N / 100 + a draw in [1, 10]
+// per cycle (TabuTenure::hundredth; for breakout through its tenure = N / 100 + 1, spread 9).
+// SPINWRIGHT_QUALITY_SWEEPS > 0: gset/ and gen/ runs of the walk-based variants take that many
+// sweeps (N moves each) instead of a time limit: quality at fixed steps, independent of the load.
 // The "*/summary" lines aggregate the runs before them. Results and commands: docs/quality.md.
 #include <benchmark/benchmark.h>
 
@@ -57,8 +61,21 @@ int env_int(const char* name, int fallback) {
 double run_seconds() { return env_double("SPINWRIGHT_QUALITY_SECONDS", 5.0); }
 int run_seeds() { return env_int("SPINWRIGHT_QUALITY_SEEDS", 3); }
 double qubo_cap() { return env_double("SPINWRIGHT_QUALITY_CAP", 2.0); }
+std::uint64_t fixed_sweeps() { return static_cast<std::uint64_t>(env_int("SPINWRIGHT_QUALITY_SWEEPS", 0)); }
 
-enum class Variant { breakout, fixed_jump, random_jump, tabu, anneal_ref, auto_fill, auto_polish, dense };
+
+enum class Variant {
+  breakout,
+  fixed_jump,
+  random_jump,
+  tabu,
+  anneal_ref,
+  auto_fill,
+  auto_polish,
+  dense,
+  tabu_hundredth,
+  breakout_hundredth
+};
 const char* name_of(Variant v) {
   switch (v) {
     case Variant::breakout:
@@ -77,8 +94,29 @@ const char* name_of(Variant v) {
       return "auto_polish";
     case Variant::dense:
       return "dense";
+    case Variant::tabu_hundredth:
+      return "tabu_hundredth";
+    case Variant::breakout_hundredth:
+      return "breakout_hundredth";
   }
   return "?";
+}
+
+TabuParams tabu_params(Variant v) {
+  TabuParams p;
+  if (v == Variant::tabu_hundredth) p.tenure_rule = TabuTenure::hundredth;
+  return p;
+}
+
+BreakoutParams breakout_params(const Model& m, Variant v) {
+  BreakoutParams p;
+  p.adaptive_jump = v != Variant::fixed_jump;
+  p.directed = v != Variant::random_jump;
+  if (v == Variant::breakout_hundredth) {
+    p.tenure = m.num_spins() / 100 + 1;
+    p.tenure_spread = 9;
+  }
+  return p;
 }
 
 // The plain annealer for `seconds` of CPU time; its final energy (it ends cold).
@@ -100,6 +138,7 @@ std::int64_t run_variant(const Model& m, Variant v, std::uint64_t seed, double s
   const Budget budget = Budget{}.with_time_limit(seconds, cpu_clock());
   Budget b = budget;
   b.sweeps = unlimited_sweeps;
+  if (fixed_sweeps() > 0) b = Budget{}.with_sweeps(fixed_sweeps());
   std::int64_t e = 0;
   double s = seconds;
   if (v == Variant::anneal_ref) {
@@ -120,15 +159,12 @@ std::int64_t run_variant(const Model& m, Variant v, std::uint64_t seed, double s
   } else if (v == Variant::dense) {
     const auto d = DenseModel<Form::ising, std::int32_t>::from(m).value();
     e = breakout(d, BreakoutParams{}, seed, 0, b).energy;
-  } else if (v == Variant::tabu) {
-    const auto sol = tabu_walk(m, TabuParams{}, seed, 0, b);
+  } else if (v == Variant::tabu || v == Variant::tabu_hundredth) {
+    const auto sol = tabu_walk(m, tabu_params(v), seed, 0, b);
     e = sol.energy;
     s = sol.seconds;
   } else {
-    BreakoutParams p;
-    p.adaptive_jump = v != Variant::fixed_jump;
-    p.directed = v != Variant::random_jump;
-    const auto sol = breakout(m, p, seed, 0, b);
+    const auto sol = breakout(m, breakout_params(m, v), seed, 0, b);
     e = sol.energy;
     s = sol.seconds;
   }
@@ -197,16 +233,13 @@ void bm_qubo(benchmark::State& state, std::string name, Variant v) {
       Budget b = Budget{}.with_time_limit(qubo_cap(), cpu_clock()).with_target(target);
       b.sweeps = unlimited_sweeps;
       Solution<std::int64_t> s;
-      if (v == Variant::tabu) {
-        s = tabu_walk(m, TabuParams{}, static_cast<std::uint64_t>(seed), 0, b);
+      if (v == Variant::tabu || v == Variant::tabu_hundredth) {
+        s = tabu_walk(m, tabu_params(v), static_cast<std::uint64_t>(seed), 0, b);
       } else if (v == Variant::dense) {
         const auto d = DenseModel<Form::ising, std::int32_t>::from(m).value();
         s = breakout(d, BreakoutParams{}, static_cast<std::uint64_t>(seed), 0, b);
       } else {
-        BreakoutParams p;
-        p.adaptive_jump = v != Variant::fixed_jump;
-        p.directed = v != Variant::random_jump;
-        s = breakout(m, p, static_cast<std::uint64_t>(seed), 0, b);
+        s = breakout(m, breakout_params(m, v), static_cast<std::uint64_t>(seed), 0, b);
       }
       const bool ok = cut_from_energy(w, s.energy) >= reference;
       reached += ok ? 1 : 0;
@@ -269,9 +302,11 @@ const bool registered = [] {
                         "bqp500-2",  "bqp500-3",  "be100.1",   "be100.2",   "be100.3",   "be120.3.1",
                         "be120.3.2", "be120.3.3", "be120.8.1", "be120.8.2", "be120.8.3", "be150.3.1",
                         "be150.3.2", "be150.3.3", "be150.8.1", "be150.8.2", "be150.8.3"};
-  const Variant variants[] = {Variant::breakout, Variant::fixed_jump, Variant::random_jump, Variant::tabu,
-                              Variant::anneal_ref,  Variant::auto_fill,  Variant::auto_polish};
-  for (const Variant v : {Variant::breakout, Variant::fixed_jump, Variant::random_jump, Variant::dense, Variant::tabu})
+  const Variant variants[] = {Variant::breakout,       Variant::fixed_jump,        Variant::random_jump,
+                              Variant::tabu,           Variant::anneal_ref,        Variant::auto_fill,
+                              Variant::auto_polish,    Variant::tabu_hundredth,    Variant::breakout_hundredth};
+  for (const Variant v : {Variant::breakout, Variant::fixed_jump, Variant::random_jump, Variant::dense, Variant::tabu,
+                          Variant::tabu_hundredth, Variant::breakout_hundredth})
     for (const char* q : qubo)
       benchmark::RegisterBenchmark((std::string("qubo/") + q + "/" + name_of(v)).c_str(), bm_qubo, std::string(q), v)
           ->Iterations(1)

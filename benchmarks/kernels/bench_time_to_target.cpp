@@ -1,7 +1,8 @@
 // Time to target: CPU seconds (of the running thread; the machine is shared) until a kernel
 // first holds a state whose cut equals the reference cut of reference.csv, for annealing
 // (independent restarts of a fixed schedule, run back to back), tempering (one run) and tabu
-// search (one run), each with default parameters. Median over seeds; a seed that does not
+// search (one run), each with default parameters, and tabu search with the other automatic
+// tenure (tabu_hundredth: TabuTenure::hundredth, kernels/tabu.hpp). Median over seeds; a seed that does not
 // reach the target within the cap counts as "not reached" (and as +inf in the median).
 // Instances: bqp250-1..5 (OR-Library, proven optima) and the G-set graphs G11, G14, G22, G43
 // (best known cuts, Benlic & Hao 2013), all from shared/data/maxcut/.
@@ -33,8 +34,9 @@ using bench_support::thread_seconds;
 const char* const instances[] = {"bqp250-1", "bqp250-2", "bqp250-3", "bqp250-4", "bqp250-5",
                                  "G11",      "G14",      "G22",      "G43"};
 constexpr int instance_count = 9;
-enum Kernel { annealing = 0, tempering = 1, tabu = 2 };
-const char* const kernel_names[] = {"anneal", "temper", "tabu"};
+enum Kernel { annealing = 0, tempering = 1, tabu = 2, tabu_hundredth = 3 };
+const char* const kernel_names[] = {"anneal", "temper", "tabu", "tabu_hundredth"};
+constexpr int kernel_count = 4;
 
 bool is_gset(int inst) { return inst >= 5; }
 int seeds_for(int inst) { return is_gset(inst) ? 3 : 5; }
@@ -90,8 +92,10 @@ Outcome run_one(int kernel, int inst, std::uint64_t seed) {
                Budget{}.with_sweeps(~std::uint64_t{0}).with_time_limit(cap, cpu_clock()).with_target(target));
     best = s.energy;
   } else {
+    TabuParams p;  // tabu: the default tenure; tabu_hundredth: N / 100 + [1, 10] (TabuTenure)
+    if (kernel == tabu_hundredth) p.tenure_rule = TabuTenure::hundredth;
     const auto s =
-        tabu_walk(x.model, TabuParams{}, seed, 0,
+        tabu_walk(x.model, p, seed, 0,
                   Budget{}.with_sweeps(~std::uint64_t{0}).with_time_limit(cap, cpu_clock()).with_target(target));
     best = s.energy;
   }
@@ -131,7 +135,7 @@ void bm_time_to_target(benchmark::State& state) {
 
 void all_pairs(benchmark::internal::Benchmark* b) {
   for (int inst = 0; inst < instance_count; ++inst)
-    for (int k = 0; k < 3; ++k) b->Args({k, inst});
+    for (int k = 0; k < kernel_count; ++k) b->Args({k, inst});
 }
 
 }  // namespace

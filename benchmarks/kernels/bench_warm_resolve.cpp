@@ -145,7 +145,7 @@ void BM_warm_gap(benchmark::State& st) {
       auto model = sparse_graph(2000);
       using Model = decltype(model);
       const auto pairs = pairs_of(model);
-      const std::size_t edits = std::max<std::size_t>(1, static_cast<std::size_t>(share * pairs.size()));
+      const std::size_t edits = std::max<std::size_t>(1, static_cast<std::size_t>(share * static_cast<double>(pairs.size())));
       AnnealParams fresh;
       fresh.sweeps = 4000;
       AnnealParams warm;

@@ -56,7 +56,7 @@ void install_interrupt_handler() {
   struct sigaction action {};
   action.sa_handler = on_sigint;
   sigemptyset(&action.sa_mask);
-  action.sa_flags = SA_RESETHAND;  // a second Ctrl-C ends the program at once
+  action.sa_flags = static_cast<int>(SA_RESETHAND);  // a second Ctrl-C ends the program at once
   sigaction(SIGINT, &action, nullptr);
 #if SPINWRIGHT_CLI_MPI
   // mpirun passes a Ctrl-C on to the ranks as SIGTERM: the same graceful end.

@@ -55,6 +55,16 @@ inline void print_assert_failure(const char* file, int line, const char* message
 #define SPINWRIGHT_ASSERT(cond, msg) static_cast<void>(0)
 #endif
 
+// Forces inlining of the few small functions on a kernel's innermost path (a flip's field
+// update, the acceptance test): in a translation unit that instantiates many kernels (the
+// command-line program's runners) the compiler's growth limits otherwise leave them as calls,
+// and the per-attempt cost of a sweep grows several-fold.
+#if defined(__GNUC__) || defined(__clang__)
+#define SPINWRIGHT_HOT_INLINE __attribute__((always_inline)) inline
+#else
+#define SPINWRIGHT_HOT_INLINE inline
+#endif
+
 namespace spinwright::config {
 inline constexpr bool asserts = SPINWRIGHT_ASSERTS != 0;
 inline constexpr bool no_heap = SPINWRIGHT_NO_HEAP != 0;

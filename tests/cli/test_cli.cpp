@@ -43,6 +43,9 @@ struct Edge {
   std::int64_t w;
 };
 
+// The 0-based position of a 1-based vertex number read from a file.
+std::size_t vertex_index(int one_based) { return static_cast<std::size_t>(one_based - 1); }
+
 struct Graph {
   int n = 0;
   std::vector<Edge> edges;
@@ -56,12 +59,12 @@ struct Graph {
   // Max-cut convention: E(s) = sum w_ij s_i s_j, cut(s) = sum over edges with s_i != s_j of w.
   std::int64_t energy(const std::vector<int>& s) const {
     std::int64_t e = 0;
-    for (const auto& x : edges) e += x.w * s[x.i - 1] * s[x.j - 1];
+    for (const auto& x : edges) e += x.w * s[vertex_index(x.i)] * s[vertex_index(x.j)];
     return e;
   }
   std::int64_t cut(const std::vector<int>& s) const {
     std::int64_t c = 0;
-    for (const auto& x : edges) c += s[x.i - 1] != s[x.j - 1] ? x.w : 0;
+    for (const auto& x : edges) c += s[vertex_index(x.i)] != s[vertex_index(x.j)] ? x.w : 0;
     return c;
   }
 };
@@ -97,8 +100,8 @@ Graph cycle(int n) {
 bool local_minimum(const Graph& g, const std::vector<int>& s) {
   std::vector<std::int64_t> field(s.size(), 0);
   for (const auto& e : g.edges) {
-    field[e.i - 1] += e.w * s[e.j - 1];
-    field[e.j - 1] += e.w * s[e.i - 1];
+    field[vertex_index(e.i)] += e.w * s[vertex_index(e.j)];
+    field[vertex_index(e.j)] += e.w * s[vertex_index(e.i)];
   }
   for (std::size_t k = 0; k < s.size(); ++k) {
     if (-2 * s[k] * field[k] < 0) return false;
@@ -383,14 +386,14 @@ TEST_CASE("cli: real weights are written as real numbers that read back exactly"
   // Dyadic weights: every partial sum is exact in double, so the recount below is exact too.
   const std::string path = dir.write("r.txt", "4 5\n1 2 0.5\n2 3 -1.25\n3 4 0.75\n4 1 2.5\n1 3 -0.125\n");
   const double w[5] = {0.5, -1.25, 0.75, 2.5, -0.125};
-  const int ends[5][2] = {{0, 1}, {1, 2}, {2, 3}, {3, 0}, {0, 2}};
+  const std::size_t ends[5][2] = {{0, 1}, {1, 2}, {2, 3}, {3, 0}, {0, 2}};
   const RunOutput r = run(dir, {"solve", path, "--report", "json"});
   REQUIRE(r.code == 0);
   const Json j = parse_ok(r);
   const std::vector<int> s = spins_of(j);
   REQUIRE(s.size() == 4);
   double energy = 0, cut = 0;
-  for (int k = 0; k < 5; ++k) {
+  for (std::size_t k = 0; k < 5; ++k) {
     energy += w[k] * s[ends[k][0]] * s[ends[k][1]];
     cut += s[ends[k][0]] != s[ends[k][1]] ? w[k] : 0;
   }
@@ -489,7 +492,7 @@ TEST_CASE("cli: QUBO input reports bits = (1 - s) / 2 and the energy of the file
   const std::string path = dir.write("q.mtx", s.str());
   auto energy = [&](const std::vector<int>& x) {
     std::int64_t e = 3;
-    for (const auto& t : q) e += t.second * x[t.first.first - 1] * x[t.first.second - 1];
+    for (const auto& t : q) e += t.second * x[vertex_index(t.first.first)] * x[vertex_index(t.first.second)];
     return e;
   };
   // Independent ground energy by enumeration of all 2^12 assignments.
@@ -497,7 +500,7 @@ TEST_CASE("cli: QUBO input reports bits = (1 - s) / 2 and the energy of the file
   std::int64_t ground_count = 0;
   for (int mask = 0; mask < (1 << n); ++mask) {
     std::vector<int> x(n);
-    for (int i = 0; i < n; ++i) x[i] = (mask >> i) & 1;
+    for (std::size_t i = 0; i < x.size(); ++i) x[i] = (mask >> i) & 1;
     const std::int64_t e = energy(x);
     if (mask == 0 || e < ground) {
       ground = e;

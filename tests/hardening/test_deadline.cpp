@@ -189,3 +189,125 @@ TEST_CASE("warm start from a caller's exact state: no rescan, the same run as fr
     CHECK(w.best().energy == caller.energy());
   }
 }
+
+namespace {
+
+// The largest row of the model plus one: the work of one accepted flip on the counting model.
+double widest_row(const CountingModel& m) {
+  std::size_t w = 0;
+  for (std::uint32_t i = 0; i < m.num_spins(); ++i) {
+    const std::size_t d = m.degree(static_cast<CountingModel::index_type>(i));
+    if (d > w) w = d;
+  }
+  return static_cast<double>(w + 1);
+}
+
+// The work a call does before its first sweep (the clock's reads cost nothing here).
+template <class Build>
+double set_up_work(Build build) {
+  g_work = 0;
+  build();
+  return static_cast<double>(g_work);
+}
+
+}  // namespace
+
+// A model larger than one watch period (detail::sweep_watch_every attempts): the first sweep of
+// a timed run has no measured duration, so the drive cannot refuse to begin it; the kernel reads
+// the deadline inside it. The limit leaves a twentieth of a pass after the set-up. Without the
+// watch the whole first sweep (hot: most of its attempts accepted) ran past the deadline, several
+// thousand row visits; with it the overrun is at most one watch period of accepted flips.
+TEST_CASE("a first sweep of unknown duration ends within one watch period of the deadline") {
+  const CountingModel m = ring_with_chords(32768);
+  REQUIRE(m.num_spins() > 4 * detail::sweep_watch_every);
+  const double pass = static_cast<double>(m.pass());
+  const double period = static_cast<double>(detail::sweep_watch_every) * widest_row(m);
+  REQUIRE(period < pass / 4);  // the bound below is well under a whole sweep's work
+  auto overrun = [&](double limit, auto call) {
+    WorkClock free_reads{0};
+    const Clock clock{&WorkClock::read, &free_reads};
+    g_work = 0;
+    call(Budget{}.with_time_limit(limit, clock).starting_at(0));
+    return static_cast<double>(g_work) - limit;
+  };
+  SUBCASE("anneal, random and sequential order") {
+    for (const SiteOrder order : {SiteOrder::random, SiteOrder::sequential}) {
+      AnnealParams p;
+      p.order = order;
+      const double setup = set_up_work([&] { Annealer<CountingModel> a(m, p, 1); });
+      const double after = overrun(setup + pass / 20, [&](const Budget& b) {
+        const auto s = anneal(m, p, 1, 0, b);
+        CHECK(s.reason == StopReason::deadline);
+        CHECK(s.attempted < m.num_spins());  // the first sweep was cut
+        CHECK(s.energy == m.base::energy(s.spins.data()));
+      });
+      CHECK(after <= period);
+    }
+  }
+  SUBCASE("solve_auto's time-filling anneal") {
+    REQUIRE(auto_fill_kernel(m) == KernelKind::anneal);
+    AnnealParams p;
+    p.sweeps = auto_fill_first_sweeps;
+    p.order = SiteOrder::sequential;
+    p.acceptance = auto_fill_acceptance(m);
+    const double setup = set_up_work([&] { Annealer<CountingModel> a(m, p, 2); });
+    const double after = overrun(setup + pass / 20, [&](const Budget& b) {
+      const auto s = solve_auto(m, 2, 0, b);
+      CHECK(s.reason == StopReason::deadline);
+      CHECK(s.energy == m.base::energy(s.spins.data()));
+    });
+    CHECK(after <= period);
+  }
+  SUBCASE("descend: the first pass of first improvement from random spins") {
+    const DescentParams p;
+    const double setup = set_up_work([&] { Descender<CountingModel> d(m, p, 3); });
+    const double after = overrun(setup + pass / 20, [&](const Budget& b) {
+      const auto s = descend(m, p, 3, 0, b);
+      CHECK(s.reason == StopReason::deadline);
+      CHECK(s.energy == m.base::energy(s.spins.data()));
+    });
+    CHECK(after <= period);
+  }
+}
+
+TEST_CASE("a watched sweep that the deadline does not cut is the unwatched sweep") {
+  // Same chain, same random draws: a timed run whose deadline is never reached (reads cost
+  // nothing, the limit is far away) equals the untimed run of the same length.
+  const CountingModel m = ring_with_chords(4096);
+  REQUIRE(m.num_spins() > detail::sweep_watch_every);
+  WorkClock free_reads{0};
+  const Clock clock{&WorkClock::read, &free_reads};
+  for (const SiteOrder order : {SiteOrder::random, SiteOrder::sequential}) {
+    for (const Acceptance rule : {Acceptance::metropolis, Acceptance::heat_bath}) {
+      AnnealParams p;
+      p.order = order;
+      p.acceptance = rule;
+      p.sweeps = 30;
+      const auto untimed = anneal(m, p, 9, 1);
+      g_work = 0;
+      Budget timed;
+      timed.with_time_limit(1e18, clock);
+      const auto watched = anneal(m, p, 9, 1, timed);
+      CHECK(watched.energy == untimed.energy);
+      CHECK(watched.spins == untimed.spins);
+      CHECK(watched.attempted == untimed.attempted);
+      CHECK(watched.accepted == untimed.accepted);
+    }
+  }
+}
+
+TEST_CASE("polish after the deadline builds no workspace and returns its input") {
+  const CountingModel m = ring_with_chords(400);
+  const auto from = anneal(m, AnnealParams{}, 4);
+  WorkClock free_reads{0};
+  const Clock clock{&WorkClock::read, &free_reads};
+  g_work = 1000;
+  Budget late;
+  late.with_time_limit(10, clock).starting_at(0);  // the deadline (10) lies in the past
+  const auto s = polish(m, from, DescentRule::steepest, late);
+  CHECK(g_work == 1000);  // no pass over the model: the descender's state was not built
+  CHECK(s.reason == StopReason::deadline);
+  CHECK(s.spins == from.spins);
+  CHECK(s.energy == from.energy);
+  CHECK(s.sweeps == from.sweeps);
+}

@@ -36,7 +36,7 @@ void check_rate(Acceptor<Energy>& acc, Energy d, double p, std::uint64_t seed) {
   Xoshiro256 rng(seed);
   const std::uint64_t trials = trials_for(p);
   std::uint64_t accepted = 0;
-  for (std::uint64_t k = 0; k < trials; ++k) accepted += acc.accept(d, rng) ? 1 : 0;
+  for (std::uint64_t k = 0; k < trials; ++k) accepted += acc.accept(d, rng) ? 1u : 0u;
   const double rate = static_cast<double>(accepted) / static_cast<double>(trials);
   const double sigma = std::sqrt(p * (1 - p) / static_cast<double>(trials));
   CAPTURE(d);
@@ -152,7 +152,7 @@ TEST_CASE("floating acceptance: the squeeze before the logarithm never changes a
     for (int t = 0; t < 200; ++t) {
       const double beta = 0.01 + 5 * pick.uniform();
       acc.set_beta(beta);
-      Xoshiro256 a(100 + t), b(100 + t);
+      Xoshiro256 a(static_cast<std::uint64_t>(100 + t)), b(static_cast<std::uint64_t>(100 + t));
       for (int k = 0; k < 2000; ++k) {
         const double near = certain * (0.75 + 0.5 * pick.uniform()) / beta * (pick.coin() ? 1 : -1);
         const double d = k % 2 == 0 ? (pick.uniform() - 0.3) * 20 : near;

@@ -225,7 +225,7 @@ TEST_CASE("a tiny acceptance table falls back to the log comparison with the sam
   a.step(1000);
   const int bins = 100, per = 2000;
   std::vector<double> means(bins, 0.0);
-  for (int b = 0; b < bins; ++b) {
+  for (std::size_t b = 0; b < means.size(); ++b) {
     for (int k = 0; k < per; ++k) {
       a.step(1);
       means[b] += static_cast<double>(a.state().energy()) / 16.0;

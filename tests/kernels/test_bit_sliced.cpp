@@ -36,12 +36,12 @@ void check_counter() {
   constexpr int planes = detail::count_planes(D);
   // Bit b of the batch starting at `base` holds input combination base + b.
   for (std::uint64_t base = 0; base < (std::uint64_t{1} << D); base += 64) {
-    std::uint64_t in[D];
+    std::uint64_t in[static_cast<std::size_t>(D)];
     for (int t = 0; t < D; ++t) {
       in[t] = 0;
       for (unsigned b = 0; b < 64; ++b) in[t] |= (((base + b) >> t) & 1u) << b;
     }
-    std::uint64_t count[planes];
+    std::uint64_t count[static_cast<std::size_t>(planes)];
     detail::count_bits<D>(in, count);
     for (unsigned b = 0; b < 64 && base + b < (std::uint64_t{1} << D); ++b) {
       unsigned got = 0;
@@ -53,7 +53,7 @@ void check_counter() {
         REQUIRE(at_most == (want <= static_cast<int>(limit)));
       }
       // below() with a limit per bit: bit c of the word takes limit (c + base) % (D + 1).
-      std::uint64_t limit_planes[planes];
+      std::uint64_t limit_planes[static_cast<std::size_t>(planes)];
       for (int p = 0; p < planes; ++p) {
         limit_planes[p] = 0;
         for (unsigned c = 0; c < 64; ++c) limit_planes[p] |= ((((c + base) % (D + 1)) >> p) & 1u) << c;

@@ -291,7 +291,7 @@ TEST_CASE("the kernel shape: model types, seeds, reset, warm start, arena, budge
   {
     std::vector<std::int8_t> s(9);
     for (int b = 0; b < 512; ++b) {
-      for (int i = 0; i < 9; ++i) s[i] = (b >> i) & 1 ? -1 : 1;
+      for (std::size_t i = 0; i < 9; ++i) s[i] = (b >> i) & 1 ? -1 : 1;
       ground = std::min(ground, static_cast<double>(model.energy(s.data())));
     }
   }

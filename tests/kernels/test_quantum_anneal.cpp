@@ -86,16 +86,16 @@ double pfeuty_energy_per_site(double J, double G) {
 // A transverse-field model: problem couplings (our Ising form, E = sum h s + sum J s s) and a
 // uniform transverse field A; H = B E(sigma^z) - A sum sigma^x.
 struct Tfm {
-  int n = 0;
+  std::size_t n = 0;
   std::vector<double> h;
   std::vector<std::vector<double>> J;
 };
 
 IsingModel<double> problem_of(const Tfm& t) {
   IsingBuilder<double> b(static_cast<std::uint64_t>(t.n));
-  for (int i = 0; i < t.n; ++i) {
+  for (std::size_t i = 0; i < t.n; ++i) {
     if (t.h[i] != 0) b.add_field(static_cast<std::uint32_t>(i), t.h[i]);
-    for (int j = i + 1; j < t.n; ++j) {
+    for (std::size_t j = i + 1; j < t.n; ++j) {
       if (t.J[i][j] != 0) b.add_coupling(static_cast<std::uint32_t>(i), static_cast<std::uint32_t>(j), t.J[i][j]);
     }
   }
@@ -108,13 +108,13 @@ Eigen::VectorXd spectrum(const Tfm& t, double A, double B) {
   Eigen::MatrixXd H = Eigen::MatrixXd::Zero(dim, dim);
   for (int b = 0; b < dim; ++b) {
     double e = 0;
-    for (int i = 0; i < t.n; ++i) {
+    for (std::size_t i = 0; i < t.n; ++i) {
       const double si = (b >> i) & 1 ? -1.0 : 1.0;
       e += t.h[i] * si;
-      for (int j = i + 1; j < t.n; ++j) e += t.J[i][j] * si * ((b >> j) & 1 ? -1.0 : 1.0);
+      for (std::size_t j = i + 1; j < t.n; ++j) e += t.J[i][j] * si * ((b >> j) & 1 ? -1.0 : 1.0);
     }
     H(b, b) = B * e;
-    for (int i = 0; i < t.n; ++i) H(b ^ (1 << i), b) -= A;
+    for (std::size_t i = 0; i < t.n; ++i) H(b ^ (1 << i), b) -= A;
   }
   Eigen::SelfAdjointEigenSolver<Eigen::MatrixXd> solver(H, Eigen::EigenvaluesOnly);
   return solver.eigenvalues();
@@ -131,13 +131,13 @@ double thermal_energy(const Eigen::VectorXd& ev, double beta) {
   return static_cast<double>(ez / z);
 }
 
-Tfm chain_tfm(int L, double J) {
+Tfm chain_tfm(std::size_t L, double J) {
   Tfm t;
   t.n = L;
   t.h.assign(L, 0.0);
   t.J.assign(L, std::vector<double>(L, 0.0));
-  for (int i = 0; i < L; ++i) {
-    const int j = (i + 1) % L;
+  for (std::size_t i = 0; i < L; ++i) {
+    const std::size_t j = (i + 1) % L;
     t.J[std::min(i, j)][std::max(i, j)] += -J;
   }
   return t;
@@ -194,7 +194,7 @@ TEST_CASE("free-fermion chain: matches exact diagonalisation and Pfeuty's infini
   // The finite-chain formula against the 2^L spectrum (Eigen), several fields and temperatures.
   for (int L : {4, 6, 8}) {
     for (double G : {0.5, 1.0, 1.7}) {
-      const auto ev = spectrum(chain_tfm(L, 1.0), G, 1.0);
+      const auto ev = spectrum(chain_tfm(static_cast<std::size_t>(L), 1.0), G, 1.0);
       for (double beta : {0.3, 1.0, 4.0}) {
         CAPTURE(L);
         CAPTURE(G);
@@ -251,14 +251,14 @@ TEST_CASE("small random transverse-field models: thermal energy converges to exa
   // (common practice). The Trotter error shrinks as P grows (Suzuki, Prog. Theor. Phys. 56,
   // 1454 (1976)): P = 2 is far off, P = 32 agrees within the sampling error.
   Xoshiro256 rng(7);
-  for (int n : {6, 8}) {
+  for (std::size_t n : {std::size_t{6}, std::size_t{8}}) {
     Tfm t;
     t.n = n;
     t.h.resize(n);
     t.J.assign(n, std::vector<double>(n, 0.0));
-    for (int i = 0; i < n; ++i) {
+    for (std::size_t i = 0; i < n; ++i) {
       t.h[i] = rng.uniform() - 0.5;
-      for (int j = i + 1; j < n; ++j) {
+      for (std::size_t j = i + 1; j < n; ++j) {
         if (rng.uniform() < 0.6) t.J[i][j] = 2 * rng.uniform() - 1;
       }
     }

@@ -108,13 +108,13 @@ TEST_CASE("each move is the best admissible one-flip move") {
     int i_free = -1;
     std::int64_t best_tabu = 0;
     int i_tabu = -1;
-    for (int i = 0; i < 24; ++i) {
+    for (std::size_t i = 0; i < 24; ++i) {
       const std::int64_t d = t.state().delta(static_cast<std::uint32_t>(i));
       const bool tabu = last[i] != 0 && m < last[i] - 1 + 8 + 1;
       if (tabu) {
-        if (i_tabu < 0 || d < best_tabu) best_tabu = d, i_tabu = i;
+        if (i_tabu < 0 || d < best_tabu) best_tabu = d, i_tabu = static_cast<int>(i);
       } else if (i_free < 0 || d < best_free) {
-        best_free = d, i_free = i;
+        best_free = d, i_free = static_cast<int>(i);
       }
     }
     bool aspiration = false;
@@ -123,11 +123,11 @@ TEST_CASE("each move is the best admissible one-flip move") {
       ++aspirations;
     }
     std::vector<std::int64_t> deltas(24);
-    for (int i = 0; i < 24; ++i) deltas[i] = t.state().delta(static_cast<std::uint32_t>(i));
+    for (std::size_t i = 0; i < 24; ++i) deltas[i] = t.state().delta(static_cast<std::uint32_t>(i));
     t.step_moves(1);
-    int flipped = -1;
+    std::size_t flipped = 0;  // read only once exactly one spin changed
     int changed = 0;
-    for (int i = 0; i < 24; ++i) {
+    for (std::size_t i = 0; i < 24; ++i) {
       if (t.state().spin(static_cast<std::uint32_t>(i)) != before[i]) {
         flipped = i;
         ++changed;
@@ -268,4 +268,55 @@ TEST_CASE("tabu trajectory: re-flips inside the tenure only at new bests, shorte
     CHECK(shortest_plain == tenure + 1);
     if (n == 24) CHECK(inside > 0);
   }
+}
+
+// The automatic tenures (TabuTenure, kernels/tabu.hpp), drawn once per cycle: tenth is
+// max(N / 10, min(N / 4, 10)) plus [0, that / 2]; hundredth is N / 100 plus [1, 10]; by_density
+// (the default) is hundredth from pair density 0.08 on, tenth below. Over many cycles every
+// draw lies in its range and both ends are drawn; an explicit spread overrides the rule's, an
+// explicit tenure overrides both.
+TEST_CASE("automatic tabu tenures: the two rules and their ranges") {
+  Xoshiro256 rng(3);
+  const auto q = random_qubo<std::int32_t>(1000, 3000, rng);
+  struct Case {
+    TabuTenure rule;
+    std::size_t spread;
+    std::size_t low, high;
+  };
+  for (const Case c : {Case{TabuTenure::tenth, 0, 100, 150}, Case{TabuTenure::hundredth, 0, 11, 20},
+                       Case{TabuTenure::hundredth, 4, 11, 15}, Case{TabuTenure::by_density, 0, 100, 150}}) {
+    TabuParams p;
+    p.tenure_rule = c.rule;
+    p.tenure_spread = c.spread;
+    TabuWalker<QuboModel<std::int32_t>> t(q, p, 5);
+    std::size_t lo = t.tenure();
+    std::size_t hi = t.tenure();
+    for (int k = 0; k < 400; ++k) {
+      t.new_cycle();
+      CHECK(t.tenure() >= c.low);
+      CHECK(t.tenure() <= c.high);
+      lo = t.tenure() < lo ? t.tenure() : lo;
+      hi = t.tenure() > hi ? t.tenure() : hi;
+    }
+    CHECK(lo == c.low);
+    CHECK(hi == c.high);
+  }
+  CHECK(TabuParams{}.tenure_rule == TabuTenure::by_density);
+  // Dense: 200 spins, 5000 random pairs (about 4400 distinct: density about 0.22, above 0.08).
+  const auto dense = random_qubo<std::int32_t>(200, 5000, rng);
+  REQUIRE(static_cast<double>(dense.num_pairs()) >= tabu_dense_threshold * 200 * 199 / 2);
+  TabuWalker<QuboModel<std::int32_t>> d(dense, TabuParams{}, 7);
+  std::size_t lo = d.tenure();
+  std::size_t hi = d.tenure();
+  for (int k = 0; k < 400; ++k, d.new_cycle()) {
+    lo = d.tenure() < lo ? d.tenure() : lo;
+    hi = d.tenure() > hi ? d.tenure() : hi;
+  }
+  CHECK(lo == 3);  // 200 / 100 + 1
+  CHECK(hi == 12);
+  TabuParams fixed;
+  fixed.tenure_rule = TabuTenure::hundredth;
+  fixed.tenure = 7;  // explicit: no spread unless given
+  TabuWalker<QuboModel<std::int32_t>> t(q, fixed, 6);
+  for (int k = 0; k < 20; ++k, t.new_cycle()) CHECK(t.tenure() == 7);
 }

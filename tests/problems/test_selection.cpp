@@ -102,7 +102,7 @@ TEST_CASE_TEMPLATE("selection: random integer and real instances, no infeasible 
     bool any = false;
     problems_test::for_each_state(p->model(), [&](const std::int8_t* s, const std::uint8_t*, energy_t<Value> e) {
       if (p->feasibility(s).feasible) {
-        CHECK(e >= best - 1e-9);
+        CHECK(static_cast<double>(e) >= static_cast<double>(best) - 1e-9);
         return;
       }
       if (!any || e < best_infeasible) best_infeasible = e;

@@ -12,6 +12,7 @@
 #include "../rng/xoshiro.hpp"
 #include "../state/spin_state.hpp"
 #include "detail/drive.hpp"
+#include "detail/flip_loop.hpp"
 #include "detail/hazard_sweep.hpp"
 #include "acceptance.hpp"
 #include "beta_span.hpp"
@@ -201,6 +202,7 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
     prime_beta();
   }
   void before_sweep(double time_fraction) noexcept { time_fraction_ = time_fraction; }
+  void watch_deadline(const detail::SweepDeadline* d) noexcept { watch_ = d; }
 
   void init(const detail::CoefficientScan& scan, std::uint64_t seed, std::uint64_t restart) {
     schedule_sweeps_ = params_.sweeps;
@@ -263,10 +265,10 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
     if (beta != acceptor_.beta()) acceptor_.set_beta(beta);
     Xoshiro256 rng = rng_;  // a local copy stays in registers across the spin writes
     detail::move_begin_sweep(move_, state_, rng);
-    const std::size_t m = move_.moves_per_sweep(state_);
-    const std::uint64_t accepted = acceptor_.rule() == Acceptance::metropolis
-                                       ? sweep_moves<Acceptance::metropolis>(rng, m)
-                                       : sweep_moves<Acceptance::heat_bath>(rng, m);
+    std::size_t m = move_.moves_per_sweep(state_);  // a watched sweep cut by the deadline: the attempts made
+    const std::uint64_t accepted = watching(m)                                  ? watched_moves(rng, m)
+                                   : acceptor_.rule() == Acceptance::metropolis ? sweep_moves<Acceptance::metropolis>(rng, m)
+                                                                                : sweep_moves<Acceptance::heat_bath>(rng, m);
     rng_ = rng;
     attempted_ += m;
     accepted_ += accepted;
@@ -279,6 +281,19 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
       return true;
     }
     return false;
+  }
+
+  // The drive's deadline inside a sweep of unknown duration (kernels/detail/drive.hpp), on the
+  // uniform path only: a sweep that would take the hazard path runs whole, as unwatched.
+  bool watching(std::size_t m) const noexcept {
+    if (watch_ == nullptr || m <= detail::sweep_watch_every) return false;
+    if constexpr (hazard_capable) return !detail::take_hazard_path(acceptor_, last_rate_, params_.hazard_below, m);
+    return true;
+  }
+  std::uint64_t watched_moves(Xoshiro256& rng, std::size_t& m) {
+    return acceptor_.rule() == Acceptance::metropolis
+               ? detail::watched_sweep(move_, state_, acceptor_.template fixed<Acceptance::metropolis>(), rng, m, *watch_)
+               : detail::watched_sweep(move_, state_, acceptor_.template fixed<Acceptance::heat_bath>(), rng, m, *watch_);
   }
 
   // `stream` is copied into a local for the sweep: a generator reached through a reference
@@ -303,6 +318,7 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
       const std::int8_t* spins = state_.spins();
       const energy_type* fields = state_.local_fields();
       const auto n = static_cast<std::uint32_t>(m);
+      detail::FlipLoop<Model> flips(state_);  // the flips with the arrays in registers
       auto visit = [&](std::uint32_t i) {
         const auto ii = static_cast<typename Model::index_type>(i);
         energy_type d;
@@ -312,7 +328,7 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
           d = spins[i] * fields[i];
         }
         if (acceptor.accept(d, rng)) {
-          state_.flip_with_delta(ii, d);
+          flips.flip(ii, d);
           ++accepted;
         }
       };
@@ -331,13 +347,14 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
             if (acceptor.accept(d, rng)) break;
           }
           if (i >= n) break;
-          state_.flip_with_delta(static_cast<typename Model::index_type>(i), d);
+          flips.flip(static_cast<typename Model::index_type>(i), d);
           ++accepted;
           ++i;
         }
       } else {
         for (std::uint32_t k = 0; k < n; ++k) visit(rng.below(n));
       }
+      flips.finish();
     } else {
       for (std::size_t k = 0; k < m; ++k) {
         const auto p = move_.propose(state_, rng);
@@ -371,6 +388,7 @@ class Annealer : public detail::Drive<Annealer<Model, Move>> {
   std::uint64_t restart_ = 0;
   double last_rate_ = 1;      // accepted / attempted in the previous sweep (hazard path choice)
   double time_fraction_ = 0;  // elapsed fraction of advance()'s time limit (0 untimed)
+  const detail::SweepDeadline* watch_ = nullptr;  // set by the drive for a sweep of unknown duration
 };
 
 /// Refuses parameters a kernel cannot run with: a schedule end that is negative or not finite

@@ -151,14 +151,14 @@ Solution<typename Model::energy_type> auto_fill_anneal(const Model& model, std::
   params.order = order;
   params.acceptance = acceptance;
   Annealer<Model> annealer(model, params, seed, restart);
-  // The descender (about half the annealer's building time) is built now when the time left
-  // exceeds what the annealer took to build, else there is no descent.
+  // The descender (its workspace costs about half the annealer's) is built at the first descent,
+  // once an anneal has ended, and only when the time left then exceeds what the annealer took
+  // to build: a limit that the set-up and the first anneal fill has no descent.
   DescentParams descent_params;
   descent_params.rule = DescentRule::steepest;
   descent_params.initial = annealer.best().spins;
   std::optional<Descender<Model>> descender;
   const double built = clock.read() - t0;
-  if (!whole.timed() || whole.remaining() > built) descender.emplace(model, descent_params, seed, restart);
   // Descents run to a local minimum within what is left of the whole budget (its deadline,
   // stop token and target), so the closing polish never outlasts the limit.
   Budget descent_budget = whole;
@@ -194,6 +194,9 @@ Solution<typename Model::energy_type> auto_fill_anneal(const Model& model, std::
     out.attempted += annealer.attempted();
     out.accepted += annealer.accepted();
     const auto best = annealer.best();
+    if (r != StopReason::stopped && !descender && (!whole.timed() || whole.remaining() > built)) {
+      descender.emplace(model, descent_params, seed, restart);
+    }
     if (r != StopReason::stopped && descender && whole.remaining() > 0) {
       // A finished schedule ends cold, and so does one the deadline cut (its position follows
       // the elapsed time): steepest descent takes a few moves; first improvement when cut

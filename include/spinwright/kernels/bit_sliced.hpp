@@ -565,8 +565,8 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     stale_ = false;
     if (lattice_.dims != 0) {
       load_board();
-      const std::size_t words = 2 * Words * lattice_.plane();
-      for (std::size_t k = 0; k < words; ++k) board_[words + k] = board_[k];
+      const std::size_t half = 2 * Words * lattice_.plane();
+      for (std::size_t k = 0; k < half; ++k) board_[half + k] = board_[k];
     }
     std::int64_t unsat[restarts_per_group];
     count_unsatisfied(unsat);
@@ -610,12 +610,12 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     }
   }
 
-  void copy_lane(const std::uint64_t* words, std::size_t k, std::int8_t* out) const noexcept {
+  void copy_lane(const std::uint64_t* packed, std::size_t k, std::int8_t* out) const noexcept {
     const std::size_t n = model_->num_spins();
     const std::size_t w = k / 64;
     const unsigned bit = static_cast<unsigned>(k % 64);
     for (std::size_t i = 0; i < n; ++i)
-      out[i] = static_cast<std::int8_t>(1 - 2 * static_cast<int>((words[i * Words + w] >> bit) & 1u));
+      out[i] = static_cast<std::int8_t>(1 - 2 * static_cast<int>((packed[i * Words + w] >> bit) & 1u));
   }
 
   double beta_at_sweep(std::uint64_t k) const noexcept {
@@ -708,7 +708,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     const std::uint32_t* slot = slots_.data() + row_[i];
     std::uint64_t x[Words];
     for (std::size_t w = 0; w < Words; ++w) x[w] = s[i * Words + w];
-    std::uint64_t in[Words][D > 0 ? D : 1];
+    std::uint64_t in[Words][static_cast<std::size_t>(D > 0 ? D : 1)];
     for (int t = 0; t < D; ++t) {
       const std::size_t j = slot[t] & ~antiparallel_flag;
       const std::uint64_t flip = (slot[t] & antiparallel_flag) ? ~std::uint64_t{0} : 0;
@@ -720,7 +720,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     } else {
       constexpr int planes = detail::count_planes(D);
       constexpr unsigned kmax = (D - 1) / 2;
-      std::uint64_t count[Words][planes];
+      std::uint64_t count[Words][static_cast<std::size_t>(planes)];
       std::uint64_t running[Words];
       std::uint64_t even[Words];  // k = D / 2: the flip leaves the energy unchanged
       for (std::size_t w = 0; w < Words; ++w) {
@@ -782,7 +782,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     for (std::size_t w = 0; w < Words; ++w) x.v[w] = s[i * Words + w];
     L accept = L::all(~std::uint64_t{0});
     if constexpr (D > 0) {
-      L in[D];
+      L in[static_cast<std::size_t>(D)];
       for (int t = 0; t < D; ++t) {
         const std::uint64_t* nb = s + (slot[t] & ~antiparallel_flag) * Words;
         const std::uint64_t flip = (slot[t] & antiparallel_flag) ? ~std::uint64_t{0} : 0;
@@ -790,7 +790,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
       }
       constexpr int planes = detail::count_planes(D);
       constexpr int kmax = (D - 1) / 2;
-      L count[planes];
+      L count[static_cast<std::size_t>(planes)];
       detail::count_bits<D>(in, count);
       std::uint64_t u[Words];
       streams.next_all(u);
@@ -801,7 +801,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
         for (int level = 0; level <= kmax; ++level) k += half >= threshold_[D - 2 * level] ? 1u : 0u;
         kstar[w] = k;
       }
-      L limit[planes];
+      L limit[static_cast<std::size_t>(planes)];
       for (int p = 0; p < planes; ++p)
         for (std::size_t w = 0; w < Words; ++w) limit[p].v[w] = std::uint64_t{0} - ((kstar[w] >> p) & 1u);
       accept = ~detail::below<planes>(count, limit);
@@ -975,9 +975,9 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
       for (unsigned b = 0; b < 64; ++b) {
         std::int64_t c = 0;
         for (std::size_t p = 0; p < 40; ++p) {
-          std::int64_t bits = 0;
-          for (std::size_t j = 0; j < 8; ++j) bits += static_cast<std::int64_t>((wide[p * 8 + j] >> b) & 1u);
-          c += bits << p;
+          std::int64_t ones = 0;
+          for (std::size_t j = 0; j < 8; ++j) ones += static_cast<std::int64_t>((wide[p * 8 + j] >> b) & 1u);
+          c += ones << p;
         }
         unsat[w * 64 + b] = c;
       }
@@ -996,7 +996,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     SPINWRIGHT_BIT_LOOP for (std::size_t j = 0; j < 8; ++j) {
       const std::uint64_t x = s[j];
       const std::uint64_t keep = j < live ? ~std::uint64_t{0} : 0;
-      std::uint64_t in[D];
+      std::uint64_t in[static_cast<std::size_t>(D)];
       const std::uint64_t b = bits[j];
       in[0] = (n0[j] ^ sign(b, 0) ^ x) & keep;
       in[1] = (n1[j] ^ sign(b, 1) ^ x) & keep;
@@ -1099,7 +1099,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     constexpr std::size_t dims = D / 2;
     SPINWRIGHT_BIT_LOOP for (std::size_t j = 0; j < 8; ++j) {
       const std::uint64_t x = s[j];
-      std::uint64_t in[D];
+      std::uint64_t in[static_cast<std::size_t>(D)];
       const std::uint64_t bb = bits[j];
       in[0] = n0[j] ^ sign(bb, 0) ^ x;
       in[1] = n1[j] ^ sign(bb, 1) ^ x;
@@ -1362,10 +1362,10 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
       }
       if (improved == 0) continue;
       if (lattice_.dims != 0) {
-        const std::size_t words = 2 * lattice_.plane();
-        const std::uint64_t* now = board_.data() + w * words;
-        std::uint64_t* best = board_.data() + (Words + w) * words;
-        for (std::size_t x = 0; x < words; ++x) best[x] = (best[x] & ~improved) | (now[x] & improved);
+        const std::size_t span = 2 * lattice_.plane();
+        const std::uint64_t* now = board_.data() + w * span;
+        std::uint64_t* best = board_.data() + (Words + w) * span;
+        for (std::size_t x = 0; x < span; ++x) best[x] = (best[x] & ~improved) | (now[x] & improved);
         continue;
       }
       for (std::size_t i = 0; i < n; ++i) {

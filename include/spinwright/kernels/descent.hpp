@@ -55,8 +55,8 @@ class Descender : public detail::Drive<Descender<Model, Move>> {
       : Descender(model, params, Move{}, seed, restart) {}
 
   Descender(const Model& model, const DescentParams& params, Move move, std::uint64_t seed, std::uint64_t restart = 0)
-      : model_(&model), rule_(params.rule), state_(model), move_(std::move(move)) {
-    init(params, seed, restart);
+      : model_(&model), rule_(params.rule), state_(model, DeferredStart{}), move_(std::move(move)) {
+    init(params, seed, restart);  // the start (random or given spins) computes the fields once
   }
 #endif
 
@@ -67,7 +67,7 @@ class Descender : public detail::Drive<Descender<Model, Move>> {
 
   Descender(const Model& model, const DescentParams& params, Move move, Arena& arena, std::uint64_t seed,
             std::uint64_t restart = 0)
-      : model_(&model), rule_(params.rule), state_(model, arena), move_(std::move(move)) {
+      : model_(&model), rule_(params.rule), state_(model, arena, DeferredStart{}), move_(std::move(move)) {
     if (valid()) init(params, seed, restart);
   }
 
@@ -150,6 +150,12 @@ class Descender : public detail::Drive<Descender<Model, Move>> {
   friend class detail::Drive<Descender>;
   bool settled() const noexcept { return done_; }
   bool sweep_once() { return pass() != 0; }
+  void watch_deadline(const detail::SweepDeadline* d) noexcept { watch_ = d; }
+  // True when a pass of unknown duration has reached the drive's deadline (read every
+  // detail::sweep_watch_every evaluations): the pass ends there.
+  bool cut_at(std::size_t k) const noexcept {
+    return watch_ != nullptr && k != 0 && k % detail::sweep_watch_every == 0 && watch_->passed();
+  }
 
   void init(const DescentParams& params, std::uint64_t seed, std::uint64_t restart) {
     if constexpr (std::is_integral_v<energy_type>) {
@@ -191,6 +197,10 @@ class Descender : public detail::Drive<Descender<Model, Move>> {
       std::size_t best_k = 0;
       energy_type best_d{};
       for (std::size_t k = 0; k < size; ++k) {
+        if (cut_at(k)) {  // a partial scan makes no move: the deadline ends the run
+          attempted_ += k;
+          return 0;
+        }
         const energy_type d = move_.delta(state_, move_.proposal_at(state_, k));
         if (k == 0 || d < best_d) {
           best_d = d;
@@ -208,6 +218,7 @@ class Descender : public detail::Drive<Descender<Model, Move>> {
     }
     std::uint64_t moves = 0;
     for (std::size_t e = 0; e < size; ++e) {
+      if (cut_at(e)) break;
       if (cursor_ >= size) cursor_ = 0;
       const auto p = move_.proposal_at(state_, cursor_);
       const energy_type d = move_.delta(state_, p);
@@ -238,6 +249,7 @@ class Descender : public detail::Drive<Descender<Model, Move>> {
   std::uint64_t accepted_ = 0;
   std::uint64_t restart_ = 0;
   bool done_ = false;
+  const detail::SweepDeadline* watch_ = nullptr;  // set by the drive for a pass of unknown duration
 };
 
 #if !SPINWRIGHT_NO_HEAP
@@ -281,12 +293,20 @@ Solution<typename Model::energy_type> descend(const Model& model, const DescentP
 /// seconds unless the budget has a start (then `seconds` counts from it: the whole call of a
 /// caller that stamped it). The budget bounds the descent (a deadline or stop token ends it
 /// early, still never above the input; its reason is then reported); otherwise the input's
-/// stop reason is kept.
+/// stop reason is kept. A budget with a start whose deadline has already passed returns the
+/// input at once, with StopReason::deadline (no workspace is built).
 template <class Model>
 Solution<typename Model::energy_type> polish(const Model& model, const Solution<typename Model::energy_type>& from,
                                              DescentRule rule = DescentRule::first_improvement,
                                              const Budget& budget = Budget{}) {
   SPINWRIGHT_ASSERT(from.spins.size() == model.num_spins(), "the solution belongs to another model");
+  if (budget.has_start && budget.remaining() <= 0) {
+    // The deadline has passed already: no workspace is built, the input is returned as cut.
+    Solution<typename Model::energy_type> s = from;
+    s.reason = StopReason::deadline;
+    s.seconds = detail::call_seconds(budget, 0.0);
+    return s;
+  }
   DescentParams params;
   params.rule = rule;
   params.initial = from.spins.data();

@@ -135,9 +135,16 @@ class SparseModelView {
   Span<Index> neighbours(Index i) const noexcept { return {neighbours_ + row_[i], degree(i)}; }
   Span<Value> row_values(Index i) const noexcept { return {values_ + row_[i], degree(i)}; }
 
+  // The arrays the view reads (row starts: N + 1 entries; neighbours and values: the last row start),
+  // for loops that keep them in registers (a kernel's flip, whose int8_t spin writes would
+  // otherwise make the compiler reload every pointer of the view after each write).
+  const std::size_t* row_start_data() const noexcept { return row_; }
+  const Index* neighbour_data() const noexcept { return neighbours_; }
+  const Value* value_data() const noexcept { return values_; }
+
   // Calls f(j, value) for every neighbour j of i, in increasing j.
   template <class Fn>
-  void for_each_neighbour(Index i, Fn&& f) const {
+  SPINWRIGHT_HOT_INLINE void for_each_neighbour(Index i, Fn&& f) const {
     SPINWRIGHT_ASSERT(i < n_, "spin index beyond the model (for_each_neighbour)");
     const std::size_t end = row_[i + 1];
     for (std::size_t k = row_[i]; k < end; ++k) f(neighbours_[k], values_[k]);

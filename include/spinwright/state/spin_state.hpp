@@ -23,6 +23,10 @@ struct StateCheck {
   double energy_error = 0;
 };
 
+namespace detail {
+struct StateAccess;  // kernels/detail/flip_loop.hpp: a sweep's raw view of the state
+}
+
 // Tag for the constructors that allocate without computing fields or energy: the owner must
 // call randomize(), set_spins() or assign() before any other use (a kernel whose constructor
 // starts a run at once, so a random start scans the model once instead of twice).
@@ -123,7 +127,7 @@ class SpinState {
     resync();
   }
 
-  energy_type delta(index_type i) const noexcept {
+  SPINWRIGHT_HOT_INLINE energy_type delta(index_type i) const noexcept {
     SPINWRIGHT_ASSERT(i < spins_.size(), "spin index beyond the state's model (delta)");
     if constexpr (form == Form::ising) {
       return -2 * spins_[i] * fields_[i];
@@ -135,7 +139,7 @@ class SpinState {
   void flip(index_type i) noexcept { flip_with_delta(i, delta(i)); }
 
   // Flip when the caller has already computed delta(i).
-  void flip_with_delta(index_type i, energy_type d) noexcept {
+  SPINWRIGHT_HOT_INLINE void flip_with_delta(index_type i, energy_type d) noexcept {
     SPINWRIGHT_ASSERT(i < spins_.size(), "spin index beyond the state's model (flip)");
     energy_ += d;
     const std::int8_t old = spins_[i];
@@ -280,6 +284,8 @@ class SpinState {
   }
 
  private:
+  friend struct detail::StateAccess;
+
   energy_type recompute_field(index_type i) const noexcept {
     auto f = static_cast<energy_type>(model_->site_term(i));
     if constexpr (form == Form::ising) {

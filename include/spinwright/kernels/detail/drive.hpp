@@ -7,6 +7,7 @@
 #include "../../config.hpp"
 #include "../../control.hpp"
 
+#include <cstddef>  // std::size_t
 #include <cstdint>  // std::uint64_t
 #include <limits>   // std::numeric_limits
 
@@ -16,6 +17,46 @@ namespace spinwright {
 inline constexpr std::uint64_t unlimited_sweeps = ~std::uint64_t{0};
 
 namespace detail {
+
+// The deadline of a sweep whose duration the drive cannot predict yet (the first sweep of a
+// timed advance: no earlier sweep of this run has been timed). A kernel that watches it reads
+// the clock every sweep_watch_every attempts of that sweep and ends the sweep early once the
+// deadline has passed, so a run whose set-up left less than one sweep of time ends within a
+// few thousand attempts of its deadline instead of one whole sweep after it.
+struct SweepDeadline {
+  Clock clock{};
+  double at = 0;  // the deadline as a reading of `clock`
+  bool passed() const noexcept { return clock.read() >= at; }
+};
+
+// Attempts between two clock reads in a watched sweep: a read costs well under a microsecond
+// and this many attempts some microseconds, so watching adds a few percent to that one sweep.
+inline constexpr std::size_t sweep_watch_every = 1024;
+
+// A watched sweep through a move generator's surface (propose, delta, apply): the same
+// proposals and random draws as an unwatched sweep of the same move, in the same order, so a
+// watched sweep that the deadline does not cut is the same sweep. `attempts` is the sweep's
+// length on entry and the attempts made on return; returns the number accepted.
+template <class Move, class State, class Accept, class Rng>
+std::uint64_t watched_sweep(Move& move, State& state, const Accept& acceptor, Rng& stream, std::size_t& attempts,
+                            const SweepDeadline& deadline) {
+  Rng rng = stream;
+  std::uint64_t accepted = 0;
+  const std::size_t m = attempts;
+  std::size_t k = 0;
+  for (; k < m; ++k) {
+    if (k != 0 && k % sweep_watch_every == 0 && deadline.passed()) break;
+    const auto p = move.propose(state, rng);
+    const auto d = move.delta(state, p);
+    if (acceptor.accept(d, rng)) {
+      move.apply(state, p, d);
+      ++accepted;
+    }
+  }
+  stream = rng;
+  attempts = k;
+  return accepted;
+}
 
 // Checks a Budget once per sweep. The clock is read once per check, and only when the budget
 // has a time limit (otherwise at the start and the end of the run). Elapsed time counts from
@@ -34,6 +75,9 @@ class BudgetCheck {
 
   // Elapsed seconds on the budget's clock since its start (0 without a clock).
   double elapsed() const noexcept { return budget_.clock.valid() ? budget_.clock.read() - start_ : 0.0; }
+
+  // The deadline for a kernel to watch inside a sweep (timed budgets only).
+  SweepDeadline sweep_deadline() const noexcept { return {budget_.clock, start_ + budget_.seconds}; }
 
   // True when the run must end before another sweep; `why` says why. `elapsed` is the value
   // of elapsed() just read by the caller and `next` the expected duration of the next sweep
@@ -82,6 +126,9 @@ class BudgetCheck {
 //   void begin_advance(std::uint64_t limit)  before the first sweep of advance()
 //   void before_sweep(double time_fraction)  before every sweep: the run's time fraction at its end, 0 untimed
 //   bool settled() const                     nothing left to do (descent at a local minimum)
+//   void watch_deadline(const SweepDeadline*) before every sweep: the deadline to watch inside
+//                                            that sweep (its duration cannot be predicted yet),
+//                                            or null; null again when advance() returns
 template <class Kernel>
 class Drive {
  public:
@@ -111,6 +158,9 @@ class Drive {
     StopReason why = StopReason::budget_exhausted;
     double previous = -1;  // elapsed() before the last sweep
     double next = 0;       // expected duration of the next sweep: the last one's
+    // The first sweep of a timed run has no measured duration: the kernel watches the
+    // deadline inside it (when it can), so the set-up plus that sweep cannot overrun by a sweep.
+    const SweepDeadline deadline = check.timed() ? check.sweep_deadline() : SweepDeadline{};
     for (;;) {
       const double elapsed = check.timed() ? check.elapsed() : 0.0;
       if (check.timed()) {
@@ -120,9 +170,11 @@ class Drive {
       if (check.done(k.sweeps_done() - first, limit, k.best_for_target(), elapsed, next, why)) break;
       if (k.settled()) break;
       k.before_sweep(check.time_fraction(elapsed, next));
+      k.watch_deadline(check.timed() && next <= 0 ? &deadline : nullptr);
       if (k.sweep_once()) notify_improvement(observer, k.sweeps_done(), k.best_for_target());
       if (every != 0 && k.sweeps_done() % every == 0) notify_progress(observer, k.sweeps_done(), k.best_for_target());
     }
+    k.watch_deadline(nullptr);
     if (seconds != nullptr) *seconds = check.elapsed();
     return why;
   }
@@ -154,6 +206,7 @@ class Drive {
   Drive() = default;
   void begin_advance(std::uint64_t) noexcept {}
   void before_sweep(double) noexcept {}
+  void watch_deadline(const SweepDeadline*) noexcept {}
   bool settled() const noexcept { return false; }
 
  private:

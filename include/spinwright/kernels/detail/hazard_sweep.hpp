@@ -10,6 +10,7 @@
 #include "../../rng/xoshiro.hpp"
 #include "../../state/spin_state.hpp"
 #include "../acceptance.hpp"
+#include "flip_loop.hpp"
 
 #include <cstddef>  // std::size_t
 #include <cstdint>  // std::int8_t, std::uint32_t, std::uint64_t
@@ -45,6 +46,7 @@ std::uint64_t hazard_sweep(SpinState<Model>& state, Acceptor<typename Model::ene
   const energy_type* fields = state.local_fields();
   const auto n = static_cast<std::uint32_t>(state.size());
   std::uint64_t accepted = 0;
+  FlipLoop<Model> flips(state);  // the flips with the arrays in registers
   std::uint64_t left = hazard.draw(rng);  // hazard left before the next uphill acceptance
   auto delta_at = [spins, fields](std::uint32_t i) -> energy_type {
     if constexpr (Model::form == Form::ising) {
@@ -66,7 +68,7 @@ std::uint64_t hazard_sweep(SpinState<Model>& state, Acceptor<typename Model::ene
           left -= h;
         }
         if (i >= n) break;
-        state.flip_with_delta(static_cast<index_type>(i), d);
+        flips.flip(static_cast<index_type>(i), d);
         ++accepted;
         ++i;
         left = hazard.draw(rng);
@@ -80,7 +82,7 @@ std::uint64_t hazard_sweep(SpinState<Model>& state, Acceptor<typename Model::ene
           left -= h;
           continue;
         }
-        state.flip_with_delta(static_cast<index_type>(i), d);
+        flips.flip(static_cast<index_type>(i), d);
         ++accepted;
         left = hazard.draw(rng);
       }
@@ -102,7 +104,7 @@ std::uint64_t hazard_sweep(SpinState<Model>& state, Acceptor<typename Model::ene
         left -= h;
       }
       if (i >= n) break;
-      state.flip_with_delta(static_cast<index_type>(i), d);
+      flips.flip(static_cast<index_type>(i), d);
       ++accepted;
       ++i;
       if (spent) left = hazard.draw(rng);
@@ -119,10 +121,11 @@ std::uint64_t hazard_sweep(SpinState<Model>& state, Acceptor<typename Model::ene
         }
         left = hazard.draw(rng);
       }
-      state.flip_with_delta(static_cast<index_type>(i), d);
+      flips.flip(static_cast<index_type>(i), d);
       ++accepted;
     }
   }
+  flips.finish();
   stream = rng;
   return accepted;
 }
