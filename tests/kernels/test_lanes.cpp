@@ -324,6 +324,67 @@ TEST_CASE("every vector unit gives the same answer") {
   }
 }
 
+TEST_CASE("narrow stored fields (int8, int16) give the answers of int32 ones") {
+  // The lanes keep int32 fields as int8 or int16 when the field bound allows. Multiplying every
+  // coefficient by 2^k and every beta by 2^-k leaves each acceptance exactly as it was (the
+  // integer y of detail/lane_accept.hpp is unchanged), so the three scalings 1, 2^8 and 2^16,
+  // stored in int8, int16 and int32, must give the same spins, the same accepted counts and
+  // energies in proportion, on every vector unit, with the selection and the table paths.
+  const auto g = anneal_support::random_cubic(300, 4);
+  auto scaled_cubic = [&g](std::int32_t unit) {
+    IsingBuilder<std::int32_t> b(300);
+    for (const auto& e : g.edges) b.add_coupling(e.i, e.j, unit * static_cast<std::int32_t>(e.w));
+    return b.build().value();
+  };
+  const std::int32_t units[3] = {1, 1 << 8, 1 << 16};
+  const std::size_t bytes[3] = {1, 2, 4};
+  std::vector<IsingModel<std::int32_t>> models;
+  for (const std::int32_t u : units) models.push_back(scaled_cubic(u));
+  for (const std::int32_t u : units) models.push_back(glass16<std::int32_t>(u));
+  std::vector<LaneUnit> lane_units;
+  for (const LaneUnit u : {LaneUnit::plain, LaneUnit::avx2, LaneUnit::avx512}) {
+    if (lane_unit_supported(u)) lane_units.push_back(u);
+  }
+  using Lanes = LaneAnnealer<IsingModel<std::int32_t>, 16>;
+  for (std::size_t family = 0; family < 2; ++family) {
+    for (const SiteOrder order : {SiteOrder::sequential, SiteOrder::random}) {
+      for (const Acceptance rule : {Acceptance::metropolis, Acceptance::heat_bath}) {
+        for (const LaneUnit unit : lane_units) {
+          CAPTURE(family);
+          CAPTURE(static_cast<int>(order));
+          CAPTURE(static_cast<int>(rule));
+          CAPTURE(lane_unit_name(unit));
+          std::vector<std::vector<Solution<IsingModel<std::int32_t>::energy_type>>> runs;
+          for (std::size_t k = 0; k < 3; ++k) {
+            const auto& m = models[family * 3 + k];
+            REQUIRE(Lanes::field_bytes_for(m) == bytes[k]);
+            AnnealParams p;
+            p.sweeps = 60;
+            p.order = order;
+            p.acceptance = rule;
+            p.schedule = Schedule::geometric(0.1 / units[k], 3.0 / units[k]);
+            Lanes a(m, p, 13, 0);
+            REQUIRE(a.field_bytes() == bytes[k]);
+            REQUIRE(a.set_unit(unit));
+            a.advance();
+            CHECK(a.field_error() == 0);
+            runs.push_back(a.solutions());
+          }
+          for (std::size_t k = 1; k < 3; ++k) {
+            for (std::size_t l = 0; l < 16; ++l) {
+              CAPTURE(k);
+              CAPTURE(l);
+              CHECK(runs[k][l].spins == runs[0][l].spins);
+              CHECK(runs[k][l].accepted == runs[0][l].accepted);
+              CHECK(runs[k][l].energy == runs[0][l].energy * units[k]);
+            }
+          }
+        }
+      }
+    }
+  }
+}
+
 TEST_CASE("run_restarts takes lanes for many restarts and gives the same tally on any thread count") {
   const auto g = anneal_support::random_cubic(400, 5);
   const auto model = anneal_support::maxcut_model<std::int32_t>(g);

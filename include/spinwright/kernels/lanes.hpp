@@ -128,13 +128,16 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
         params_(params),
         fits_(fits(model)),
         n_(fits_ ? model.num_spins() : 0),
+        field_bytes_(field_bytes_for(model)),
         row_(n_ + 1, std::size_t{0}),
         nb_(count_entries(model, fits_)),
         val_(nb_.size()),
         site_(n_),
         spins_(n_ * Width, std::int8_t{1}),
         best_spins_(n_ * Width, std::int8_t{1}),
-        fields_(n_ * Width),
+        fields_(field_bytes_ == sizeof(field_type) ? n_ * Width : 0),
+        fields16_(field_bytes_ == 2 ? n_ * Width : 0),
+        fields8_(field_bytes_ == 1 ? n_ * Width : 0),
         lane_spins_(n_) {
     init(seed, first_restart, count);
   }
@@ -147,13 +150,16 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
         params_(params),
         fits_(fits(model)),
         n_(fits_ ? model.num_spins() : 0),
+        field_bytes_(field_bytes_for(model)),
         row_(n_ + 1, arena, std::size_t{0}),
         nb_(count_entries(model, fits_), arena),
         val_(nb_.size(), arena),
         site_(n_, arena),
         spins_(n_ * Width, arena, std::int8_t{1}),
         best_spins_(n_ * Width, arena, std::int8_t{1}),
-        fields_(n_ * Width, arena),
+        fields_(field_bytes_ == sizeof(field_type) ? n_ * Width : 0, arena),
+        fields16_(field_bytes_ == 2 ? n_ * Width : 0, arena),
+        fields8_(field_bytes_ == 1 ? n_ * Width : 0, arena),
         lane_spins_(n_, arena) {
     if (valid()) init(seed, first_restart, count);
   }
@@ -163,9 +169,32 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
     const std::size_t n = model.num_spins();
     const std::size_t entries = count_entries(model, true);
     return arena_bytes<std::size_t>(n + 1) + arena_bytes<std::uint32_t>(entries) + arena_bytes<field_type>(entries) +
-           arena_bytes<field_type>(n) + 2 * arena_bytes<std::int8_t>(n * Width) + arena_bytes<field_type>(n * Width) +
+           arena_bytes<field_type>(n) + 2 * arena_bytes<std::int8_t>(n * Width) + stored_field_bytes(model, n * Width) +
            arena_bytes<std::int8_t>(n);
   }
+
+  /// Bytes per stored local field: int32 models keep their fields as int8 when the field bound
+  /// (|site term| + sum |pair| at the worst spin) is at most 63, as int16 up to 16383, so that
+  /// every field and every change of one (2 |pair| for Ising) fits; otherwise sizeof(field_type).
+  /// The arithmetic stays in field_type, so the answers do not depend on this choice.
+  static std::size_t field_bytes_for(const Model& model) noexcept {
+    if constexpr (std::is_same_v<field_type, std::int32_t>) {
+      if (!fits(model)) return sizeof(field_type);
+      std::uint64_t bound = 0;
+      for (std::size_t i = 0; i < model.num_spins(); ++i) {
+        const auto ii = static_cast<index_type>(i);
+        std::uint64_t s = detail::magnitude_u64(model.site_term(ii));
+        model.for_each_neighbour(ii, [&s](index_type, value_type v) { s += detail::magnitude_u64(v); });
+        bound = s > bound ? s : bound;
+      }
+      return bound <= 63 ? 1 : bound <= 16383 ? 2 : sizeof(field_type);
+    } else {
+      static_cast<void>(model);
+      return sizeof(field_type);
+    }
+  }
+  /// This annealer's bytes per stored local field (field_bytes_for(model)).
+  std::size_t field_bytes() const noexcept { return field_bytes_; }
 
   /// Whether the lanes kernel takes this model: fewer than 2^32 spins and, for int32 local
   /// fields, |site term| + sum |pair| below 2^30 at every spin (2^62 for int64), so 2 |field| fits.
@@ -189,7 +218,7 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
 
   bool valid() const noexcept {
     return fits_ && row_.valid() && nb_.valid() && val_.valid() && site_.valid() && spins_.valid() &&
-           best_spins_.valid() && fields_.valid() && lane_spins_.valid();
+           best_spins_.valid() && fields_.valid() && fields16_.valid() && fields8_.valid() && lane_spins_.valid();
   }
 
   /// New streams (seed, first_restart + l) and random starts; counters and bests cleared.
@@ -288,6 +317,29 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
 
  private:
   friend class detail::Drive<LaneAnnealer>;
+
+  static std::size_t stored_field_bytes(const Model& model, std::size_t count) noexcept {
+    const std::size_t bytes = field_bytes_for(model);
+    return bytes == 1 ? arena_bytes<std::int8_t>(count)
+                      : bytes == 2 ? arena_bytes<std::int16_t>(count) : arena_bytes<field_type>(count);
+  }
+
+  // The stored fields in their type (S is field_type, int16 or int8 as field_bytes_ says).
+  template <class S>
+  S* field_data() noexcept {
+    if constexpr (std::is_same_v<S, std::int8_t>) {
+      return fields8_.data();
+    } else if constexpr (std::is_same_v<S, std::int16_t>) {
+      return fields16_.data();
+    } else {
+      return fields_.data();
+    }
+  }
+  field_type field_at(std::size_t x) const noexcept {
+    if (field_bytes_ == 1) return static_cast<field_type>(fields8_[x]);
+    if (field_bytes_ == 2) return static_cast<field_type>(fields16_[x]);
+    return fields_[x];
+  }
 
   static std::size_t count_entries(const Model& model, bool fits) {
     if (!fits) return 0;
@@ -388,23 +440,35 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
     return result;
   }
 
-  void start_from_spins() {
-    for (std::size_t i = 0; i < n_; ++i) {
-      for (std::size_t l = 0; l < Width; ++l) fields_[i * Width + l] = site_[i];
-    }
+  // Every lane's local fields from its spins, in field_type, stored as S.
+  template <class S>
+  void fill_fields(S* out) noexcept {
     const field_type* val = val_.data();
     for (std::size_t i = 0; i < n_; ++i) {
+      field_type f[Width];
+      for (std::size_t l = 0; l < Width; ++l) f[l] = site_[i];
       for (std::size_t k = row_[i]; k < row_[i + 1]; ++k) {
         const std::size_t j = nb_[k];
         for (std::size_t l = 0; l < Width; ++l) {
           const std::int8_t sj = spins_[j * Width + l];
           if constexpr (Model::form == Form::ising) {
-            fields_[i * Width + l] += sj > 0 ? val[k] : -val[k];
+            f[l] += sj > 0 ? val[k] : -val[k];
           } else {
-            if (sj < 0) fields_[i * Width + l] += val[k];
+            if (sj < 0) f[l] += val[k];
           }
         }
       }
+      for (std::size_t l = 0; l < Width; ++l) out[i * Width + l] = static_cast<S>(f[l]);
+    }
+  }
+
+  void start_from_spins() {
+    if (field_bytes_ == 1) {
+      fill_fields(fields8_.data());
+    } else if (field_bytes_ == 2) {
+      fill_fields(fields16_.data());
+    } else {
+      fill_fields(fields_.data());
     }
     for (std::size_t l = 0; l < Width; ++l) {
       for (std::size_t i = 0; i < n_; ++i) lane_spins_[i] = spins_[i * Width + l];
@@ -456,16 +520,33 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
       }
     }
     if (some) {
-      std::int8_t* b = best_spins_.data();
-      const std::int8_t* s = spins_.data();
-      for (std::size_t i = 0; i < n_; ++i) {
-        SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
-          const std::size_t x = i * Width + l;
-          b[x] = static_cast<std::int8_t>((s[x] & improved[l]) | (b[x] & ~improved[l]));
-        }
+      switch (unit_) {
+#if SPINWRIGHT_LANE_DISPATCH
+        case LaneUnit::avx512:
+          keep_best_avx512(improved);
+          break;
+        case LaneUnit::avx2:
+          keep_best_avx2(improved);
+          break;
+#endif
+        default:
+          keep_best(improved);
+          break;
       }
     }
     return any;
+  }
+
+  // Lanes whose mask is -1 take their current spins as their best.
+  SPINWRIGHT_LANE_INLINE void keep_best(const std::int8_t* improved) noexcept {
+    std::int8_t* b = best_spins_.data();
+    const std::int8_t* s = spins_.data();
+    for (std::size_t i = 0; i < n_; ++i) {
+      SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
+        const std::size_t x = i * Width + l;
+        b[x] = static_cast<std::int8_t>((s[x] & improved[l]) | (b[x] & ~improved[l]));
+      }
+    }
   }
 
   void sweep_plain(bool heat, bool random, double scale) noexcept { sweep_any(heat, random, scale); }
@@ -477,37 +558,54 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
                                                                                        double scale) noexcept {
     sweep_any(heat, random, scale);
   }
+  __attribute__((target("avx2"))) void keep_best_avx2(const std::int8_t* improved) noexcept { keep_best(improved); }
+  __attribute__((target("avx2,avx512f,avx512bw,avx512vl,avx512dq"))) void keep_best_avx512(
+      const std::int8_t* improved) noexcept {
+    keep_best(improved);
+  }
 #endif
 
   SPINWRIGHT_LANE_INLINE void sweep_any(bool heat, bool random, double scale) noexcept {
-    if (small_) {
-      sweep_rule<true>(heat, random, scale);
+    if constexpr (std::is_same_v<field_type, std::int32_t>) {
+      if (field_bytes_ == 1) {
+        sweep_small<std::int8_t>(heat, random, scale);
+      } else if (field_bytes_ == 2) {
+        sweep_small<std::int16_t>(heat, random, scale);
+      } else {
+        sweep_small<field_type>(heat, random, scale);
+      }
     } else {
-      sweep_rule<false>(heat, random, scale);
+      sweep_rule<false, field_type>(heat, random, scale);
     }
   }
-  template <bool Small>
+  template <class Store>
+  SPINWRIGHT_LANE_INLINE void sweep_small(bool heat, bool random, double scale) noexcept {
+    if (small_) {
+      sweep_rule<true, Store>(heat, random, scale);
+    } else {
+      sweep_rule<false, Store>(heat, random, scale);
+    }
+  }
+  template <bool Small, class Store>
   SPINWRIGHT_LANE_INLINE void sweep_rule(bool heat, bool random, double scale) noexcept {
-    if constexpr (Small && !std::is_same_v<field_type, std::int32_t>) {
-      sweep_rule<false>(heat, random, scale);
-    } else if (heat) {
+    if (heat) {
       if (random) {
-        sweep_body<Acceptance::heat_bath, true, Small>(scale);
+        sweep_body<Acceptance::heat_bath, true, Small, Store>(scale);
       } else {
-        sweep_body<Acceptance::heat_bath, false, Small>(scale);
+        sweep_body<Acceptance::heat_bath, false, Small, Store>(scale);
       }
     } else {
       if (random) {
-        sweep_body<Acceptance::metropolis, true, Small>(scale);
+        sweep_body<Acceptance::metropolis, true, Small, Store>(scale);
       } else {
-        sweep_body<Acceptance::metropolis, false, Small>(scale);
+        sweep_body<Acceptance::metropolis, false, Small, Store>(scale);
       }
     }
   }
 
   // One sweep over every lane. Each loop over l is one vector operation (or a few) per site:
   // no branch depends on a lane's data except the skip when no lane accepted.
-  template <Acceptance Rule, bool Random, bool Small>
+  template <Acceptance Rule, bool Random, bool Small, class Store>
   SPINWRIGHT_LANE_INLINE void sweep_body(double scale) noexcept {
     const detail::LaneMultiplier mult = detail::lane_multiplier(scale);
     const detail::LaneExpTable& table = detail::lane_exp_table;
@@ -518,7 +616,7 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
     constexpr bool ising = Model::form == Form::ising;
     const std::size_t n = n_;
     std::int8_t* spins = spins_.data();
-    field_type* fields = fields_.data();
+    Store* fields = field_data<Store>();
     const std::size_t* row = row_.data();
     const std::uint32_t* nb = nb_.data();
     const field_type* val = val_.data();
@@ -580,14 +678,15 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
         SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) u[l] = static_cast<std::uint32_t>(draw[l]) >> 2;
       }
       std::int8_t* sp = spins + i * Width;
-      field_type* fp = fields + i * Width;
+      const Store* fp = fields + i * Width;
       field_type delta[Width];
       SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
         const field_type s = sp[l];
+        const auto f = static_cast<field_type>(fp[l]);
         if constexpr (ising) {
-          delta[l] = -2 * s * fp[l];
+          delta[l] = -2 * s * f;
         } else {
-          delta[l] = s * fp[l];
+          delta[l] = s * f;
         }
       }
       // q = 2^30 exp(-beta |delta|) (detail/lane_accept.hpp) and the sign of delta.
@@ -645,12 +744,21 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
           take[l] = prod < bound ? 1 : 0;
         }
       }
-      field_type change[Width];
+      // A neighbour's field changes by -2 s v (Ising) or s v (QUBO) in the lanes that flip:
+      // with the weight w = 2 v (or v) that is ((w ^ neg) - neg) & taken, neg = -1 where s > 0
+      // (Ising) or s < 0 (QUBO); no multiplication, and exact in the stored type.
+      using Mask = std::conditional_t<std::is_integral_v<Store>, Store, std::int64_t>;
+      [[maybe_unused]] Mask neg[Width];
+      [[maybe_unused]] Mask taken[Width];
+      [[maybe_unused]] field_type change[Width];  // floating fields: -2 s or s, 0 where the lane keeps its spin
       std::int32_t any = 0;
       SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
         const std::int8_t s = sp[l];
         const bool t = take[l] != 0;
-        if constexpr (ising) {
+        if constexpr (std::is_integral_v<Store>) {
+          neg[l] = (ising ? s > 0 : s < 0) ? Mask{-1} : Mask{0};
+          taken[l] = t ? Mask{-1} : Mask{0};
+        } else if constexpr (ising) {
           change[l] = t ? static_cast<field_type>(-2 * s) : field_type{0};
         } else {
           change[l] = t ? static_cast<field_type>(s) : field_type{0};
@@ -669,9 +777,16 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
       }
       if (any != 0) {
         for (std::size_t e = row[i]; e < row[i + 1]; ++e) {
-          field_type* fj = fields + static_cast<std::size_t>(nb[e]) * Width;
-          const field_type v = val[e];
-          SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) fj[l] += change[l] * v;
+          Store* fj = fields + static_cast<std::size_t>(nb[e]) * Width;
+          if constexpr (std::is_integral_v<Store>) {
+            const auto w = static_cast<Store>(ising ? 2 * val[e] : val[e]);
+            SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
+              fj[l] = static_cast<Store>(fj[l] + (((w ^ neg[l]) - neg[l]) & taken[l]));
+            }
+          } else {
+            const field_type v = val[e];
+            SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) fj[l] += change[l] * v;
+          }
         }
       }
     }
@@ -687,9 +802,10 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
   }
 
   // Hints that a site's rows (its own and its neighbours' fields) will be needed soon.
-  static SPINWRIGHT_LANE_INLINE void lane_prefetch(const field_type* own, const std::int8_t* spins,
+  template <class Store>
+  static SPINWRIGHT_LANE_INLINE void lane_prefetch(const Store* own, const std::int8_t* spins,
                                                    const std::uint32_t* neighbours, std::size_t degree,
-                                                   const field_type* fields) noexcept {
+                                                   const Store* fields) noexcept {
 #if defined(__GNUC__) || defined(__clang__)
     __builtin_prefetch(own);
     __builtin_prefetch(spins);
@@ -707,13 +823,16 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
   AnnealParams params_;
   bool fits_;
   std::size_t n_;
+  std::size_t field_bytes_;  // bytes per stored local field (field_bytes_for)
   detail::Buffer<std::size_t> row_;
   detail::Buffer<std::uint32_t> nb_;
   detail::Buffer<field_type> val_;
   detail::Buffer<field_type> site_;
   detail::Buffer<std::int8_t> spins_;       // [site][lane]
   detail::Buffer<std::int8_t> best_spins_;  // [site][lane]
-  detail::Buffer<field_type> fields_;       // [site][lane]
+  detail::Buffer<field_type> fields_;       // [site][lane] when field_bytes_ == sizeof(field_type)
+  detail::Buffer<std::int16_t> fields16_;   // [site][lane] when field_bytes_ == 2
+  detail::Buffer<std::int8_t> fields8_;     // [site][lane] when field_bytes_ == 1
   mutable detail::Buffer<std::int8_t> lane_spins_;
   std::uint64_t s0_[Width]{}, s1_[Width]{}, s2_[Width]{}, s3_[Width]{};
   Xoshiro256 order_rng_{};
@@ -749,7 +868,7 @@ double LaneAnnealer<Model, Width>::field_error() const noexcept {
           if (sj < 0) f += static_cast<double>(val_[k]);
         }
       }
-      const double err = f - static_cast<double>(fields_[i * Width + l]);
+      const double err = f - static_cast<double>(field_at(i * Width + l));
       worst = (err < 0 ? -err : err) > worst ? (err < 0 ? -err : err) : worst;
     }
   }
