@@ -93,6 +93,12 @@ inline const char* lane_unit_name(LaneUnit unit) noexcept {
   return "plain";
 }
 
+/// How a LaneAnnealer finds q = 2^30 exp(-beta |delta|) for each lane: by selection among this
+/// sweep's values for the few delta sizes of the model (int32 models whose |delta| takes fewer
+/// than lane_levels units), by lookup in a table of them (fewer than lane_table_levels units),
+/// or by interpolation in the exp table (any model). All three give the same q.
+enum class LanePath : std::uint8_t { interpolate = 0, select = 1, lookup = 2 };
+
 /// The local-field type of the lanes kernel: int32 for integer values up to 32 bits (a model
 /// whose field bound reaches 2^30 is refused: fits() is false), int64 for int64 values,
 /// double for floating values.
@@ -113,6 +119,9 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
   static constexpr std::size_t width = Width;
   /// int32 models whose largest |delta| is below this many delta units select q per sweep.
   static constexpr std::size_t lane_levels = 8;
+  /// int32 models whose largest |delta| is below this many delta units look q up in a table
+  /// of this sweep's values, one entry per delta size.
+  static constexpr std::size_t lane_table_levels = 256;
 
   template <class... Args>
   LaneAnnealer(const Model&&, Args&&...) = delete;
@@ -302,6 +311,19 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
   }
   LaneUnit unit() const noexcept { return unit_; }
 
+  /// The way q is found (chosen at construction: the cheapest this model allows).
+  LanePath path() const noexcept { return static_cast<LanePath>(path_); }
+  /// Find q this way instead (false, and no change, when the model's delta sizes do not allow
+  /// it); the answers are the same.
+  bool set_path(LanePath path) noexcept {
+    const int p = static_cast<int>(path);
+    const bool allowed = p == path_interpolate || (p == path_lookup && best_path_ != path_interpolate) ||
+                         (p == path_select && best_path_ == path_select);
+    if (!allowed) return false;
+    path_ = p;
+    return true;
+  }
+
   const Model& model() const noexcept { return *model_; }
   std::uint64_t sweeps_done() const noexcept { return sweeps_; }
   std::uint64_t attempted(std::size_t) const noexcept { return sweeps_ * n_; }
@@ -377,8 +399,9 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
     if constexpr (std::is_same_v<field_type, std::int32_t>) {
       unit_shift_ = detail::delta_shift(*model_);
       const std::uint64_t units = detail::max_flip_delta(*model_) >> unit_shift_;
-      small_ = units < lane_levels;
-      levels_used_ = small_ ? static_cast<std::int32_t>(units) + 1 : 1;
+      path_ = units < lane_levels ? path_select : units < lane_table_levels ? path_lookup : path_interpolate;
+      best_path_ = path_;
+      levels_used_ = path_ != path_interpolate ? static_cast<std::int32_t>(units) + 1 : 1;
     }
     if constexpr (std::is_integral_v<field_type>) {
       const std::uint64_t top = static_cast<std::uint64_t>(std::numeric_limits<field_type>::max());
@@ -575,43 +598,50 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
         sweep_small<field_type>(heat, random, scale);
       }
     } else {
-      sweep_rule<false, field_type>(heat, random, scale);
+      sweep_rule<path_interpolate, field_type>(heat, random, scale);
     }
   }
   template <class Store>
   SPINWRIGHT_LANE_INLINE void sweep_small(bool heat, bool random, double scale) noexcept {
-    if (small_) {
-      sweep_rule<true, Store>(heat, random, scale);
+    if (path_ == path_select) {
+      sweep_rule<path_select, Store>(heat, random, scale);
+    } else if (path_ == path_lookup) {
+      sweep_rule<path_lookup, Store>(heat, random, scale);
     } else {
-      sweep_rule<false, Store>(heat, random, scale);
+      sweep_rule<path_interpolate, Store>(heat, random, scale);
     }
   }
-  template <bool Small, class Store>
+  template <int Path, class Store>
   SPINWRIGHT_LANE_INLINE void sweep_rule(bool heat, bool random, double scale) noexcept {
     if (heat) {
       if (random) {
-        sweep_body<Acceptance::heat_bath, true, Small, Store>(scale);
+        sweep_body<Acceptance::heat_bath, true, Path, Store>(scale);
       } else {
-        sweep_body<Acceptance::heat_bath, false, Small, Store>(scale);
+        sweep_body<Acceptance::heat_bath, false, Path, Store>(scale);
       }
     } else {
       if (random) {
-        sweep_body<Acceptance::metropolis, true, Small, Store>(scale);
+        sweep_body<Acceptance::metropolis, true, Path, Store>(scale);
       } else {
-        sweep_body<Acceptance::metropolis, false, Small, Store>(scale);
+        sweep_body<Acceptance::metropolis, false, Path, Store>(scale);
       }
     }
   }
 
   // One sweep over every lane. Each loop over l is one vector operation (or a few) per site:
   // no branch depends on a lane's data except the skip when no lane accepted.
-  template <Acceptance Rule, bool Random, bool Small, class Store>
+  template <Acceptance Rule, bool Random, int Path, class Store>
   SPINWRIGHT_LANE_INLINE void sweep_body(double scale) noexcept {
     const detail::LaneMultiplier mult = detail::lane_multiplier(scale);
     const detail::LaneExpTable& table = detail::lane_exp_table;
-    std::int32_t levels[lane_levels];
-    for (std::size_t m = 0; m < lane_levels; ++m) {
-      levels[m] = detail::lane_exp_q(detail::lane_y(static_cast<std::uint32_t>(m) << unit_shift_, mult), table);
+    // This sweep's q for every delta size the model has (select and lookup paths): the
+    // numbers the interpolation below computes for those deltas, so the answer is the same.
+    std::int32_t levels[Path == path_lookup ? lane_table_levels : lane_levels];
+    constexpr auto level_count = static_cast<std::int32_t>(Path == path_lookup ? lane_table_levels : lane_levels);
+    for (std::int32_t m = 0; m < level_count; ++m) {
+      levels[m] = m < levels_used_ || m == 0 ? detail::lane_exp_q(
+                                                   detail::lane_y(static_cast<std::uint32_t>(m) << unit_shift_, mult), table)
+                                             : 0;
     }
     constexpr bool ising = Model::form == Form::ising;
     const std::size_t n = n_;
@@ -692,9 +722,14 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
       // q = 2^30 exp(-beta |delta|) (detail/lane_accept.hpp) and the sign of delta.
       std::int32_t q[Width];
       std::int32_t up[Width];
-      if constexpr (Small) {
-        // Few delta sizes: q by selection from this sweep's values (the same numbers the
-        // table path below computes for these deltas, so the answer does not change).
+      if constexpr (Path == path_lookup) {
+        SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
+          const std::int32_t d = static_cast<std::int32_t>(delta[l]);
+          q[l] = levels[(d < 0 ? -d : d) >> unit_shift_];
+          up[l] = d > 0 ? 1 : 0;
+        }
+      } else if constexpr (Path == path_select) {
+        // Few delta sizes: q by selection from this sweep's values.
         std::int32_t level[Width];
         SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
           const std::int32_t d = static_cast<std::int32_t>(delta[l]);
@@ -844,8 +879,14 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
   BetaSpan range_{};
   LaneUnit unit_ = LaneUnit::plain;
   unsigned unit_shift_ = 0;       // int32 models: every |delta| is a multiple of 2^unit_shift_
-  bool small_ = false;            // int32 models whose |delta| takes fewer than lane_levels units
-  std::int32_t levels_used_ = 1;  // small_: the largest |delta| in units, plus one
+  // How q is found: by selection (int32 models whose |delta| takes fewer than lane_levels
+  // units), by lookup (fewer than lane_table_levels) or by interpolation in the exp table.
+  static constexpr int path_interpolate = 0;
+  static constexpr int path_select = 1;
+  static constexpr int path_lookup = 2;
+  int path_ = path_interpolate;
+  int best_path_ = path_interpolate;  // the path chosen at construction
+  std::int32_t levels_used_ = 1;  // select and lookup: the largest |delta| in units, plus one
   std::size_t flush_every_ = 1;   // attempts whose energy changes surely fit the field type
   std::size_t count_ = Width;
   std::uint64_t first_ = 0;
