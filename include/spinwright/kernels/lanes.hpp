@@ -233,8 +233,18 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
   /// New streams (seed, first_restart + l) and random starts; counters and bests cleared.
   void reset(std::uint64_t seed, std::uint64_t first_restart = 0) {
     begin(seed, first_restart);
-    for (std::size_t l = 0; l < Width; ++l) {
-      for (std::size_t i = 0; i < n_; ++i) spins_[i * Width + l] = (next_lane(l) >> 63) != 0 ? 1 : -1;
+    switch (unit_) {
+#if SPINWRIGHT_LANE_DISPATCH
+      case LaneUnit::avx512:
+        random_spins_avx512();
+        break;
+      case LaneUnit::avx2:
+        random_spins_avx2();
+        break;
+#endif
+      default:
+        random_spins();
+        break;
     }
     start_from_spins();
   }
@@ -448,50 +458,100 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
     s2_[l] = splitmix64(sm);
     s3_[l] = splitmix64(sm);
   }
-  std::uint64_t next_lane(std::size_t l) noexcept {
-    const std::uint64_t a = s0_[l], b = s1_[l];
-    std::uint64_t c = s2_[l], d = s3_[l];
-    const std::uint64_t sum = a + d;
-    const std::uint64_t result = ((sum << 23) | (sum >> 41)) + a;
-    const std::uint64_t t = b << 17;
-    c ^= a;
-    d ^= b;
-    s1_[l] = b ^ c;
-    s0_[l] = a ^ d;
-    s2_[l] = c ^ t;
-    s3_[l] = (d << 45) | (d >> 19);
-    return result;
-  }
 
   // Every lane's local fields from its spins, in field_type, stored as S.
   template <class S>
-  void fill_fields(S* out) noexcept {
+  SPINWRIGHT_LANE_INLINE void fill_fields(S* out) noexcept {
     const field_type* val = val_.data();
+    const field_type* site = site_.data();
+    const std::size_t* row = row_.data();
+    const std::uint32_t* nb = nb_.data();
+    const std::int8_t* spins = spins_.data();
     for (std::size_t i = 0; i < n_; ++i) {
       field_type f[Width];
-      for (std::size_t l = 0; l < Width; ++l) f[l] = site_[i];
-      for (std::size_t k = row_[i]; k < row_[i + 1]; ++k) {
-        const std::size_t j = nb_[k];
-        for (std::size_t l = 0; l < Width; ++l) {
-          const std::int8_t sj = spins_[j * Width + l];
+      SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) f[l] = site[i];
+      for (std::size_t k = row[i]; k < row[i + 1]; ++k) {
+        const std::int8_t* sj = spins + static_cast<std::size_t>(nb[k]) * Width;
+        const field_type v = val[k];
+        SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
           if constexpr (Model::form == Form::ising) {
-            f[l] += sj > 0 ? val[k] : -val[k];
+            f[l] += sj[l] > 0 ? v : -v;
           } else {
-            if (sj < 0) f[l] += val[k];
+            f[l] += sj[l] < 0 ? v : field_type{0};
           }
         }
       }
-      for (std::size_t l = 0; l < Width; ++l) out[i * Width + l] = static_cast<S>(f[l]);
+      S* o = out + i * Width;
+      SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) o[l] = static_cast<S>(f[l]);
     }
   }
 
-  void start_from_spins() {
+  // Lane l's spin i is the sign of its stream's i-th draw (as the Annealer's random start); all
+  // lanes step together, site by site (each lane's draws in the same order as one by one).
+  SPINWRIGHT_LANE_INLINE void random_spins() noexcept {
+    std::uint64_t s0[Width], s1[Width], s2[Width], s3[Width];
+    for (std::size_t l = 0; l < Width; ++l) {
+      s0[l] = s0_[l];
+      s1[l] = s1_[l];
+      s2[l] = s2_[l];
+      s3[l] = s3_[l];
+    }
+    std::int8_t* spins = spins_.data();
+    for (std::size_t i = 0; i < n_; ++i) {
+      std::int8_t* sp = spins + i * Width;
+      SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
+        const std::uint64_t a = s0[l], b = s1[l];
+        std::uint64_t c = s2[l], d = s3[l];
+        const std::uint64_t sum = a + d;
+        const std::uint64_t draw = ((sum << 23) | (sum >> 41)) + a;
+        const std::uint64_t t = b << 17;
+        c ^= a;
+        d ^= b;
+        s1[l] = b ^ c;
+        s0[l] = a ^ d;
+        s2[l] = c ^ t;
+        s3[l] = (d << 45) | (d >> 19);
+        sp[l] = (draw >> 63) != 0 ? std::int8_t{1} : std::int8_t{-1};
+      }
+    }
+    for (std::size_t l = 0; l < Width; ++l) {
+      s0_[l] = s0[l];
+      s1_[l] = s1[l];
+      s2_[l] = s2[l];
+      s3_[l] = s3[l];
+    }
+  }
+  SPINWRIGHT_LANE_INLINE void fill_any() noexcept {
     if (field_bytes_ == 1) {
       fill_fields(fields8_.data());
     } else if (field_bytes_ == 2) {
       fill_fields(fields16_.data());
     } else {
       fill_fields(fields_.data());
+    }
+  }
+#if SPINWRIGHT_LANE_DISPATCH
+  __attribute__((target("avx2"))) void random_spins_avx2() noexcept { random_spins(); }
+  __attribute__((target("avx2,avx512f,avx512bw,avx512vl,avx512dq"))) void random_spins_avx512() noexcept {
+    random_spins();
+  }
+  __attribute__((target("avx2"))) void fill_avx2() noexcept { fill_any(); }
+  __attribute__((target("avx2,avx512f,avx512bw,avx512vl,avx512dq"))) void fill_avx512() noexcept { fill_any(); }
+#endif
+
+  void start_from_spins() {
+    switch (unit_) {
+#if SPINWRIGHT_LANE_DISPATCH
+      case LaneUnit::avx512:
+        fill_avx512();
+        break;
+      case LaneUnit::avx2:
+        fill_avx2();
+        break;
+#endif
+      default:
+        fill_any();
+        break;
     }
     for (std::size_t l = 0; l < Width; ++l) {
       for (std::size_t i = 0; i < n_; ++i) lane_spins_[i] = spins_[i * Width + l];
