@@ -703,6 +703,7 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
                                                    detail::lane_y(static_cast<std::uint32_t>(m) << unit_shift_, mult), table)
                                              : 0;
     }
+    const unsigned shift = unit_shift_;
     constexpr bool ising = Model::form == Form::ising;
     const std::size_t n = n_;
     std::int8_t* spins = spins_.data();
@@ -769,76 +770,6 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
       }
       std::int8_t* sp = spins + i * Width;
       const Store* fp = fields + i * Width;
-      field_type delta[Width];
-      SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
-        const field_type s = sp[l];
-        const auto f = static_cast<field_type>(fp[l]);
-        if constexpr (ising) {
-          delta[l] = -2 * s * f;
-        } else {
-          delta[l] = s * f;
-        }
-      }
-      // q = 2^30 exp(-beta |delta|) (detail/lane_accept.hpp) and the sign of delta.
-      std::int32_t q[Width];
-      std::int32_t up[Width];
-      if constexpr (Path == path_lookup) {
-        SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
-          const std::int32_t d = static_cast<std::int32_t>(delta[l]);
-          q[l] = levels[(d < 0 ? -d : d) >> unit_shift_];
-          up[l] = d > 0 ? 1 : 0;
-        }
-      } else if constexpr (Path == path_select) {
-        // Few delta sizes: q by selection from this sweep's values.
-        std::int32_t level[Width];
-        SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
-          const std::int32_t d = static_cast<std::int32_t>(delta[l]);
-          level[l] = (d < 0 ? -d : d) >> unit_shift_;
-          up[l] = d > 0 ? 1 : 0;
-          q[l] = levels[0];
-        }
-        for (std::int32_t m = 1; m < levels_used_; ++m) {
-          const std::int32_t value = levels[m];
-          SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) q[l] = level[l] == m ? value : q[l];
-        }
-      } else {
-        std::int32_t y[Width];  // |beta delta| in units of 2^-24 / log2 e, saturated
-        if constexpr (std::is_same_v<field_type, std::int32_t>) {
-          SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
-            const std::int32_t d = delta[l];
-            const auto ad = static_cast<std::uint32_t>(d < 0 ? -d : d);
-            y[l] = detail::lane_y(ad, mult);
-            up[l] = d > 0 ? 1 : 0;
-          }
-        } else {
-          SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
-            const double d = static_cast<double>(delta[l]);
-            double a = (d < 0 ? -d : d) * scale;
-            a = a < detail::lane_y_max ? a : detail::lane_y_max;
-            y[l] = static_cast<std::int32_t>(a);
-          }
-          SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) up[l] = delta[l] > 0 ? 1 : 0;
-        }
-        SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
-          const std::int32_t yi = y[l];
-          const std::int32_t n_shift = yi >> 24;
-          const std::int32_t idx = (yi >> 12) & 4095;
-          const std::int32_t frac = yi & 4095;
-          q[l] = (table.e[idx] - ((table.d[idx] * frac) >> 12)) >> n_shift;
-        }
-      }
-      std::int32_t take[Width];
-      SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
-        if constexpr (Rule == Acceptance::metropolis) {
-          const std::int32_t qd = up[l] != 0 ? q[l] : (1 << 30);
-          take[l] = u[l] < static_cast<std::uint32_t>(qd) ? 1 : 0;
-        } else {
-          const std::uint64_t prod = static_cast<std::uint64_t>(u[l]) * (static_cast<std::uint32_t>(q[l]) + (1u << 30));
-          const std::uint64_t bound =
-              up[l] != 0 ? static_cast<std::uint64_t>(static_cast<std::uint32_t>(q[l])) << 30 : std::uint64_t{1} << 60;
-          take[l] = prod < bound ? 1 : 0;
-        }
-      }
       // A neighbour's field changes by -2 s v (Ising) or s v (QUBO) in the lanes that flip:
       // with the weight w = 2 v (or v) that is ((w ^ neg) - neg) & taken, neg = -1 where s > 0
       // (Ising) or s < 0 (QUBO); no multiplication, and exact in the stored type.
@@ -847,21 +778,96 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
       [[maybe_unused]] Mask taken[Width];
       [[maybe_unused]] field_type change[Width];  // floating fields: -2 s or s, 0 where the lane keeps its spin
       std::int32_t any = 0;
-      SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
-        const std::int8_t s = sp[l];
-        const bool t = take[l] != 0;
-        if constexpr (std::is_integral_v<Store>) {
-          neg[l] = (ising ? s > 0 : s < 0) ? Mask{-1} : Mask{0};
-          taken[l] = t ? Mask{-1} : Mask{0};
-        } else if constexpr (ising) {
-          change[l] = t ? static_cast<field_type>(-2 * s) : field_type{0};
-        } else {
-          change[l] = t ? static_cast<field_type>(s) : field_type{0};
+      // Selection and interpolation: q in loops of their own (they vectorise better that way).
+      [[maybe_unused]] std::int32_t qv[Width];
+      if constexpr (Path == path_select) {
+        // Few delta sizes: q by selection from this sweep's values.
+        std::int32_t level[Width];
+        SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
+          const std::int32_t f = static_cast<std::int32_t>(fp[l]);
+          level[l] = ((f < 0 ? -f : f) << (ising ? 1 : 0)) >> shift;
+          qv[l] = levels[0];
         }
-        sp[l] = t ? static_cast<std::int8_t>(-s) : s;
-        partial[l] += t ? delta[l] : field_type{0};
-        accepted[l] += static_cast<std::uint32_t>(take[l]);
-        any |= take[l];
+        for (std::int32_t m = 1; m < levels_used_; ++m) {
+          const std::int32_t value = levels[m];
+          SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) qv[l] = level[l] == m ? value : qv[l];
+        }
+      } else if constexpr (Path == path_interpolate) {
+        std::int32_t y[Width];  // |beta delta| in units of 2^-24 / log2 e, saturated
+        SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
+          const auto f = static_cast<field_type>(fp[l]);
+          const field_type sf = sp[l] > 0 ? f : -f;
+          const field_type delta = ising ? -2 * sf : sf;
+          if constexpr (std::is_same_v<field_type, std::int32_t>) {
+            y[l] = detail::lane_y(static_cast<std::uint32_t>(delta < 0 ? -delta : delta), mult);
+          } else {
+            const double d = static_cast<double>(delta);
+            double a = (d < 0 ? -d : d) * scale;
+            a = a < detail::lane_y_max ? a : detail::lane_y_max;
+            y[l] = static_cast<std::int32_t>(a);
+          }
+        }
+        SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
+          const std::int32_t yi = y[l];
+          const std::int32_t n_shift = yi >> 24;
+          const std::int32_t idx = (yi >> 12) & 4095;
+          const std::int32_t frac = yi & 4095;
+          qv[l] = (table.e[idx] - ((table.d[idx] * frac) >> 12)) >> n_shift;
+        }
+      }
+      // One pass over the lanes per attempt: delta, q = 2^30 exp(-beta |delta|)
+      // (detail/lane_accept.hpp), the decision and its effects, with nothing kept in arrays
+      // between steps.
+      SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
+        const std::int8_t s8 = sp[l];
+        const auto f = static_cast<field_type>(fp[l]);
+        field_type delta;
+        if constexpr (std::is_integral_v<field_type>) {
+          const auto sm = static_cast<field_type>(s8 >> 7);  // 0 or -1: s f = (f ^ sm) - sm
+          delta = ising ? -2 * ((f ^ sm) - sm) : (f ^ sm) - sm;
+        } else if constexpr (ising) {
+          delta = s8 > 0 ? -2 * f : 2 * f;
+        } else {
+          delta = s8 > 0 ? f : -f;
+        }
+        std::int32_t q;
+        bool up;
+        if constexpr (Path == path_lookup) {
+          const std::int32_t d = static_cast<std::int32_t>(delta);
+          q = levels[(d < 0 ? -d : d) >> shift];
+          up = d > 0;
+        } else {
+          q = qv[l];  // select and interpolate: computed above
+          up = delta > 0;
+        }
+        // tm = -1 where the lane flips, 0 where it keeps its spin; everything after is masks.
+        std::int32_t tm;
+        if constexpr (Rule == Acceptance::metropolis) {
+          const std::int32_t qd = up ? q : (1 << 30);
+          tm = -static_cast<std::int32_t>(u[l] < static_cast<std::uint32_t>(qd));
+        } else {
+          const std::uint64_t prod = static_cast<std::uint64_t>(u[l]) * (static_cast<std::uint32_t>(q) + (1u << 30));
+          const std::uint64_t bound =
+              up ? static_cast<std::uint64_t>(static_cast<std::uint32_t>(q)) << 30 : std::uint64_t{1} << 60;
+          tm = -static_cast<std::int32_t>(prod < bound);
+        }
+        const std::int8_t sign = static_cast<std::int8_t>(s8 >> 7);  // -1 where s = -1
+        if constexpr (std::is_integral_v<Store>) {
+          neg[l] = static_cast<Mask>(ising ? ~sign : sign);
+          taken[l] = static_cast<Mask>(tm);
+        } else if constexpr (ising) {
+          change[l] = tm != 0 ? static_cast<field_type>(-2 * s8) : field_type{0};
+        } else {
+          change[l] = tm != 0 ? static_cast<field_type>(s8) : field_type{0};
+        }
+        sp[l] = static_cast<std::int8_t>(s8 ^ (tm & -2));  // +1 <-> -1
+        if constexpr (std::is_integral_v<field_type>) {
+          partial[l] += delta & static_cast<field_type>(tm);
+        } else {
+          partial[l] += tm != 0 ? delta : field_type{0};
+        }
+        accepted[l] += static_cast<std::uint32_t>(tm & 1);
+        any |= tm;
       }
       if (++since_flush == flush_every_) {
         since_flush = 0;
