@@ -324,6 +324,114 @@ TEST_CASE("every vector unit gives the same answer") {
   }
 }
 
+TEST_CASE("narrow stored fields (int8, int16) and every way of finding q give the same answers") {
+  // The lanes keep int32 fields as int8 or int16 when the field bound allows, and find q by
+  // selection, lookup or interpolation as the model's delta sizes allow. Multiplying every
+  // coefficient by 2^k and every beta by 2^-k leaves each acceptance exactly as it was (the
+  // integer y of detail/lane_accept.hpp is unchanged), so the scalings 1, 2^8 and 2^16, stored
+  // in int8, int16 and int32, must give the same spins, the same accepted counts and energies
+  // in proportion, on every vector unit and with every path the model allows.
+  const auto g = anneal_support::random_cubic(300, 4);
+  auto scaled_cubic = [&g](std::int32_t unit) {
+    IsingBuilder<std::int32_t> b(300);
+    for (const auto& e : g.edges) b.add_coupling(e.i, e.j, unit * static_cast<std::int32_t>(e.w));
+    return b.build().value();
+  };
+  // Couplings of many sizes (1..199, odd and even) on a ring with chords: more than
+  // lane_table_levels delta sizes, so the default path interpolates.
+  auto wide_glass = [](std::int32_t unit) {
+    IsingBuilder<std::int32_t> b(64);
+    Xoshiro256 pick(11);
+    for (std::uint32_t i = 0; i < 64; ++i) {
+      for (const std::uint32_t k : {1u, 7u}) {
+        const auto w = static_cast<std::int32_t>(pick.below(199)) + 1;
+        b.add_coupling(i, (i + k) % 64, unit * (pick.coin() ? w : -w));
+      }
+    }
+    return b.build().value();
+  };
+  struct Family {
+    std::vector<IsingModel<std::int32_t>> models;
+    std::vector<std::int32_t> units;
+    std::vector<std::size_t> bytes;
+    LanePath path;
+  };
+  std::vector<Family> families(3);
+  for (const std::int32_t u : {1, 1 << 8, 1 << 16}) {
+    families[0].models.push_back(scaled_cubic(u));
+    families[1].models.push_back(glass16<std::int32_t>(u));
+    families[0].units.push_back(u);
+    families[1].units.push_back(u);
+  }
+  families[0].bytes = {1, 2, 4};
+  families[1].bytes = {1, 2, 4};
+  families[0].path = LanePath::select;
+  families[1].path = LanePath::lookup;
+  for (const std::int32_t u : {1, 1 << 8}) {
+    families[2].models.push_back(wide_glass(u));
+    families[2].units.push_back(u);
+  }
+  families[2].bytes = {2, 4};
+  families[2].path = LanePath::interpolate;
+  std::vector<LaneUnit> lane_units;
+  for (const LaneUnit u : {LaneUnit::plain, LaneUnit::avx2, LaneUnit::avx512}) {
+    if (lane_unit_supported(u)) lane_units.push_back(u);
+  }
+  using Lanes = LaneAnnealer<IsingModel<std::int32_t>, 16>;
+  for (std::size_t f = 0; f < families.size(); ++f) {
+    const Family& fam = families[f];
+    for (const SiteOrder order : {SiteOrder::sequential, SiteOrder::random}) {
+      for (const Acceptance rule : {Acceptance::metropolis, Acceptance::heat_bath}) {
+        CAPTURE(f);
+        CAPTURE(static_cast<int>(order));
+        CAPTURE(static_cast<int>(rule));
+        std::vector<Solution<IsingModel<std::int32_t>::energy_type>> ref;
+        std::size_t runs = 0;
+        for (std::size_t k = 0; k < fam.models.size(); ++k) {
+          const auto& m = fam.models[k];
+          REQUIRE(Lanes::field_bytes_for(m) == fam.bytes[k]);
+          for (const LaneUnit unit : lane_units) {
+            for (const LanePath path : {LanePath::select, LanePath::lookup, LanePath::interpolate}) {
+              AnnealParams p;
+              p.sweeps = 60;
+              p.order = order;
+              p.acceptance = rule;
+              p.schedule = Schedule::geometric(0.1 / fam.units[k], 3.0 / fam.units[k]);
+              Lanes a(m, p, 13, 0);
+              REQUIRE(a.field_bytes() == fam.bytes[k]);
+              REQUIRE(a.path() == fam.path);
+              REQUIRE(a.set_unit(unit));
+              const bool allowed = path == LanePath::interpolate || path == LanePath::lookup
+                                       ? fam.path != LanePath::interpolate || path == LanePath::interpolate
+                                       : fam.path == LanePath::select;
+              CHECK(a.set_path(path) == allowed);
+              if (!allowed) continue;
+              a.advance();
+              CHECK(a.field_error() == 0);
+              const auto got = a.solutions();
+              ++runs;
+              if (ref.empty()) {
+                ref = got;
+                continue;
+              }
+              CAPTURE(k);
+              CAPTURE(lane_unit_name(unit));
+              CAPTURE(static_cast<int>(path));
+              for (std::size_t l = 0; l < 16; ++l) {
+                CAPTURE(l);
+                CHECK(got[l].spins == ref[l].spins);
+                CHECK(got[l].accepted == ref[l].accepted);
+                CHECK(got[l].energy == ref[l].energy * fam.units[k]);
+              }
+            }
+          }
+        }
+        CHECK(runs >= fam.models.size() * lane_units.size());
+      }
+    }
+  }
+}
+
 TEST_CASE("run_restarts takes lanes for many restarts and gives the same tally on any thread count") {
   const auto g = anneal_support::random_cubic(400, 5);
   const auto model = anneal_support::maxcut_model<std::int32_t>(g);

@@ -93,6 +93,12 @@ inline const char* lane_unit_name(LaneUnit unit) noexcept {
   return "plain";
 }
 
+/// How a LaneAnnealer finds q = 2^30 exp(-beta |delta|) for each lane: by selection among this
+/// sweep's values for the few delta sizes of the model (int32 models whose |delta| takes fewer
+/// than lane_levels units), by lookup in a table of them (fewer than lane_table_levels units),
+/// or by interpolation in the exp table (any model). All three give the same q.
+enum class LanePath : std::uint8_t { interpolate = 0, select = 1, lookup = 2 };
+
 /// The local-field type of the lanes kernel: int32 for integer values up to 32 bits (a model
 /// whose field bound reaches 2^30 is refused: fits() is false), int64 for int64 values,
 /// double for floating values.
@@ -113,6 +119,9 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
   static constexpr std::size_t width = Width;
   /// int32 models whose largest |delta| is below this many delta units select q per sweep.
   static constexpr std::size_t lane_levels = 8;
+  /// int32 models whose largest |delta| is below this many delta units look q up in a table
+  /// of this sweep's values, one entry per delta size.
+  static constexpr std::size_t lane_table_levels = 256;
 
   template <class... Args>
   LaneAnnealer(const Model&&, Args&&...) = delete;
@@ -128,13 +137,16 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
         params_(params),
         fits_(fits(model)),
         n_(fits_ ? model.num_spins() : 0),
+        field_bytes_(field_bytes_for(model)),
         row_(n_ + 1, std::size_t{0}),
         nb_(count_entries(model, fits_)),
         val_(nb_.size()),
         site_(n_),
         spins_(n_ * Width, std::int8_t{1}),
         best_spins_(n_ * Width, std::int8_t{1}),
-        fields_(n_ * Width),
+        fields_(field_bytes_ == sizeof(field_type) ? n_ * Width : 0),
+        fields16_(field_bytes_ == 2 ? n_ * Width : 0),
+        fields8_(field_bytes_ == 1 ? n_ * Width : 0),
         lane_spins_(n_) {
     init(seed, first_restart, count);
   }
@@ -147,13 +159,16 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
         params_(params),
         fits_(fits(model)),
         n_(fits_ ? model.num_spins() : 0),
+        field_bytes_(field_bytes_for(model)),
         row_(n_ + 1, arena, std::size_t{0}),
         nb_(count_entries(model, fits_), arena),
         val_(nb_.size(), arena),
         site_(n_, arena),
         spins_(n_ * Width, arena, std::int8_t{1}),
         best_spins_(n_ * Width, arena, std::int8_t{1}),
-        fields_(n_ * Width, arena),
+        fields_(field_bytes_ == sizeof(field_type) ? n_ * Width : 0, arena),
+        fields16_(field_bytes_ == 2 ? n_ * Width : 0, arena),
+        fields8_(field_bytes_ == 1 ? n_ * Width : 0, arena),
         lane_spins_(n_, arena) {
     if (valid()) init(seed, first_restart, count);
   }
@@ -163,9 +178,32 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
     const std::size_t n = model.num_spins();
     const std::size_t entries = count_entries(model, true);
     return arena_bytes<std::size_t>(n + 1) + arena_bytes<std::uint32_t>(entries) + arena_bytes<field_type>(entries) +
-           arena_bytes<field_type>(n) + 2 * arena_bytes<std::int8_t>(n * Width) + arena_bytes<field_type>(n * Width) +
+           arena_bytes<field_type>(n) + 2 * arena_bytes<std::int8_t>(n * Width) + stored_field_bytes(model, n * Width) +
            arena_bytes<std::int8_t>(n);
   }
+
+  /// Bytes per stored local field: int32 models keep their fields as int8 when the field bound
+  /// (|site term| + sum |pair| at the worst spin) is at most 63, as int16 up to 16383, so that
+  /// every field and every change of one (2 |pair| for Ising) fits; otherwise sizeof(field_type).
+  /// The arithmetic stays in field_type, so the answers do not depend on this choice.
+  static std::size_t field_bytes_for(const Model& model) noexcept {
+    if constexpr (std::is_same_v<field_type, std::int32_t>) {
+      if (!fits(model)) return sizeof(field_type);
+      std::uint64_t bound = 0;
+      for (std::size_t i = 0; i < model.num_spins(); ++i) {
+        const auto ii = static_cast<index_type>(i);
+        std::uint64_t s = detail::magnitude_u64(model.site_term(ii));
+        model.for_each_neighbour(ii, [&s](index_type, value_type v) { s += detail::magnitude_u64(v); });
+        bound = s > bound ? s : bound;
+      }
+      return bound <= 63 ? 1 : bound <= 16383 ? 2 : sizeof(field_type);
+    } else {
+      static_cast<void>(model);
+      return sizeof(field_type);
+    }
+  }
+  /// This annealer's bytes per stored local field (field_bytes_for(model)).
+  std::size_t field_bytes() const noexcept { return field_bytes_; }
 
   /// Whether the lanes kernel takes this model: fewer than 2^32 spins and, for int32 local
   /// fields, |site term| + sum |pair| below 2^30 at every spin (2^62 for int64), so 2 |field| fits.
@@ -189,14 +227,24 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
 
   bool valid() const noexcept {
     return fits_ && row_.valid() && nb_.valid() && val_.valid() && site_.valid() && spins_.valid() &&
-           best_spins_.valid() && fields_.valid() && lane_spins_.valid();
+           best_spins_.valid() && fields_.valid() && fields16_.valid() && fields8_.valid() && lane_spins_.valid();
   }
 
   /// New streams (seed, first_restart + l) and random starts; counters and bests cleared.
   void reset(std::uint64_t seed, std::uint64_t first_restart = 0) {
     begin(seed, first_restart);
-    for (std::size_t l = 0; l < Width; ++l) {
-      for (std::size_t i = 0; i < n_; ++i) spins_[i * Width + l] = (next_lane(l) >> 63) != 0 ? 1 : -1;
+    switch (unit_) {
+#if SPINWRIGHT_LANE_DISPATCH
+      case LaneUnit::avx512:
+        random_spins_avx512();
+        break;
+      case LaneUnit::avx2:
+        random_spins_avx2();
+        break;
+#endif
+      default:
+        random_spins();
+        break;
     }
     start_from_spins();
   }
@@ -273,6 +321,19 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
   }
   LaneUnit unit() const noexcept { return unit_; }
 
+  /// The way q is found (chosen at construction: the cheapest this model allows).
+  LanePath path() const noexcept { return static_cast<LanePath>(path_); }
+  /// Find q this way instead (false, and no change, when the model's delta sizes do not allow
+  /// it); the answers are the same.
+  bool set_path(LanePath path) noexcept {
+    const int p = static_cast<int>(path);
+    const bool allowed = p == path_interpolate || (p == path_lookup && best_path_ != path_interpolate) ||
+                         (p == path_select && best_path_ == path_select);
+    if (!allowed) return false;
+    path_ = p;
+    return true;
+  }
+
   const Model& model() const noexcept { return *model_; }
   std::uint64_t sweeps_done() const noexcept { return sweeps_; }
   std::uint64_t attempted(std::size_t) const noexcept { return sweeps_ * n_; }
@@ -288,6 +349,29 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
 
  private:
   friend class detail::Drive<LaneAnnealer>;
+
+  static std::size_t stored_field_bytes(const Model& model, std::size_t count) noexcept {
+    const std::size_t bytes = field_bytes_for(model);
+    return bytes == 1 ? arena_bytes<std::int8_t>(count)
+                      : bytes == 2 ? arena_bytes<std::int16_t>(count) : arena_bytes<field_type>(count);
+  }
+
+  // The stored fields in their type (S is field_type, int16 or int8 as field_bytes_ says).
+  template <class S>
+  S* field_data() noexcept {
+    if constexpr (std::is_same_v<S, std::int8_t>) {
+      return fields8_.data();
+    } else if constexpr (std::is_same_v<S, std::int16_t>) {
+      return fields16_.data();
+    } else {
+      return fields_.data();
+    }
+  }
+  field_type field_at(std::size_t x) const noexcept {
+    if (field_bytes_ == 1) return static_cast<field_type>(fields8_[x]);
+    if (field_bytes_ == 2) return static_cast<field_type>(fields16_[x]);
+    return fields_[x];
+  }
 
   static std::size_t count_entries(const Model& model, bool fits) {
     if (!fits) return 0;
@@ -325,8 +409,9 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
     if constexpr (std::is_same_v<field_type, std::int32_t>) {
       unit_shift_ = detail::delta_shift(*model_);
       const std::uint64_t units = detail::max_flip_delta(*model_) >> unit_shift_;
-      small_ = units < lane_levels;
-      levels_used_ = small_ ? static_cast<std::int32_t>(units) + 1 : 1;
+      path_ = units < lane_levels ? path_select : units < lane_table_levels ? path_lookup : path_interpolate;
+      best_path_ = path_;
+      levels_used_ = path_ != path_interpolate ? static_cast<std::int32_t>(units) + 1 : 1;
     }
     if constexpr (std::is_integral_v<field_type>) {
       const std::uint64_t top = static_cast<std::uint64_t>(std::numeric_limits<field_type>::max());
@@ -373,38 +458,100 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
     s2_[l] = splitmix64(sm);
     s3_[l] = splitmix64(sm);
   }
-  std::uint64_t next_lane(std::size_t l) noexcept {
-    const std::uint64_t a = s0_[l], b = s1_[l];
-    std::uint64_t c = s2_[l], d = s3_[l];
-    const std::uint64_t sum = a + d;
-    const std::uint64_t result = ((sum << 23) | (sum >> 41)) + a;
-    const std::uint64_t t = b << 17;
-    c ^= a;
-    d ^= b;
-    s1_[l] = b ^ c;
-    s0_[l] = a ^ d;
-    s2_[l] = c ^ t;
-    s3_[l] = (d << 45) | (d >> 19);
-    return result;
-  }
 
-  void start_from_spins() {
-    for (std::size_t i = 0; i < n_; ++i) {
-      for (std::size_t l = 0; l < Width; ++l) fields_[i * Width + l] = site_[i];
-    }
+  // Every lane's local fields from its spins, in field_type, stored as S.
+  template <class S>
+  SPINWRIGHT_LANE_INLINE void fill_fields(S* out) noexcept {
     const field_type* val = val_.data();
+    const field_type* site = site_.data();
+    const std::size_t* row = row_.data();
+    const std::uint32_t* nb = nb_.data();
+    const std::int8_t* spins = spins_.data();
     for (std::size_t i = 0; i < n_; ++i) {
-      for (std::size_t k = row_[i]; k < row_[i + 1]; ++k) {
-        const std::size_t j = nb_[k];
-        for (std::size_t l = 0; l < Width; ++l) {
-          const std::int8_t sj = spins_[j * Width + l];
+      field_type f[Width];
+      SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) f[l] = site[i];
+      for (std::size_t k = row[i]; k < row[i + 1]; ++k) {
+        const std::int8_t* sj = spins + static_cast<std::size_t>(nb[k]) * Width;
+        const field_type v = val[k];
+        SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
           if constexpr (Model::form == Form::ising) {
-            fields_[i * Width + l] += sj > 0 ? val[k] : -val[k];
+            f[l] += sj[l] > 0 ? v : -v;
           } else {
-            if (sj < 0) fields_[i * Width + l] += val[k];
+            f[l] += sj[l] < 0 ? v : field_type{0};
           }
         }
       }
+      S* o = out + i * Width;
+      SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) o[l] = static_cast<S>(f[l]);
+    }
+  }
+
+  // Lane l's spin i is the sign of its stream's i-th draw (as the Annealer's random start); all
+  // lanes step together, site by site (each lane's draws in the same order as one by one).
+  SPINWRIGHT_LANE_INLINE void random_spins() noexcept {
+    std::uint64_t s0[Width], s1[Width], s2[Width], s3[Width];
+    for (std::size_t l = 0; l < Width; ++l) {
+      s0[l] = s0_[l];
+      s1[l] = s1_[l];
+      s2[l] = s2_[l];
+      s3[l] = s3_[l];
+    }
+    std::int8_t* spins = spins_.data();
+    for (std::size_t i = 0; i < n_; ++i) {
+      std::int8_t* sp = spins + i * Width;
+      SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
+        const std::uint64_t a = s0[l], b = s1[l];
+        std::uint64_t c = s2[l], d = s3[l];
+        const std::uint64_t sum = a + d;
+        const std::uint64_t draw = ((sum << 23) | (sum >> 41)) + a;
+        const std::uint64_t t = b << 17;
+        c ^= a;
+        d ^= b;
+        s1[l] = b ^ c;
+        s0[l] = a ^ d;
+        s2[l] = c ^ t;
+        s3[l] = (d << 45) | (d >> 19);
+        sp[l] = (draw >> 63) != 0 ? std::int8_t{1} : std::int8_t{-1};
+      }
+    }
+    for (std::size_t l = 0; l < Width; ++l) {
+      s0_[l] = s0[l];
+      s1_[l] = s1[l];
+      s2_[l] = s2[l];
+      s3_[l] = s3[l];
+    }
+  }
+  SPINWRIGHT_LANE_INLINE void fill_any() noexcept {
+    if (field_bytes_ == 1) {
+      fill_fields(fields8_.data());
+    } else if (field_bytes_ == 2) {
+      fill_fields(fields16_.data());
+    } else {
+      fill_fields(fields_.data());
+    }
+  }
+#if SPINWRIGHT_LANE_DISPATCH
+  __attribute__((target("avx2"))) void random_spins_avx2() noexcept { random_spins(); }
+  __attribute__((target("avx2,avx512f,avx512bw,avx512vl,avx512dq"))) void random_spins_avx512() noexcept {
+    random_spins();
+  }
+  __attribute__((target("avx2"))) void fill_avx2() noexcept { fill_any(); }
+  __attribute__((target("avx2,avx512f,avx512bw,avx512vl,avx512dq"))) void fill_avx512() noexcept { fill_any(); }
+#endif
+
+  void start_from_spins() {
+    switch (unit_) {
+#if SPINWRIGHT_LANE_DISPATCH
+      case LaneUnit::avx512:
+        fill_avx512();
+        break;
+      case LaneUnit::avx2:
+        fill_avx2();
+        break;
+#endif
+      default:
+        fill_any();
+        break;
     }
     for (std::size_t l = 0; l < Width; ++l) {
       for (std::size_t i = 0; i < n_; ++i) lane_spins_[i] = spins_[i * Width + l];
@@ -456,16 +603,33 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
       }
     }
     if (some) {
-      std::int8_t* b = best_spins_.data();
-      const std::int8_t* s = spins_.data();
-      for (std::size_t i = 0; i < n_; ++i) {
-        SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
-          const std::size_t x = i * Width + l;
-          b[x] = static_cast<std::int8_t>((s[x] & improved[l]) | (b[x] & ~improved[l]));
-        }
+      switch (unit_) {
+#if SPINWRIGHT_LANE_DISPATCH
+        case LaneUnit::avx512:
+          keep_best_avx512(improved);
+          break;
+        case LaneUnit::avx2:
+          keep_best_avx2(improved);
+          break;
+#endif
+        default:
+          keep_best(improved);
+          break;
       }
     }
     return any;
+  }
+
+  // Lanes whose mask is -1 take their current spins as their best.
+  SPINWRIGHT_LANE_INLINE void keep_best(const std::int8_t* improved) noexcept {
+    std::int8_t* b = best_spins_.data();
+    const std::int8_t* s = spins_.data();
+    for (std::size_t i = 0; i < n_; ++i) {
+      SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
+        const std::size_t x = i * Width + l;
+        b[x] = static_cast<std::int8_t>((s[x] & improved[l]) | (b[x] & ~improved[l]));
+      }
+    }
   }
 
   void sweep_plain(bool heat, bool random, double scale) noexcept { sweep_any(heat, random, scale); }
@@ -477,48 +641,73 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
                                                                                        double scale) noexcept {
     sweep_any(heat, random, scale);
   }
+  __attribute__((target("avx2"))) void keep_best_avx2(const std::int8_t* improved) noexcept { keep_best(improved); }
+  __attribute__((target("avx2,avx512f,avx512bw,avx512vl,avx512dq"))) void keep_best_avx512(
+      const std::int8_t* improved) noexcept {
+    keep_best(improved);
+  }
 #endif
 
   SPINWRIGHT_LANE_INLINE void sweep_any(bool heat, bool random, double scale) noexcept {
-    if (small_) {
-      sweep_rule<true>(heat, random, scale);
+    if constexpr (std::is_same_v<field_type, std::int32_t>) {
+      if (field_bytes_ == 1) {
+        sweep_small<std::int8_t>(heat, random, scale);
+      } else if (field_bytes_ == 2) {
+        sweep_small<std::int16_t>(heat, random, scale);
+      } else {
+        sweep_small<field_type>(heat, random, scale);
+      }
     } else {
-      sweep_rule<false>(heat, random, scale);
+      sweep_rule<path_interpolate, field_type>(heat, random, scale);
     }
   }
-  template <bool Small>
+  template <class Store>
+  SPINWRIGHT_LANE_INLINE void sweep_small(bool heat, bool random, double scale) noexcept {
+    if (path_ == path_select) {
+      sweep_rule<path_select, Store>(heat, random, scale);
+    } else if (path_ == path_lookup) {
+      sweep_rule<path_lookup, Store>(heat, random, scale);
+    } else {
+      sweep_rule<path_interpolate, Store>(heat, random, scale);
+    }
+  }
+  template <int Path, class Store>
   SPINWRIGHT_LANE_INLINE void sweep_rule(bool heat, bool random, double scale) noexcept {
-    if constexpr (Small && !std::is_same_v<field_type, std::int32_t>) {
-      sweep_rule<false>(heat, random, scale);
-    } else if (heat) {
+    if (heat) {
       if (random) {
-        sweep_body<Acceptance::heat_bath, true, Small>(scale);
+        sweep_body<Acceptance::heat_bath, true, Path, Store>(scale);
       } else {
-        sweep_body<Acceptance::heat_bath, false, Small>(scale);
+        sweep_body<Acceptance::heat_bath, false, Path, Store>(scale);
       }
     } else {
       if (random) {
-        sweep_body<Acceptance::metropolis, true, Small>(scale);
+        sweep_body<Acceptance::metropolis, true, Path, Store>(scale);
       } else {
-        sweep_body<Acceptance::metropolis, false, Small>(scale);
+        sweep_body<Acceptance::metropolis, false, Path, Store>(scale);
       }
     }
   }
 
   // One sweep over every lane. Each loop over l is one vector operation (or a few) per site:
   // no branch depends on a lane's data except the skip when no lane accepted.
-  template <Acceptance Rule, bool Random, bool Small>
+  template <Acceptance Rule, bool Random, int Path, class Store>
   SPINWRIGHT_LANE_INLINE void sweep_body(double scale) noexcept {
     const detail::LaneMultiplier mult = detail::lane_multiplier(scale);
     const detail::LaneExpTable& table = detail::lane_exp_table;
-    std::int32_t levels[lane_levels];
-    for (std::size_t m = 0; m < lane_levels; ++m) {
-      levels[m] = detail::lane_exp_q(detail::lane_y(static_cast<std::uint32_t>(m) << unit_shift_, mult), table);
+    // This sweep's q for every delta size the model has (select and lookup paths): the
+    // numbers the interpolation below computes for those deltas, so the answer is the same.
+    std::int32_t levels[Path == path_lookup ? lane_table_levels : lane_levels];
+    constexpr auto level_count = static_cast<std::int32_t>(Path == path_lookup ? lane_table_levels : lane_levels);
+    for (std::int32_t m = 0; m < level_count; ++m) {
+      levels[m] = m < levels_used_ || m == 0 ? detail::lane_exp_q(
+                                                   detail::lane_y(static_cast<std::uint32_t>(m) << unit_shift_, mult), table)
+                                             : 0;
     }
+    const unsigned shift = unit_shift_;
     constexpr bool ising = Model::form == Form::ising;
     const std::size_t n = n_;
     std::int8_t* spins = spins_.data();
-    field_type* fields = fields_.data();
+    Store* fields = field_data<Store>();
     const std::size_t* row = row_.data();
     const std::uint32_t* nb = nb_.data();
     const field_type* val = val_.data();
@@ -580,85 +769,105 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
         SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) u[l] = static_cast<std::uint32_t>(draw[l]) >> 2;
       }
       std::int8_t* sp = spins + i * Width;
-      field_type* fp = fields + i * Width;
-      field_type delta[Width];
-      SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
-        const field_type s = sp[l];
-        if constexpr (ising) {
-          delta[l] = -2 * s * fp[l];
-        } else {
-          delta[l] = s * fp[l];
-        }
-      }
-      // q = 2^30 exp(-beta |delta|) (detail/lane_accept.hpp) and the sign of delta.
-      std::int32_t q[Width];
-      std::int32_t up[Width];
-      if constexpr (Small) {
-        // Few delta sizes: q by selection from this sweep's values (the same numbers the
-        // table path below computes for these deltas, so the answer does not change).
+      const Store* fp = fields + i * Width;
+      // A neighbour's field changes by -2 s v (Ising) or s v (QUBO) in the lanes that flip:
+      // with the weight w = 2 v (or v) that is ((w ^ neg) - neg) & taken, neg = -1 where s > 0
+      // (Ising) or s < 0 (QUBO); no multiplication, and exact in the stored type.
+      using Mask = std::conditional_t<std::is_integral_v<Store>, Store, std::int64_t>;
+      [[maybe_unused]] Mask neg[Width];
+      [[maybe_unused]] Mask taken[Width];
+      [[maybe_unused]] field_type change[Width];  // floating fields: -2 s or s, 0 where the lane keeps its spin
+      std::int32_t any = 0;
+      // Selection and interpolation: q in loops of their own (they vectorise better that way).
+      [[maybe_unused]] std::int32_t qv[Width];
+      if constexpr (Path == path_select) {
+        // Few delta sizes: q by selection from this sweep's values.
         std::int32_t level[Width];
         SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
-          const std::int32_t d = static_cast<std::int32_t>(delta[l]);
-          level[l] = (d < 0 ? -d : d) >> unit_shift_;
-          up[l] = d > 0 ? 1 : 0;
-          q[l] = levels[0];
+          const std::int32_t f = static_cast<std::int32_t>(fp[l]);
+          level[l] = ((f < 0 ? -f : f) << (ising ? 1 : 0)) >> shift;
+          qv[l] = levels[0];
         }
         for (std::int32_t m = 1; m < levels_used_; ++m) {
           const std::int32_t value = levels[m];
-          SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) q[l] = level[l] == m ? value : q[l];
+          SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) qv[l] = level[l] == m ? value : qv[l];
         }
-      } else {
+      } else if constexpr (Path == path_interpolate) {
         std::int32_t y[Width];  // |beta delta| in units of 2^-24 / log2 e, saturated
-        if constexpr (std::is_same_v<field_type, std::int32_t>) {
-          SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
-            const std::int32_t d = delta[l];
-            const auto ad = static_cast<std::uint32_t>(d < 0 ? -d : d);
-            y[l] = detail::lane_y(ad, mult);
-            up[l] = d > 0 ? 1 : 0;
-          }
-        } else {
-          SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
-            const double d = static_cast<double>(delta[l]);
+        SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
+          const auto f = static_cast<field_type>(fp[l]);
+          const field_type sf = sp[l] > 0 ? f : -f;
+          const field_type delta = ising ? -2 * sf : sf;
+          if constexpr (std::is_same_v<field_type, std::int32_t>) {
+            y[l] = detail::lane_y(static_cast<std::uint32_t>(delta < 0 ? -delta : delta), mult);
+          } else {
+            const double d = static_cast<double>(delta);
             double a = (d < 0 ? -d : d) * scale;
             a = a < detail::lane_y_max ? a : detail::lane_y_max;
             y[l] = static_cast<std::int32_t>(a);
           }
-          SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) up[l] = delta[l] > 0 ? 1 : 0;
         }
         SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
           const std::int32_t yi = y[l];
           const std::int32_t n_shift = yi >> 24;
           const std::int32_t idx = (yi >> 12) & 4095;
           const std::int32_t frac = yi & 4095;
-          q[l] = (table.e[idx] - ((table.d[idx] * frac) >> 12)) >> n_shift;
+          qv[l] = (table.e[idx] - ((table.d[idx] * frac) >> 12)) >> n_shift;
         }
       }
-      std::int32_t take[Width];
+      // One pass over the lanes per attempt: delta, q = 2^30 exp(-beta |delta|)
+      // (detail/lane_accept.hpp), the decision and its effects, with nothing kept in arrays
+      // between steps.
       SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
+        const std::int8_t s8 = sp[l];
+        const auto f = static_cast<field_type>(fp[l]);
+        field_type delta;
+        if constexpr (std::is_integral_v<field_type>) {
+          const auto sm = static_cast<field_type>(s8 >> 7);  // 0 or -1: s f = (f ^ sm) - sm
+          delta = ising ? -2 * ((f ^ sm) - sm) : (f ^ sm) - sm;
+        } else if constexpr (ising) {
+          delta = s8 > 0 ? -2 * f : 2 * f;
+        } else {
+          delta = s8 > 0 ? f : -f;
+        }
+        std::int32_t q;
+        bool up;
+        if constexpr (Path == path_lookup) {
+          const std::int32_t d = static_cast<std::int32_t>(delta);
+          q = levels[(d < 0 ? -d : d) >> shift];
+          up = d > 0;
+        } else {
+          q = qv[l];  // select and interpolate: computed above
+          up = delta > 0;
+        }
+        // tm = -1 where the lane flips, 0 where it keeps its spin; everything after is masks.
+        std::int32_t tm;
         if constexpr (Rule == Acceptance::metropolis) {
-          const std::int32_t qd = up[l] != 0 ? q[l] : (1 << 30);
-          take[l] = u[l] < static_cast<std::uint32_t>(qd) ? 1 : 0;
+          const std::int32_t qd = up ? q : (1 << 30);
+          tm = -static_cast<std::int32_t>(u[l] < static_cast<std::uint32_t>(qd));
         } else {
-          const std::uint64_t prod = static_cast<std::uint64_t>(u[l]) * (static_cast<std::uint32_t>(q[l]) + (1u << 30));
+          const std::uint64_t prod = static_cast<std::uint64_t>(u[l]) * (static_cast<std::uint32_t>(q) + (1u << 30));
           const std::uint64_t bound =
-              up[l] != 0 ? static_cast<std::uint64_t>(static_cast<std::uint32_t>(q[l])) << 30 : std::uint64_t{1} << 60;
-          take[l] = prod < bound ? 1 : 0;
+              up ? static_cast<std::uint64_t>(static_cast<std::uint32_t>(q)) << 30 : std::uint64_t{1} << 60;
+          tm = -static_cast<std::int32_t>(prod < bound);
         }
-      }
-      field_type change[Width];
-      std::int32_t any = 0;
-      SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
-        const std::int8_t s = sp[l];
-        const bool t = take[l] != 0;
-        if constexpr (ising) {
-          change[l] = t ? static_cast<field_type>(-2 * s) : field_type{0};
+        const std::int8_t sign = static_cast<std::int8_t>(s8 >> 7);  // -1 where s = -1
+        if constexpr (std::is_integral_v<Store>) {
+          neg[l] = static_cast<Mask>(ising ? ~sign : sign);
+          taken[l] = static_cast<Mask>(tm);
+        } else if constexpr (ising) {
+          change[l] = tm != 0 ? static_cast<field_type>(-2 * s8) : field_type{0};
         } else {
-          change[l] = t ? static_cast<field_type>(s) : field_type{0};
+          change[l] = tm != 0 ? static_cast<field_type>(s8) : field_type{0};
         }
-        sp[l] = t ? static_cast<std::int8_t>(-s) : s;
-        partial[l] += t ? delta[l] : field_type{0};
-        accepted[l] += static_cast<std::uint32_t>(take[l]);
-        any |= take[l];
+        sp[l] = static_cast<std::int8_t>(s8 ^ (tm & -2));  // +1 <-> -1
+        if constexpr (std::is_integral_v<field_type>) {
+          partial[l] += delta & static_cast<field_type>(tm);
+        } else {
+          partial[l] += tm != 0 ? delta : field_type{0};
+        }
+        accepted[l] += static_cast<std::uint32_t>(tm & 1);
+        any |= tm;
       }
       if (++since_flush == flush_every_) {
         since_flush = 0;
@@ -669,9 +878,16 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
       }
       if (any != 0) {
         for (std::size_t e = row[i]; e < row[i + 1]; ++e) {
-          field_type* fj = fields + static_cast<std::size_t>(nb[e]) * Width;
-          const field_type v = val[e];
-          SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) fj[l] += change[l] * v;
+          Store* fj = fields + static_cast<std::size_t>(nb[e]) * Width;
+          if constexpr (std::is_integral_v<Store>) {
+            const auto w = static_cast<Store>(ising ? 2 * val[e] : val[e]);
+            SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) {
+              fj[l] = static_cast<Store>(fj[l] + (((w ^ neg[l]) - neg[l]) & taken[l]));
+            }
+          } else {
+            const field_type v = val[e];
+            SPINWRIGHT_LANE_LOOP for (std::size_t l = 0; l < Width; ++l) fj[l] += change[l] * v;
+          }
         }
       }
     }
@@ -687,9 +903,10 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
   }
 
   // Hints that a site's rows (its own and its neighbours' fields) will be needed soon.
-  static SPINWRIGHT_LANE_INLINE void lane_prefetch(const field_type* own, const std::int8_t* spins,
+  template <class Store>
+  static SPINWRIGHT_LANE_INLINE void lane_prefetch(const Store* own, const std::int8_t* spins,
                                                    const std::uint32_t* neighbours, std::size_t degree,
-                                                   const field_type* fields) noexcept {
+                                                   const Store* fields) noexcept {
 #if defined(__GNUC__) || defined(__clang__)
     __builtin_prefetch(own);
     __builtin_prefetch(spins);
@@ -707,13 +924,16 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
   AnnealParams params_;
   bool fits_;
   std::size_t n_;
+  std::size_t field_bytes_;  // bytes per stored local field (field_bytes_for)
   detail::Buffer<std::size_t> row_;
   detail::Buffer<std::uint32_t> nb_;
   detail::Buffer<field_type> val_;
   detail::Buffer<field_type> site_;
   detail::Buffer<std::int8_t> spins_;       // [site][lane]
   detail::Buffer<std::int8_t> best_spins_;  // [site][lane]
-  detail::Buffer<field_type> fields_;       // [site][lane]
+  detail::Buffer<field_type> fields_;       // [site][lane] when field_bytes_ == sizeof(field_type)
+  detail::Buffer<std::int16_t> fields16_;   // [site][lane] when field_bytes_ == 2
+  detail::Buffer<std::int8_t> fields8_;     // [site][lane] when field_bytes_ == 1
   mutable detail::Buffer<std::int8_t> lane_spins_;
   std::uint64_t s0_[Width]{}, s1_[Width]{}, s2_[Width]{}, s3_[Width]{};
   Xoshiro256 order_rng_{};
@@ -725,8 +945,14 @@ class LaneAnnealer : public detail::Drive<LaneAnnealer<Model, Width>> {
   BetaSpan range_{};
   LaneUnit unit_ = LaneUnit::plain;
   unsigned unit_shift_ = 0;       // int32 models: every |delta| is a multiple of 2^unit_shift_
-  bool small_ = false;            // int32 models whose |delta| takes fewer than lane_levels units
-  std::int32_t levels_used_ = 1;  // small_: the largest |delta| in units, plus one
+  // How q is found: by selection (int32 models whose |delta| takes fewer than lane_levels
+  // units), by lookup (fewer than lane_table_levels) or by interpolation in the exp table.
+  static constexpr int path_interpolate = 0;
+  static constexpr int path_select = 1;
+  static constexpr int path_lookup = 2;
+  int path_ = path_interpolate;
+  int best_path_ = path_interpolate;  // the path chosen at construction
+  std::int32_t levels_used_ = 1;  // select and lookup: the largest |delta| in units, plus one
   std::size_t flush_every_ = 1;   // attempts whose energy changes surely fit the field type
   std::size_t count_ = Width;
   std::uint64_t first_ = 0;
@@ -749,7 +975,7 @@ double LaneAnnealer<Model, Width>::field_error() const noexcept {
           if (sj < 0) f += static_cast<double>(val_[k]);
         }
       }
-      const double err = f - static_cast<double>(fields_[i * Width + l]);
+      const double err = f - static_cast<double>(field_at(i * Width + l));
       worst = (err < 0 ? -err : err) > worst ? (err < 0 ? -err : err) : worst;
     }
   }
