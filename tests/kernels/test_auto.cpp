@@ -163,6 +163,23 @@ TEST_CASE("time-filling annealing: uses the time, stops by the deadline, keeps t
   CHECK(s.restart == 0);
 }
 
+TEST_CASE("time-filling annealing: the closing anneal follows the clock to the limit") {
+  // Limits of several sizes: after the growing runs, the closing run has no sweep count and
+  // ends cold shortly before the limit, leaving room for its descent only; the whole call ends
+  // at the limit. (A closing run sized to the 90 % margin, or no closing run once fewer than
+  // auto_fill_first_sweeps sweeps fit, leaves up to a tenth of the limit unused: 651 of 700.)
+  const auto m = sparse_glass(300, 5);
+  for (const double seconds : {700.0, 1500.0, 6000.0, 25000.0}) {
+    CAPTURE(seconds);
+    Ticker t;
+    const auto s = solve_auto(m, 3, 0, ticking(t, seconds));
+    CHECK(s.reason == StopReason::deadline);
+    CHECK(s.seconds <= seconds + 8);
+    CHECK(s.seconds >= 0.99 * seconds);
+    CHECK(s.energy == m.energy(s.spins.data()));
+  }
+}
+
 TEST_CASE("time-filling annealing: the same seed and clock sequence give the same answer") {
   const auto m = sparse_glass(300, 6);
   Ticker a;

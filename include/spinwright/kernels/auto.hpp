@@ -58,6 +58,7 @@ inline constexpr double auto_dense_threshold = 0.10;
 inline constexpr std::uint64_t auto_fill_first_sweeps = 256;
 inline constexpr double auto_fill_margin = 0.9;
 inline constexpr std::uint64_t auto_fill_growth = 4;
+inline constexpr std::uint64_t auto_fill_last_min_sweeps = 16;  // no closing anneal shorter than this
 inline constexpr double auto_fill_hot_factor = 3.0;
 
 // The seed of annealing run k of the time-filling mode (run 0 uses `seed` itself).
@@ -171,6 +172,9 @@ Solution<typename Model::energy_type> auto_fill_anneal(const Model& model, std::
   bool have = false;
   std::uint64_t anneal_sweeps = 0;
   std::uint64_t length = first;
+  bool closing = false;        // the next anneal is the last: it follows the clock
+  double closing_end = 0;      // where the closing anneal's schedule ends cold (seconds from t0)
+  double polish_seconds = 0;   // the longest descent so far: the room the closing anneal leaves
   StopReason why = StopReason::deadline;
   NoObserver none;
   // Adds a descent's counters and keeps its state when it is the best so far.
@@ -188,6 +192,12 @@ Solution<typename Model::energy_type> auto_fill_anneal(const Model& model, std::
     if (k > 0) annealer.reset(auto_fill_seed(seed, k), restart);
     Budget run = whole;
     run.sweeps = length;
+    if (closing) {
+      // Time-driven: no sweep count, the schedule's position is the elapsed fraction of the
+      // time up to closing_end, so the anneal reaches its cold end just before the polish.
+      run.sweeps = unlimited_sweeps;
+      run.seconds = closing_end;
+    }
     const StopReason r = annealer.advance(run, none);
     anneal_sweeps += annealer.sweeps_done();
     out.sweeps += annealer.sweeps_done();
@@ -207,7 +217,10 @@ Solution<typename Model::energy_type> auto_fill_anneal(const Model& model, std::
       } else {
         descender->warm_start(best.spins, seed, restart);
       }
+      const double before = clock.read();
       descender->advance(descent_budget, none);
+      const double took = clock.read() - before;
+      if (took > polish_seconds) polish_seconds = took;
       keep(*descender);
     } else if (!have || best.energy < out.energy) {
       std::memcpy(out.spins.data(), best.spins, n);
@@ -222,7 +235,7 @@ Solution<typename Model::energy_type> auto_fill_anneal(const Model& model, std::
       why = StopReason::stopped;
       break;
     }
-    if (r == StopReason::deadline) break;
+    if (r == StopReason::deadline || closing) break;
     // The next length: `growth` times the last, capped by what fits in the margin of the time left.
     const double elapsed = clock.read() - t0;
     const double left = whole.seconds - elapsed;
@@ -231,10 +244,17 @@ Solution<typename Model::energy_type> auto_fill_anneal(const Model& model, std::
     const double cap = static_cast<double>(std::uint64_t{1} << 62);
     const double fits_d = per_sweep > 0 ? auto_fill_margin * left / per_sweep : cap;
     const std::uint64_t fits = fits_d < cap ? static_cast<std::uint64_t>(fits_d) : std::uint64_t{1} << 62;
-    if (fits < first) break;
+    if (fits < auto_fill_last_min_sweeps) break;
     std::uint64_t next = growth * length;
     if (next > fits) next = fits;
-    if (fits - next < growth * next) next = fits;
+    if (fits - next < growth * next) {
+      // The last anneal: rather than a sweep count that ends at the margin (and leaves it
+      // unused), it runs on the clock up to the limit less room for twice the longest descent.
+      const double reserve = 2 * polish_seconds < left / 2 ? 2 * polish_seconds : left / 2;
+      closing = true;
+      closing_end = whole.seconds - reserve;
+      next = fits;
+    }
     length = next;
   }
   // Integer models track energies exactly; floating ones recompute from the model (no drift).
