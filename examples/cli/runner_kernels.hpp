@@ -66,10 +66,19 @@ inline bool cut(spinwright::StopReason r) {
 // by one descent at most; after Ctrl-C a first-improvement descent bounded by
 // interrupt_polish_passes and interrupt_polish_seconds (the stop token is already set, so the
 // descent does not poll it). A restart stopped before its first sweep is left as it is.
+// `settled`: the kernel has checked that the state is a local minimum of single flips
+// (BitSlicedAnnealer::improvable_best), so the steepest descent's one pass of N attempts,
+// which that check replaced, is only counted.
 template <class Model>
 spinwright::Solution<typename Model::energy_type> finish(const Model& model,
-                                                         spinwright::Solution<typename Model::energy_type>&& s) {
+                                                         spinwright::Solution<typename Model::energy_type>&& s,
+                                                         bool settled = false) {
   using spinwright::StopReason;
+  if (settled && s.reason != StopReason::stopped && s.reason != StopReason::deadline) {
+    s.sweeps += 1;
+    s.attempted += model.num_spins();
+    return std::move(s);
+  }
   if (s.reason == StopReason::stopped) {
     if (s.sweeps == 0) return std::move(s);
     spinwright::DescentParams params;
@@ -258,11 +267,11 @@ template <class Model>
 spinwright::Solution<double> close_restart(const Model& model, const RunOptions& o,
                                            spinwright::Solution<typename Model::energy_type>&& s,
                                            spinwright::StopReason why, double seconds,
-                                           std::atomic<std::uint64_t>& cut_short) {
+                                           std::atomic<std::uint64_t>& cut_short, bool settled = false) {
   s.reason = why;
   s.seconds = seconds;
   if (cut(why)) cut_short.fetch_add(1, std::memory_order_relaxed);
-  spinwright::Solution<double> out = as_double(finish(model, std::move(s)));
+  spinwright::Solution<double> out = as_double(finish(model, std::move(s), settled));
   if (o.progress != nullptr) {
     o.progress->best.offer(out.energy);
     o.progress->restarts_done.fetch_add(1, std::memory_order_relaxed);
@@ -303,7 +312,9 @@ std::vector<spinwright::Solution<double>> lane_share(const Model& model, const R
 // polished as one_restart's is. A lone word (64 restarts or fewer) on several threads shares
 // its half-sweeps among them (checkerboard). The words run a thread's worth at a time and the closing
 // descents of those words are then dealt to the threads one restart at a time, so that 64
-// restarts (one word) still polish on every thread.
+// restarts (one word) still polish on every thread. A restart whose best state the kernel
+// finds settled (improvable_best: no single flip lowers it, the usual case at the end of a
+// schedule) needs no descent: the same answer and counters, without building a descender.
 template <class Model>
 std::vector<spinwright::Solution<double>> bit_sliced_share(const Model& model, const RunOptions& o, std::uint64_t first,
                                                            std::uint64_t count, double b0, double b1, bool shared,
@@ -321,6 +332,7 @@ std::vector<spinwright::Solution<double>> bit_sliced_share(const Model& model, c
     std::vector<spinwright::Solution<typename Model::energy_type>> raw(static_cast<std::size_t>(hi - lo));
     std::vector<spinwright::StopReason> why(static_cast<std::size_t>(in_group));
     std::vector<double> seconds(static_cast<std::size_t>(in_group), 0.0);
+    std::vector<std::uint64_t> improvable(static_cast<std::size_t>(in_group), ~std::uint64_t{0});
     on_threads(o.threads, in_group, [&](std::uint64_t g) {
       spinwright::BitSlicedAnnealer<Model, 1> kernel(model, p, o.seed, first / 64 + w0 + g);
       // A lone word on several threads: its half-sweeps are shared by all of them.
@@ -332,14 +344,16 @@ std::vector<spinwright::Solution<double>> bit_sliced_share(const Model& model, c
       why[static_cast<std::size_t>(g)] = kernel.advance(group_budget(o), &seconds[static_cast<std::size_t>(g)]);
       kernel.set_team(nullptr);
       team.reset();
+      improvable[static_cast<std::size_t>(g)] = kernel.improvable_best(0);
       for (std::uint64_t k = 0; k < 64 && lo + 64 * g + k < hi; ++k) {
         raw[static_cast<std::size_t>(64 * g + k)] = kernel.solution_of(static_cast<std::size_t>(k));
       }
     });
     on_threads(o.threads, hi - lo, [&](std::uint64_t r) {
       const auto g = static_cast<std::size_t>(r / 64);
+      const bool settled = ((improvable[g] >> (r % 64)) & 1u) == 0;
       results[static_cast<std::size_t>(lo + r)] =
-          close_restart(model, o, std::move(raw[static_cast<std::size_t>(r)]), why[g], seconds[g], cut_short);
+          close_restart(model, o, std::move(raw[static_cast<std::size_t>(r)]), why[g], seconds[g], cut_short, settled);
     });
   }
   return results;

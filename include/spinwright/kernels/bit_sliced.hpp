@@ -401,6 +401,57 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     track();
     copy_best(k, out);
   }
+  /// The restarts of word w (bit k: restart 64 w + k) whose best state has a single flip that
+  /// lowers its energy: a descent from it would move. A clear bit is a local minimum of single
+  /// flips, on which a steepest descent makes its one pass of N attempts and stops; this
+  /// check does that pass for the 64 restarts at once, counting each spin's unsatisfied bonds
+  /// with bitwise adders (O(bonds) word operations). No allocation.
+  std::uint64_t improvable_best(std::size_t w) const noexcept {
+    if (!valid() || w >= Words) return 0;
+    track();
+    const std::size_t n = model_->num_spins();
+    if (lattice_.dims != 0) {
+      // The best words live on the board: bring word w's into best_ (unused by that layout).
+      const std::size_t plane = lattice_.plane(), side = lattice_.side, stride = lattice_.stride();
+      const std::uint64_t* from = board_.data() + 2 * Words * plane + 2 * w * plane;
+      for (std::size_t r = 0, i = 0; r < n / side; ++r) {
+        const std::size_t parity = (r + r / side) & 1u;
+        const std::uint64_t* row = from + r * stride + 1;
+        for (std::size_t x = 0; x < side; ++x, ++i) best_[i * Words + w] = row[((x + parity) & 1u) * plane + x / 2];
+      }
+    }
+    std::uint64_t improvable = 0;
+    for (std::size_t i = 0; i < n; ++i) {
+      const std::uint64_t own = best_[i * Words + w];
+      std::uint64_t count[5] = {0, 0, 0, 0, 0};  // degree <= 15, plus a field: at most 16 bonds
+      for (std::uint32_t t = row_[i]; t < row_[i + 1]; ++t) {
+        const std::uint32_t slot = slots_[t];
+        const std::size_t j = slot & ~antiparallel_flag;
+        const std::uint64_t other = j == n ? 0 : best_[j * Words + w];  // site n: the field's +1
+        std::uint64_t carry = own ^ other ^ ((slot & antiparallel_flag) ? ~std::uint64_t{0} : 0);  // unsatisfied
+        for (std::uint64_t& plane : count) {
+          const std::uint64_t next = plane & carry;
+          plane ^= carry;
+          carry = next;
+        }
+      }
+      // With k of D bonds unsatisfied the flip changes the energy by 2 J (D - 2 k): it lowers
+      // the energy where k >= D / 2 + 1 (the lanes whose count is at least that).
+      const std::uint32_t least = (row_[i + 1] - row_[i]) / 2 + 1;
+      std::uint64_t above = 0, equal = ~std::uint64_t{0};
+      for (int b = 4; b >= 0; --b) {
+        const std::uint64_t plane = count[b];
+        if ((least >> b) & 1u) {
+          equal &= plane;
+        } else {
+          above |= equal & plane;
+          equal &= ~plane;
+        }
+      }
+      improvable |= above | equal;
+    }
+    return improvable;
+  }
   /// The current energy of every restart of the group into out[0 .. restarts() - 1] (counts
   /// the unsatisfied bonds: O(bonds) word operations).
   void current_energies(energy_type* out) const noexcept {
