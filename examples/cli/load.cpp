@@ -6,7 +6,7 @@
 
 #include <spinwright/io/model_file.hpp>
 #include <spinwright/io/state_file.hpp>
-#include <spinwright/model/builder.hpp>
+#include <spinwright/model/convert.hpp>
 
 #include <cstdint>      // std::int32_t, std::int64_t
 #include <limits>       // std::numeric_limits
@@ -50,42 +50,12 @@ std::string io_message(const spinwright::io::IoStatus& st) {
   return st.line == 0 ? st.file + ": " + st.reason : st.message;
 }
 
-// Rebuilds a model with another value type. Callers make sure every value converts exactly
-// (int64 -> int32 within the int32 range; integers -> double below 2^53).
-template <class To, spinwright::Form F, class Value>
-spinwright::Result<spinwright::SparseModel<F, To, std::uint32_t>> convert_values(
-    const spinwright::SparseModel<F, Value, std::uint32_t>& m) {
-  using Index = std::uint32_t;
-  const std::size_t n = m.num_spins();
-  std::conditional_t<F == spinwright::Form::ising, spinwright::IsingBuilder<To, Index>,
-                     spinwright::QuboBuilder<To, Index>>
-      b(n);
-  b.reserve(m.num_pairs());
-  for (std::size_t i = 0; i < n; ++i) {
-    const auto ii = static_cast<Index>(i);
-    const To lin = static_cast<To>(m.site_term(ii));
-    if constexpr (F == spinwright::Form::ising) {
-      b.add_field(i, lin);
-    } else {
-      b.add_unary(i, lin);
-    }
-    m.for_each_neighbour(ii, [&](Index j, Value v) {
-      if (j <= ii) return;
-      if constexpr (F == spinwright::Form::ising) {
-        b.add_coupling(i, j, static_cast<To>(v));
-      } else {
-        b.add_pair(i, j, static_cast<To>(v));
-      }
-    });
-  }
-  b.add_offset(static_cast<spinwright::energy_t<To>>(m.offset()));
-  return b.build();
-}
-
 template <class Value, spinwright::Form F, class From>
 Failure store(const std::string& path, const spinwright::SparseModel<F, From, std::uint32_t>& model,
               spinwright::SparseModel<F, Value, std::uint32_t>& out) {
-  auto converted = convert_values<Value>(model);
+  // The same pattern with another value type (no re-sort); callers have checked that every
+  // value converts exactly (int64 -> int32 within the int32 range; integers -> double below 2^53).
+  auto converted = spinwright::with_value_type<Value>(model);
   if (!converted) return input_failure(path + ": " + converted.status().message);
   out = std::move(converted).value();
   return {};

@@ -106,3 +106,73 @@ TEST_CASE("Ising to QUBO: both forms have the same exact spectrum, offset includ
     CHECK(eq->levels[0].first_index == ei->levels[0].first_index);
   }
 }
+
+// with_value_type against the builder: the model built directly with the new value type from
+// the same terms has the same arrays (pattern, row order, values), offset and energy bound,
+// and the same energy on every assignment; values that would change are refused by term.
+TEST_CASE("with_value_type: the same model with another value type, or a refusal naming the term") {
+  Xoshiro256 rng(777);
+  for (int trial = 0; trial < 40; ++trial) {
+    const std::uint32_t n = 2 + rng.below(9);
+    IsingBuilder<std::int64_t> wide(n);
+    IsingBuilder<std::int32_t> narrow(n);
+    QuboBuilder<std::int64_t> qwide(n);
+    QuboBuilder<double> qreal(n);
+    for (std::uint32_t i = 0; i < n; ++i) {
+      const std::int64_t h = static_cast<std::int64_t>(rng.below(21)) - 10;
+      wide.add_field(i, h);
+      narrow.add_field(i, static_cast<std::int32_t>(h));
+      qwide.add_unary(i, h);
+      qreal.add_unary(i, static_cast<double>(h));
+    }
+    for (int k = 0; k < 20; ++k) {
+      const std::uint32_t i = rng.below(n), j = rng.below(n);
+      const std::int64_t v = static_cast<std::int64_t>(rng.below(41)) - 20;
+      wide.add_coupling(i, j, v);
+      narrow.add_coupling(i, j, static_cast<std::int32_t>(v));
+      qwide.add_pair(i, j, v);
+      qreal.add_pair(i, j, static_cast<double>(v));
+    }
+    wide.add_offset(-37);
+    narrow.add_offset(-37);
+    qwide.add_offset(5);
+    qreal.add_offset(5);
+    const auto m64 = wide.build().value();
+    const auto want32 = narrow.build().value();
+    const auto got32 = with_value_type<std::int32_t>(m64);
+    REQUIRE(got32.ok());
+    CHECK(got32->row_starts() == want32.row_starts());
+    CHECK(got32->neighbour_array() == want32.neighbour_array());
+    CHECK(got32->value_array() == want32.value_array());
+    CHECK(got32->site_term_array() == want32.site_term_array());
+    CHECK(got32->offset() == want32.offset());
+    CHECK(got32->energy_bound() == want32.energy_bound());
+    const auto q64 = qwide.build().value();
+    const auto wantd = qreal.build().value();
+    const auto gotd = with_value_type<double>(q64);
+    REQUIRE(gotd.ok());
+    CHECK(gotd->value_array() == wantd.value_array());
+    CHECK(gotd->neighbour_array() == wantd.neighbour_array());
+    CHECK(gotd->energy_bound() == wantd.energy_bound());
+    const auto back = with_value_type<std::int64_t>(*gotd);  // integer-valued doubles convert back
+    REQUIRE(back.ok());
+    test_support::for_each_assignment(n, [&](const std::int8_t* s) {
+      CHECK(got32->energy(s) == m64.energy(s));
+      CHECK(gotd->energy(s) == static_cast<double>(q64.energy(s)));
+      CHECK(back->energy(s) == q64.energy(s));
+    });
+  }
+  // Refusals: a coupling beyond int32, a field that is not an integer.
+  IsingBuilder<std::int64_t> big(3);
+  big.add_coupling(0, 2, std::int64_t{5000000000});
+  const auto too_big = with_value_type<std::int32_t>(big.build().value());
+  REQUIRE_FALSE(too_big.ok());
+  CHECK(too_big.status().code == StatusCode::value_out_of_range);
+  CHECK(too_big.status().i == 0);
+  CHECK(too_big.status().j == 2);
+  IsingBuilder<double> half(2);
+  half.add_field(1, 0.5);
+  const auto not_integer = with_value_type<std::int64_t>(half.build().value());
+  REQUIRE_FALSE(not_integer.ok());
+  CHECK(not_integer.status().i == 1);
+}
