@@ -10,8 +10,8 @@
 #include "form.hpp"
 #include "sparse_model.hpp"
 
-#include <algorithm>    // std::sort
-#include <cstddef>      // std::size_t
+#include <algorithm>    // std::stable_sort
+#include <cstddef>      // std::size_t, std::ptrdiff_t
 #include <cstdint>      // std::uint64_t
 #include <limits>       // std::numeric_limits
 #include <type_traits>  // std::is_integral_v
@@ -229,9 +229,7 @@ class TermBuilder {
     }
 
     // Pairs: sort by (i, j), merge duplicates in the wide type, drop exact zeros.
-    std::vector<Triple> sorted = pairs_;
-    std::stable_sort(sorted.begin(), sorted.end(),
-                     [](const Triple& a, const Triple& b) { return a.i != b.i ? a.i < b.i : a.j < b.j; });
+    const std::vector<Triple> sorted = sorted_pairs(n);
     std::vector<Triple> merged;
     merged.reserve(sorted.size());
     for (std::size_t k = 0; k < sorted.size();) {
@@ -294,6 +292,37 @@ class TermBuilder {
     Index j;
     Value v;
   };
+
+  // The pairs ordered by (i, j), equal pairs in the order given (so that their sum is taken
+  // in that order: bit for bit for floating values), as a stable sort would: a counting sort
+  // by i, then each row by j (insertion for short rows, which are usually in order already).
+  // O(pairs + N) plus the rows' own sorts.
+  std::vector<Triple> sorted_pairs(std::size_t n) const {
+    std::vector<std::size_t> start(n + 1, 0);
+    for (const Triple& p : pairs_) ++start[static_cast<std::size_t>(p.i) + 1];
+    for (std::size_t i = 0; i < n; ++i) start[i + 1] += start[i];
+    std::vector<Triple> sorted(pairs_.size());
+    {
+      std::vector<std::size_t> at(start.begin(), start.end() - 1);
+      for (const Triple& p : pairs_) sorted[at[static_cast<std::size_t>(p.i)]++] = p;
+    }
+    const auto by_j = [](const Triple& a, const Triple& b) { return a.j < b.j; };
+    for (std::size_t i = 0; i < n; ++i) {
+      const auto first = sorted.begin() + static_cast<std::ptrdiff_t>(start[i]);
+      const auto last = sorted.begin() + static_cast<std::ptrdiff_t>(start[i + 1]);
+      if (last - first > 32) {
+        std::stable_sort(first, last, by_j);
+        continue;
+      }
+      for (auto k = first + (first != last ? 1 : 0); k < last; ++k) {  // stable: moves past strictly larger j only
+        const Triple t = *k;
+        auto h = k;
+        for (; h != first && t.j < (h - 1)->j; --h) *h = *(h - 1);
+        *h = t;
+      }
+    }
+    return sorted;
+  }
 
   void fail(Status s) {
     if (status_.ok()) status_ = s;
