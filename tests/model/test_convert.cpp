@@ -162,6 +162,21 @@ TEST_CASE("with_value_type: the same model with another value type, or a refusal
       CHECK(back->energy(s) == q64.energy(s));
     });
   }
+  // Real values: the same value type gives the builder's model to the last bit of the bound.
+  {
+    IsingBuilder<double> real(40);
+    for (std::uint32_t i = 0; i < 40; ++i) {
+      real.add_field(i, 0.1 * (i % 7) - 0.25);
+      for (std::uint32_t j = i + 1; j < 40; j += 3) real.add_coupling(i, j, 1.0 / (1.0 + i + 2.0 * j));
+    }
+    real.add_offset(0.3);
+    const auto m = real.build().value();
+    const auto same = with_value_type<double>(m);
+    REQUIRE(same.ok());
+    CHECK(same->energy_bound() == m.energy_bound());
+    CHECK(same->value_array() == m.value_array());
+    CHECK(same->offset() == m.offset());
+  }
   // Refusals: a coupling beyond int32, a field that is not an integer.
   IsingBuilder<std::int64_t> big(3);
   big.add_coupling(0, 2, std::int64_t{5000000000});

@@ -405,7 +405,8 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   /// lowers its energy: a descent from it would move. A clear bit is a local minimum of single
   /// flips, on which a steepest descent makes its one pass of N attempts and stops; this
   /// check does that pass for the 64 restarts at once, counting each spin's unsatisfied bonds
-  /// with bitwise adders (O(bonds) word operations). No allocation.
+  /// with bitwise adders (O(bonds) word operations). No allocation. On the checkerboard it
+  /// unpacks the board's best words into scratch storage: one call at a time per kernel.
   std::uint64_t improvable_best(std::size_t w) const noexcept {
     if (!valid() || w >= Words) return 0;
     track();

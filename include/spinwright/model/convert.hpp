@@ -132,6 +132,8 @@ Result<SparseModel<F, To, Index>> with_value_type(const SparseModel<F, From, Ind
   if (!detail::converts_exactly<to_energy>(offset)) {
     return Status::error(StatusCode::value_out_of_range, "the offset does not convert exactly to the new value type");
   }
+  // The range adds the offset, the one-body terms, then each pair once in (i, j) order, as a
+  // builder does (so a floating bound is the builder's to the last bit).
   bool fits = range.add(static_cast<to_energy>(offset));
   for (std::size_t i = 0; i < n; ++i) {
     if (!detail::converts_exactly<To>(from_linear[i])) {
@@ -140,6 +142,8 @@ Result<SparseModel<F, To, Index>> with_value_type(const SparseModel<F, From, Ind
     }
     linear[i] = static_cast<To>(from_linear[i]);
     fits = range.add(static_cast<to_energy>(linear[i])) && fits;
+  }
+  for (std::size_t i = 0; i < n; ++i) {
     for (std::size_t k = row[i]; k < row[i + 1]; ++k) {
       if (!detail::converts_exactly<To>(from_values[k])) {
         return Status::error(StatusCode::value_out_of_range, "a pair term does not convert exactly to the new value type")
