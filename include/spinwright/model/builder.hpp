@@ -314,7 +314,7 @@ class TermBuilder {
         std::stable_sort(first, last, by_j);
         continue;
       }
-      for (auto k = first + (first != last ? 1 : 0); k < last; ++k) {  // stable: moves past strictly larger j only
+      for (auto k = first; k != last; ++k) {  // insertion, stable: moves past strictly larger j only
         const Triple t = *k;
         auto h = k;
         for (; h != first && t.j < (h - 1)->j; --h) *h = *(h - 1);
