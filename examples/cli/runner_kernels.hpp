@@ -314,7 +314,8 @@ std::vector<spinwright::Solution<double>> lane_share(const Model& model, const R
 // descents of those words are then dealt to the threads one restart at a time, so that 64
 // restarts (one word) still polish on every thread. A restart whose best state the kernel
 // finds settled (improvable_best: no single flip lowers it, the usual case at the end of a
-// schedule) needs no descent: the same answer and counters, without building a descender.
+// schedule) needs no descent: the same answer and counters, without building a descender; and
+// its spins are copied out only if it may be the run's best (the word's lowest settled energy).
 template <class Model>
 std::vector<spinwright::Solution<double>> bit_sliced_share(const Model& model, const RunOptions& o, std::uint64_t first,
                                                            std::uint64_t count, double b0, double b1, bool shared,
@@ -344,9 +345,28 @@ std::vector<spinwright::Solution<double>> bit_sliced_share(const Model& model, c
       why[static_cast<std::size_t>(g)] = kernel.advance(group_budget(o), &seconds[static_cast<std::size_t>(g)]);
       kernel.set_team(nullptr);
       team.reset();
-      improvable[static_cast<std::size_t>(g)] = kernel.improvable_best(0);
-      for (std::uint64_t k = 0; k < 64 && lo + 64 * g + k < hi; ++k) {
-        raw[static_cast<std::size_t>(64 * g + k)] = kernel.solution_of(static_cast<std::size_t>(k));
+      const std::uint64_t movable = kernel.improvable_best(0);
+      improvable[static_cast<std::size_t>(g)] = movable;
+      const std::uint64_t in_word = std::min<std::uint64_t>(64, hi - lo - 64 * g);
+      // Spins only where they can matter: restarts that the closing descent moves, and settled
+      // restarts at the word's lowest settled energy (a settled restart above that is beaten
+      // by one of this word, so it is never the run's best; it keeps its energy and counters).
+      bool any_settled = false;
+      typename Model::energy_type lowest{};
+      for (std::uint64_t k = 0; k < in_word; ++k) {
+        if (((movable >> k) & 1u) != 0) continue;
+        const auto e = kernel.best_energy(static_cast<std::size_t>(k));
+        if (!any_settled || e < lowest) lowest = e;
+        any_settled = true;
+      }
+      for (std::uint64_t k = 0; k < in_word; ++k) {
+        auto& slot = raw[static_cast<std::size_t>(64 * g + k)];
+        const bool settled = ((movable >> k) & 1u) == 0;
+        if (!settled || kernel.best_energy(static_cast<std::size_t>(k)) == lowest) {
+          slot = kernel.solution_of(static_cast<std::size_t>(k));
+        } else {
+          slot = kernel.solution_of(static_cast<std::size_t>(k), false);
+        }
       }
     });
     on_threads(o.threads, hi - lo, [&](std::uint64_t r) {

@@ -3,6 +3,7 @@
 #include <doctest/doctest.h>
 #include <spinwright/io.hpp>
 
+#include <charconv>
 #include <cstdint>
 #include <limits>
 #include <string>
@@ -85,6 +86,45 @@ TEST_CASE("counts") {
   CHECK(code == StatusCode::invalid_argument);
   CHECK_FALSE(io::detail::parse_count("1e3", v, code, "n").empty());
   CHECK(code == StatusCode::parse_error);
+}
+
+// The short-integer paths of parse_number and parse_count read digits directly; on every
+// integer token (any length up to 21 digits, leading zeros, either sign) they must agree with
+// std::from_chars, the standard library's reference conversion (C++17, [charconv]).
+TEST_CASE("integer tokens read as std::from_chars reads them") {
+  std::uint64_t z = 12345;
+  auto next = [&z]() {  // splitmix64 (Steele, Lea & Flood, OOPSLA 2014)
+    z += 0x9e3779b97f4a7c15ull;
+    std::uint64_t x = z;
+    x = (x ^ (x >> 30)) * 0xbf58476d1ce4e5b9ull;
+    x = (x ^ (x >> 27)) * 0x94d049bb133111ebull;
+    return x ^ (x >> 31);
+  };
+  for (int trial = 0; trial < 20000; ++trial) {
+    const std::size_t digits = 1 + next() % 21;
+    std::string t = next() % 3 == 0 ? "-" : "";
+    for (std::size_t k = 0; k < digits; ++k) t += static_cast<char>('0' + (k == 0 && next() % 4 == 0 ? 0 : next() % 10));
+    CAPTURE(t);
+    std::int64_t want = 0;
+    const auto r = std::from_chars(t.data(), t.data() + t.size(), want);
+    Number n;
+    StatusCode code = StatusCode::ok;
+    const std::string why = io::detail::parse_number(t, n, code);
+    REQUIRE(why.empty());
+    CHECK(n.integer);
+    CHECK(n.int_overflow == (r.ec == std::errc::result_out_of_range));
+    if (r.ec == std::errc()) {
+      CHECK(n.i == want);
+      CHECK(n.d == static_cast<double>(want));
+    }
+    std::uint64_t count = 0, want_count = 0;
+    const std::string count_why = io::detail::parse_count(t, count, code, "n");
+    const std::string_view body = t;
+    const auto rc = std::from_chars(body.data(), body.data() + body.size(), want_count);
+    const bool whole = rc.ec == std::errc() && rc.ptr == body.data() + body.size() && t.front() != '-';
+    CHECK(count_why.empty() == whole);
+    if (whole) CHECK(count == want_count);
+  }
 }
 
 TEST_CASE("lines, tokens, quoting") {

@@ -59,6 +59,12 @@ inline IoResult<std::string> read_file_text(const std::string& path, const ReadO
     return IoStatus::error(StatusCode::io_error, path, 0, why);
   }
   std::string text;
+  // The file's size, when known and within the limit, is reserved at once (no regrowth); the
+  // read below still decides what the text is.
+  if (st.type() == std::filesystem::file_type::regular) {
+    const auto size = std::filesystem::file_size(path, ec);
+    if (!ec && size <= options.max_file_bytes && size <= text.max_size()) text.reserve(static_cast<std::size_t>(size));
+  }
   char chunk[1 << 16];
   while (in) {
     in.read(chunk, sizeof chunk);
@@ -234,6 +240,23 @@ inline std::string parse_number(std::string_view t, Number& out, StatusCode& cod
     body.remove_prefix(1);
     if (body.empty() || body.front() == '-' || body.front() == '+') return "not a number: " + quote(t);
   }
+  // Short integers (the usual weight), read directly: the same value as from_chars below.
+  {
+    const bool negative = !body.empty() && body.front() == '-';
+    const std::size_t digits = body.size() - (negative ? 1 : 0);
+    if (digits >= 1 && digits <= 18) {
+      std::int64_t v = 0;
+      std::size_t k = negative ? 1 : 0;
+      for (; k < body.size() && body[k] >= '0' && body[k] <= '9'; ++k) v = v * 10 + (body[k] - '0');
+      if (k == body.size()) {
+        out = Number{};
+        out.integer = true;
+        out.i = negative ? -v : v;
+        out.d = static_cast<double>(out.i);
+        return {};
+      }
+    }
+  }
   const char* first = body.data();
   const char* last = body.data() + body.size();
   bool int_syntax = !body.empty();
@@ -285,6 +308,15 @@ inline std::string parse_number(std::string_view t, Number& out, StatusCode& cod
 /// Parses a whole token as a non-negative count (digits, optional leading '+').
 inline std::string parse_count(std::string_view t, std::uint64_t& out, StatusCode& code, const char* what) {
   code = StatusCode::parse_error;
+  if (!t.empty() && t.size() <= 19) {  // plain digits (the usual case), read directly
+    std::uint64_t v = 0;
+    std::size_t k = 0;
+    for (; k < t.size() && t[k] >= '0' && t[k] <= '9'; ++k) v = v * 10 + static_cast<std::uint64_t>(t[k] - '0');
+    if (k == t.size()) {
+      out = v;
+      return {};
+    }
+  }
   std::string_view body = t;
   if (!body.empty() && body.front() == '+') body.remove_prefix(1);
   if (!body.empty() && body.front() == '-') {

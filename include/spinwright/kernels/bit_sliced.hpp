@@ -483,13 +483,16 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   /// The best restart as a Solution (its energy from the counted unsatisfied bonds, which is
   /// the model's energy of its spins: J (2 unsatisfied - bonds) + offset).
   Solution<energy_type> solution() const { return solution_of(best_lane()); }
-  /// Restart k of the group as a Solution; restart = first_restart() + k.
-  Solution<energy_type> solution_of(std::size_t k) const {
+  /// Restart k of the group as a Solution; restart = first_restart() + k. With_spins false:
+  /// everything but the spins (left empty), for a caller that needs only energies and counters.
+  Solution<energy_type> solution_of(std::size_t k, bool with_spins = true) const {
     Solution<energy_type> s;
     if (!valid()) return s;
     track();
-    s.spins.assign(model_->num_spins(), 1);
-    copy_best(k, s.spins.data());
+    if (with_spins) {
+      s.spins.assign(model_->num_spins(), 1);
+      copy_best(k, s.spins.data());
+    }
     s.energy = energy_of_unsat(best_unsat_[k]);
     s.sweeps = sweeps_;
     s.attempted = sweeps_ * model_->num_spins();
