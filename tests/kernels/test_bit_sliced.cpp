@@ -365,6 +365,102 @@ TEST_CASE("the checkerboard sweep: which models take it, energies, counts, words
   }
 }
 
+namespace {
+// One checkerboard sweep by its documented rule, site by site and restart by restart, in
+// plain scalar code: colour 0 then colour 1; block b (z layer, or row of a square lattice)
+// draws from its eight streams Xoshiro256::for_restart(seed, bit_sliced_site_stream(0, b, g)),
+// site h of each row step taking stream h mod 8 (every stream moves once a step, padding
+// included); a site with k of its D bonds unsatisfied flips for k > D / 2, for k = D / 2 when
+// the uniform's top bit is 0, and for k < D / 2 when u / 2 < floor(2^63 exp(-2 beta |J| (D - 2 k)))
+// (the Metropolis probability of the rise 2 |J| (D - 2 k), Metropolis et al., J. Chem. Phys.
+// 21, 1087 (1953)). Sites are x + L y + L^2 z (problems/lattice.hpp).
+void reference_checkerboard_sweep(const Model& m, std::size_t side, int dims, double beta,
+                                  std::vector<Xoshiro256>& streams, std::vector<std::vector<std::int8_t>>& spins) {
+  const std::size_t half = side / 2, padded = (half + 7) / 8 * 8;
+  const int degree = 2 * dims;
+  std::int32_t magnitude = 0;
+  m.for_each_neighbour(0, [&](std::uint32_t, std::int32_t v) { magnitude = v < 0 ? -v : v; });
+  std::uint64_t threshold[16] = {};
+  for (int r = 1; r <= degree; ++r) {
+    const double p = std::exp(-2.0 * beta * magnitude * r);
+    threshold[r] = !(p < 1.0) ? std::uint64_t{1} << 63 : static_cast<std::uint64_t>(std::ldexp(p, 63));
+  }
+  const std::size_t blocks = side, rows = dims == 3 ? side : 1;
+  for (std::size_t c = 0; c < 2; ++c) {
+    for (std::size_t b = 0; b < blocks; ++b) {
+      for (std::size_t row = 0; row < rows; ++row) {
+        const std::size_t z = dims == 3 ? b : 0, y = dims == 3 ? row : b;
+        for (std::size_t h = 0; h < padded; h += 8) {
+          for (std::size_t j = 0; j < 8; ++j) {
+            const std::uint64_t u = streams[8 * b + j].next();
+            if (h + j >= half) continue;
+            const std::size_t x = 2 * (h + j) + ((c + y + z) & 1u);
+            const auto i = static_cast<std::uint32_t>(x + side * y + side * side * z);
+            for (auto& s : spins) {
+              int unsat = 0;
+              m.for_each_neighbour(i, [&](std::uint32_t n, std::int32_t v) { unsat += v * s[i] * s[n] > 0; });
+              const int rise = degree - 2 * unsat;
+              const bool flip = rise < 0 || (rise == 0 && (u >> 63) == 0) ||
+                                (rise > 0 && (u >> 1) < threshold[rise]);
+              if (flip) s[i] = static_cast<std::int8_t>(-s[i]);
+            }
+          }
+        }
+      }
+    }
+  }
+}
+
+// The L x L periodic square lattice with couplings +-1 from a seeded coin (x + L y, as
+// square_torus numbers it): a frustrated 2D model for the checkerboard.
+Model plus_minus_square(std::uint32_t L, std::uint64_t seed) {
+  Xoshiro256 coin(seed);
+  IsingBuilder<std::int32_t> b(std::uint64_t{L} * L);
+  for (std::uint64_t y = 0; y < L; ++y)
+    for (std::uint64_t x = 0; x < L; ++x) {
+      b.add_coupling(x + L * y, (x + 1) % L + L * y, coin.coin() ? 1 : -1);
+      b.add_coupling(x + L * y, x + L * ((y + 1) % L), coin.coin() ? 1 : -1);
+    }
+  return b.build().value();
+}
+}  // namespace
+
+TEST_CASE("the checkerboard sweep follows its rule site by site (every restart, every sweep)") {
+  struct Case {
+    Model model;
+    std::size_t side;
+    int dims;
+  };
+  const Case cases[] = {{plus_minus_cubic_lattice<std::int32_t>(6, 3).value(), 6, 3},
+                        {plus_minus_cubic_lattice<std::int32_t>(4, 9).value(), 4, 3},
+                        {square_torus<std::int32_t>(10, -1).value(), 10, 2},
+                        {plus_minus_square(18, 4), 18, 2}};
+  for (const Case& k : cases) {
+    CAPTURE(k.side);
+    CAPTURE(k.dims);
+    BitSlicedParams p;
+    p.sweeps = 12;
+    const std::uint64_t seed = 21;
+    BitSlicedAnnealer<Model, 1> a(k.model, p, seed);
+    REQUIRE(a.checkerboard());
+    std::vector<Xoshiro256> streams;
+    for (std::size_t b = 0; b < k.side; ++b)
+      for (std::uint64_t g = 0; g < 8; ++g) streams.push_back(Xoshiro256::for_restart(seed, bit_sliced_site_stream(0, b, g)));
+    std::vector<std::vector<std::int8_t>> spins(64, std::vector<std::int8_t>(k.model.num_spins()));
+    for (std::size_t r = 0; r < 64; ++r) a.current_spins(r, spins[r].data());
+    std::vector<std::int8_t> got(k.model.num_spins());
+    for (int sweep = 0; sweep < 12; ++sweep) {
+      CAPTURE(sweep);
+      reference_checkerboard_sweep(k.model, k.side, k.dims, a.beta(), streams, spins);
+      a.step(1);
+      for (std::size_t r = 0; r < 64; ++r) {
+        a.current_spins(r, got.data());
+        REQUIRE(got == spins[r]);
+      }
+    }
+  }
+}
+
 TEST_CASE("improvable_best marks exactly the restarts whose best state a descent would move") {
   // Reference: a steepest descent (kernels/descent.hpp) from each restart's unpacked best
   // spins moves (accepts a flip) exactly where the bit is set. Both layouts (checkerboard
