@@ -225,6 +225,22 @@ struct BitLattice {
   std::size_t plane() const noexcept { return rows() * stride(); }
 };
 
+// Site coordinates walked in site order (x fastest), and the periodic neighbours of a
+// coordinate, without a division per site (the set-up loops ran at a division each).
+struct LatticeWalk {
+  std::size_t side, x = 0, y = 0, z = 0;
+  explicit LatticeWalk(std::size_t s) noexcept : side(s) {}
+  void next() noexcept {
+    if (++x != side) return;
+    x = 0;
+    if (++y != side) return;
+    y = 0;
+    ++z;
+  }
+  std::size_t up(std::size_t c) const noexcept { return c + 1 == side ? 0 : c + 1; }
+  std::size_t down(std::size_t c) const noexcept { return (c == 0 ? side : c) - 1; }
+};
+
 template <class Model>
 BitLattice bit_lattice_of(const Model& m) {
   using index_type = typename Model::index_type;
@@ -236,20 +252,21 @@ BitLattice bit_lattice_of(const Model& m) {
     if ((dims == 3 ? side * side * side : side * side) != n) continue;
     bool ok = true;
     const std::size_t layer = side * side;
-    for (std::size_t i = 0; i < n && ok; ++i) {
+    LatticeWalk at(side);
+    for (std::size_t i = 0; i < n && ok; ++i, at.next()) {
       const auto ii = static_cast<index_type>(i);
       if (m.site_term(ii) != value_type{0}) {
         ok = false;
         break;
       }
-      const std::size_t x = i % side, y = (i / side) % side, z = i / layer;
+      const std::size_t x = at.x, y = at.y, z = at.z;
       const std::size_t base_y = i - x, base_z = i - y * side;
-      const std::size_t want[6] = {base_y + (x + 1) % side,
-                                   base_y + (x + side - 1) % side,
-                                   base_z + ((y + 1) % side) * side,
-                                   base_z + ((y + side - 1) % side) * side,
-                                   i - z * layer + ((z + 1) % side) * layer,
-                                   i - z * layer + ((z + side - 1) % side) * layer};
+      const std::size_t want[6] = {base_y + at.up(x),
+                                   base_y + at.down(x),
+                                   base_z + at.up(y) * side,
+                                   base_z + at.down(y) * side,
+                                   i - z * layer + at.up(z) * layer,
+                                   i - z * layer + at.down(z) * layer};
       unsigned found = 0;
       m.for_each_neighbour(ii, [&](index_type j, value_type v) {
         if (j == ii || v == value_type{0}) return;
@@ -886,11 +903,9 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     return l.dims == 0 ? 0 : (4 * Words + 2) * l.plane();
   }
   // Where site i sits on the board: its colour and its offset within the colour's plane.
-  void board_place(std::size_t i, std::size_t& colour, std::size_t& at) const noexcept {
-    const std::size_t side = lattice_.side;
-    const std::size_t x = i % side, y = (i / side) % side, z = i / (side * side);
-    colour = (x + y + z) & 1u;
-    at = (z * side + y) * lattice_.stride() + 1 + x / 2;
+  void board_place(const detail::LatticeWalk& c, std::size_t& colour, std::size_t& at) const noexcept {
+    colour = (c.x + c.y + c.z) & 1u;
+    at = (c.z * lattice_.side + c.y) * lattice_.stride() + 1 + c.x / 2;
   }
   // The ghost words of every row of one colour plane: the row's last site before its first,
   // its first after its last.
@@ -911,14 +926,15 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     const std::size_t n = m.num_spins(), side = lattice_.side, plane = lattice_.plane();
     const std::size_t layer = side * side;
     std::uint64_t* bits = board_.data() + 4 * Words * plane;
-    for (std::size_t i = 0; i < n; ++i) {
-      const std::size_t x = i % side, y = (i / side) % side, z = i / layer;
+    detail::LatticeWalk c(side);
+    for (std::size_t i = 0; i < n; ++i, c.next()) {
+      const std::size_t x = c.x, y = c.y, z = c.z;
       const std::size_t base_y = i - x, base_z = i - y * side, base = i - z * layer;
-      const std::size_t want[6] = {base_y + (x + 1) % side,          base_y + (x + side - 1) % side,
-                                   base_z + ((y + 1) % side) * side, base_z + ((y + side - 1) % side) * side,
-                                   base + ((z + 1) % side) * layer,  base + ((z + side - 1) % side) * layer};
+      const std::size_t want[6] = {base_y + c.up(x),          base_y + c.down(x),
+                                   base_z + c.up(y) * side, base_z + c.down(y) * side,
+                                   base + c.up(z) * layer,  base + c.down(z) * layer};
       std::size_t colour = 0, at = 0;
-      board_place(i, colour, at);
+      board_place(c, colour, at);
       std::uint64_t b = 0;
       m.for_each_neighbour(static_cast<index_type>(i), [&](index_type j, value_type v) {
         for (int d = 0; d < 2 * lattice_.dims; ++d) {
@@ -931,9 +947,10 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   // spins_ -> board_ (after a reset or warm start).
   void load_board() noexcept {
     const std::size_t n = model_->num_spins(), plane = lattice_.plane();
-    for (std::size_t i = 0; i < n; ++i) {
+    detail::LatticeWalk c(lattice_.side);
+    for (std::size_t i = 0; i < n; ++i, c.next()) {
       std::size_t colour = 0, at = 0;
-      board_place(i, colour, at);
+      board_place(c, colour, at);
       for (std::size_t w = 0; w < Words; ++w) board_[(2 * w + colour) * plane + at] = spins_[i * Words + w];
     }
     for (std::size_t p = 0; p < 2 * Words; ++p) refresh_ghosts(board_.data() + p * plane);
@@ -943,9 +960,10 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     if (!stale_) return;
     stale_ = false;
     const std::size_t n = model_->num_spins(), plane = lattice_.plane();
-    for (std::size_t i = 0; i < n; ++i) {
+    detail::LatticeWalk c(lattice_.side);
+    for (std::size_t i = 0; i < n; ++i, c.next()) {
       std::size_t colour = 0, at = 0;
-      board_place(i, colour, at);
+      board_place(c, colour, at);
       for (std::size_t w = 0; w < Words; ++w) spins_[i * Words + w] = board_[(2 * w + colour) * plane + at];
     }
   }
