@@ -1047,13 +1047,21 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
         }
       }
       empty();
+      // The eight position counters summed into one (every count is at most the bonds, below
+      // 2^planes_, and so is each partial sum), then read out restart by restart.
+      const auto used = static_cast<std::size_t>(planes_);
+      std::uint64_t total[40] = {};
+      for (std::size_t j = 0; j < 8; ++j) {
+        std::uint64_t carry = 0;
+        for (std::size_t p = 0; p < used; ++p) {
+          const std::uint64_t t = total[p], x = wide[p * 8 + j];
+          total[p] = t ^ x ^ carry;
+          carry = (t & x) | (carry & (t ^ x));
+        }
+      }
       for (unsigned b = 0; b < 64; ++b) {
         std::int64_t c = 0;
-        for (std::size_t p = 0; p < 40; ++p) {
-          std::int64_t ones = 0;
-          for (std::size_t j = 0; j < 8; ++j) ones += static_cast<std::int64_t>((wide[p * 8 + j] >> b) & 1u);
-          c += ones << p;
-        }
+        for (std::size_t p = 0; p < used; ++p) c |= static_cast<std::int64_t>((total[p] >> b) & 1u) << p;
         unsat[w * 64 + b] = c;
       }
     }
