@@ -1091,13 +1091,27 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
       }
       std::uint64_t count[3];
       detail::count_bits<D>(in, count);
+      // The count added into the eight planes, written out (full adders for its three planes,
+      // then the carry alone): as a loop it keeps GCC at -O2 from vectorising over sites.
       std::uint64_t carry = 0;
-      for (std::size_t p = 0; p < 8; ++p) {
+      auto full = [&](std::size_t p, std::uint64_t x2) {
         const std::uint64_t a = near[p * 8 + j];
-        const std::uint64_t x2 = p < 3 ? count[p] : 0;
         near[p * 8 + j] = a ^ x2 ^ carry;
         carry = (a & x2) | (carry & (a ^ x2));
-      }
+      };
+      auto half_add = [&](std::size_t p) {
+        const std::uint64_t a = near[p * 8 + j];
+        near[p * 8 + j] = a ^ carry;
+        carry &= a;
+      };
+      full(0, count[0]);
+      full(1, count[1]);
+      full(2, count[2]);
+      half_add(3);
+      half_add(4);
+      half_add(5);
+      half_add(6);
+      half_add(7);
     }
   }
 
@@ -1206,8 +1220,12 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
       r3[j] = detail::StreamSet<8>::rotl(d1, 45);
       // Level masks (u / 2 at or above the level's threshold) and the coin (u's top bit).
       const std::uint64_t hu = u >> 1;
-      std::uint64_t above[dims];
-      for (std::size_t k = 0; k < dims; ++k) above[k] = hu >= limit[k] ? ~std::uint64_t{0} : 0;
+      // Written out, not looped over k: a loop inside this one keeps GCC at -O2 (which does not
+      // unroll it completely) from vectorising the loop over sites, four times slower.
+      std::uint64_t above[3];
+      above[0] = hu >= limit[0] ? ~std::uint64_t{0} : 0;
+      above[1] = hu >= limit[1] ? ~std::uint64_t{0} : 0;
+      above[2] = D == 6 && hu >= limit[dims - 1] ? ~std::uint64_t{0} : 0;
       const std::uint64_t tails = std::uint64_t{0} - (u >> 63);
       std::uint64_t accept;
       if constexpr (D == 6) {
