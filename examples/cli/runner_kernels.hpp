@@ -351,6 +351,9 @@ std::vector<spinwright::Solution<double>> bit_sliced_share(const Model& model, c
       // Spins only where they can matter: restarts that the closing descent moves, and settled
       // restarts at the word's lowest settled energy (a settled restart above that is beaten
       // by one of this word, so it is never the run's best; it keeps its energy and counters).
+      // A run cut short (Ctrl-C) polishes every restart from its spins: all are kept then.
+      const spinwright::StopReason ended = why[static_cast<std::size_t>(g)];
+      const bool may_omit = ended != spinwright::StopReason::stopped && ended != spinwright::StopReason::deadline;
       bool any_settled = false;
       typename Model::energy_type lowest{};
       for (std::uint64_t k = 0; k < in_word; ++k) {
@@ -362,7 +365,7 @@ std::vector<spinwright::Solution<double>> bit_sliced_share(const Model& model, c
       for (std::uint64_t k = 0; k < in_word; ++k) {
         auto& slot = raw[static_cast<std::size_t>(64 * g + k)];
         const bool settled = ((movable >> k) & 1u) == 0;
-        if (!settled || kernel.best_energy(static_cast<std::size_t>(k)) == lowest) {
+        if (!may_omit || !settled || kernel.best_energy(static_cast<std::size_t>(k)) == lowest) {
           slot = kernel.solution_of(static_cast<std::size_t>(k));
         } else {
           slot = kernel.solution_of(static_cast<std::size_t>(k), false);
