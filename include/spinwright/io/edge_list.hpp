@@ -115,8 +115,10 @@ inline IoResult<TermList> scan_edge_list(std::string_view text, std::string_view
     RawTerm t;
     std::uint64_t ends[2] = {0, 0};
     for (int e = 0; e < 2; ++e) {
-      const std::string why = parse_count(tok[e], ends[e], code, "node number");
-      if (!why.empty()) return IoStatus::error(code, name, line.number, why);
+      if (!read_plain_count(tok[e], ends[e])) {
+        const std::string why = parse_count(tok[e], ends[e], code, "node number");
+        if (!why.empty()) return IoStatus::error(code, name, line.number, why);
+      }
       if (ends[e] == 0) {
         return IoStatus::error(StatusCode::index_out_of_range, name, line.number,
                                "node number 0: nodes are numbered from 1 to N");
@@ -136,8 +138,10 @@ inline IoResult<TermList> scan_edge_list(std::string_view text, std::string_view
     }
     // Unweighted lists: every edge has weight 1 (the literal below, so messages can quote it).
     const std::string_view weight = count == 3 ? tok[2] : std::string_view("1");
-    const std::string why = parse_number(weight, t.value, code);
-    if (!why.empty()) return IoStatus::error(code, name, line.number, "weight: " + why);
+    if (!read_short_integer(weight, t.value)) {
+      const std::string why = parse_number(weight, t.value, code);
+      if (!why.empty()) return IoStatus::error(code, name, line.number, "weight: " + why);
+    }
     t.i = ends[0] - 1;
     t.j = ends[1] - 1;
     t.token = weight;

@@ -174,8 +174,10 @@ inline IoStatus scan_mm_entry(const std::string_view* tok, std::size_t count, st
     }
   }
   RawTerm t;
-  const std::string why = parse_number(tok[2], t.value, code);
-  if (!why.empty()) return IoStatus::error(code, name, line, "value: " + why);
+  if (!read_short_integer(tok[2], t.value)) {
+    const std::string why = parse_number(tok[2], t.value, code);
+    if (!why.empty()) return IoStatus::error(code, name, line, "value: " + why);
+  }
   if (banner.integer_field && !t.value.integer) {
     return IoStatus::error(StatusCode::parse_error, name, line,
                            "real value " + quote(tok[2]) + " in an 'integer' file");

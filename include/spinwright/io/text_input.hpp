@@ -230,6 +230,33 @@ inline bool real_literal_overflows(std::string_view t) noexcept {
   return lead > 0;
 }
 
+/// The usual tokens, read directly (no message to build, nothing to allocate): a short integer
+/// ('-' and 1 to 18 digits) into `out` as parse_number reads it, or plain digits (1 to 19) as
+/// parse_count reads them. False: not such a token; the full parser decides.
+inline bool read_short_integer(std::string_view t, Number& out) noexcept {
+  const bool negative = !t.empty() && t.front() == '-';
+  const std::size_t digits = t.size() - (negative ? 1 : 0);
+  if (digits < 1 || digits > 18) return false;
+  std::int64_t v = 0;
+  std::size_t k = negative ? 1 : 0;
+  for (; k < t.size() && t[k] >= '0' && t[k] <= '9'; ++k) v = v * 10 + (t[k] - '0');
+  if (k != t.size()) return false;
+  out = Number{};
+  out.integer = true;
+  out.i = negative ? -v : v;
+  out.d = static_cast<double>(out.i);
+  return true;
+}
+inline bool read_plain_count(std::string_view t, std::uint64_t& out) noexcept {
+  if (t.empty() || t.size() > 19) return false;
+  std::uint64_t v = 0;
+  std::size_t k = 0;
+  for (; k < t.size() && t[k] >= '0' && t[k] <= '9'; ++k) v = v * 10 + static_cast<std::uint64_t>(t[k] - '0');
+  if (k != t.size()) return false;
+  out = v;
+  return true;
+}
+
 /// Parses a whole token as a number. Returns "" on success, otherwise the reason (and sets
 /// `code`): not a number, trailing characters, NaN/infinity, or beyond the range of double.
 /// A leading '+' is accepted. Real literals that underflow read as 0 (correct rounding).
@@ -240,23 +267,7 @@ inline std::string parse_number(std::string_view t, Number& out, StatusCode& cod
     body.remove_prefix(1);
     if (body.empty() || body.front() == '-' || body.front() == '+') return "not a number: " + quote(t);
   }
-  // Short integers (the usual weight), read directly: the same value as from_chars below.
-  {
-    const bool negative = !body.empty() && body.front() == '-';
-    const std::size_t digits = body.size() - (negative ? 1 : 0);
-    if (digits >= 1 && digits <= 18) {
-      std::int64_t v = 0;
-      std::size_t k = negative ? 1 : 0;
-      for (; k < body.size() && body[k] >= '0' && body[k] <= '9'; ++k) v = v * 10 + (body[k] - '0');
-      if (k == body.size()) {
-        out = Number{};
-        out.integer = true;
-        out.i = negative ? -v : v;
-        out.d = static_cast<double>(out.i);
-        return {};
-      }
-    }
-  }
+  if (read_short_integer(body, out)) return {};
   const char* first = body.data();
   const char* last = body.data() + body.size();
   bool int_syntax = !body.empty();
@@ -308,15 +319,7 @@ inline std::string parse_number(std::string_view t, Number& out, StatusCode& cod
 /// Parses a whole token as a non-negative count (digits, optional leading '+').
 inline std::string parse_count(std::string_view t, std::uint64_t& out, StatusCode& code, const char* what) {
   code = StatusCode::parse_error;
-  if (!t.empty() && t.size() <= 19) {  // plain digits (the usual case), read directly
-    std::uint64_t v = 0;
-    std::size_t k = 0;
-    for (; k < t.size() && t[k] >= '0' && t[k] <= '9'; ++k) v = v * 10 + static_cast<std::uint64_t>(t[k] - '0');
-    if (k == t.size()) {
-      out = v;
-      return {};
-    }
-  }
+  if (read_plain_count(t, out)) return {};
   std::string_view body = t;
   if (!body.empty() && body.front() == '+') body.remove_prefix(1);
   if (!body.empty() && body.front() == '-') {
