@@ -700,7 +700,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   // bitwise adders into 4 planes, which are added into a counter of `planes_` planes per word.
   void count_unsatisfied(std::int64_t* unsat) const noexcept {
     if (lattice_.dims != 0) {
-      count_board_on_unit(unsat);
+      count_board_all(unsat);
       return;
     }
     const std::size_t n = model_->num_spins();
@@ -968,33 +968,81 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     }
   }
 
-  void count_board_on_unit(std::int64_t* unsat) const noexcept {
+  // The count of the board's layers z0 .. z1 - 1 (a cubic lattice; a square one has one) on
+  // the chosen unit, into unsat.
+  void count_board_on_unit(std::int64_t* unsat, std::size_t z0, std::size_t z1) const noexcept {
     switch (unit_) {
 #if SPINWRIGHT_BIT_DISPATCH
       case BitSlicedUnit::avx512:
-        count_board_avx512(unsat);
+        count_board_avx512(unsat, z0, z1);
         break;
       case BitSlicedUnit::avx2:
-        count_board_avx2(unsat);
+        count_board_avx2(unsat, z0, z1);
         break;
 #endif
       default:
-        count_board_any(unsat);
+        count_board_any(unsat, z0, z1);
         break;
     }
   }
 #if SPINWRIGHT_BIT_DISPATCH
-  __attribute__((target("avx2"))) void count_board_avx2(std::int64_t* unsat) const noexcept { count_board_any(unsat); }
+  __attribute__((target("avx2"))) void count_board_avx2(std::int64_t* unsat, std::size_t z0,
+                                                         std::size_t z1) const noexcept {
+    count_board_any(unsat, z0, z1);
+  }
   __attribute__((target("avx2,avx512f,avx512bw,avx512vl,avx512dq"))) void count_board_avx512(
-      std::int64_t* unsat) const noexcept {
-    count_board_any(unsat);
+      std::int64_t* unsat, std::size_t z0, std::size_t z1) const noexcept {
+    count_board_any(unsat, z0, z1);
   }
 #endif
-  SPINWRIGHT_BIT_INLINE void count_board_any(std::int64_t* unsat) const noexcept {
+  SPINWRIGHT_BIT_INLINE void count_board_any(std::int64_t* unsat, std::size_t z0, std::size_t z1) const noexcept {
     if (lattice_.dims == 3) {
-      count_board<6>(unsat);
+      count_board<6>(unsat, z0, z1);
     } else {
-      count_board<4>(unsat);
+      count_board<4>(unsat, z0, z1);
+    }
+  }
+
+  // The count over the whole board: a cubic lattice with a team splits its layers among the
+  // team's parts (at most count_parts_max), each counting its own; the sums are integers, so
+  // the answer is the same.
+  static constexpr unsigned count_parts_max = 4;
+  void count_board_all(std::int64_t* unsat) const noexcept {
+    const std::size_t layers = lattice_.dims == 3 ? lattice_.side : 1;
+    const unsigned parts = team_ != nullptr ? team_->parts() : 1;
+    if (parts > 1 && layers >= 2) {
+      count_on_team(unsat, parts);
+    } else {
+      count_board_on_unit(unsat, 0, layers);
+    }
+  }
+  struct CountCall {
+    const BitSlicedAnnealer* self;
+    unsigned used;
+    std::int64_t (*partial)[restarts_per_group];
+  };
+  static void count_work(void* context, unsigned p) noexcept {
+    auto* call = static_cast<CountCall*>(context);
+    if (p >= call->used) return;
+    const std::size_t layers = call->self->lattice_.side;
+    call->self->count_board_on_unit(call->partial[p], layers * p / call->used, layers * (p + 1) / call->used);
+  }
+  // Not inlined: its partial counts (up to 4 x 64 x Words words) stay off the frame of every
+  // caller that has no team (firmware builds among them).
+#if defined(__GNUC__) || defined(__clang__)
+  __attribute__((noinline))
+#endif
+  void count_on_team(std::int64_t* unsat, unsigned parts) const noexcept {
+    const std::size_t layers = lattice_.side;
+    unsigned used = parts < count_parts_max ? parts : count_parts_max;
+    if (used > layers) used = static_cast<unsigned>(layers);
+    std::int64_t partial[count_parts_max][restarts_per_group];
+    CountCall call{this, used, partial};
+    team_->run(&count_work, &call);
+    for (std::size_t k = 0; k < restarts_per_group; ++k) {
+      std::int64_t sum = 0;
+      for (unsigned p = 0; p < used; ++p) sum += partial[p][k];
+      unsat[k] = sum;
     }
   }
 
@@ -1002,10 +1050,9 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
   // the colour-0 sites' bond words, eight sites a step through the same adders, are summed
   // into bitwise counters per step position (8 planes, emptied every 42 steps into wide ones).
   template <int D>
-  SPINWRIGHT_BIT_INLINE void count_board(std::int64_t* unsat) const noexcept {
+  SPINWRIGHT_BIT_INLINE void count_board(std::int64_t* unsat, std::size_t z0, std::size_t z1) const noexcept {
     const std::size_t side = lattice_.side, half = lattice_.half(), padded = lattice_.padded();
     const std::size_t stride = lattice_.stride(), plane = lattice_.plane();
-    const std::size_t layers = D == 6 ? side : 1;
     const std::uint64_t* board = board_.data();
     const std::uint64_t* bits = bond_bits();
     for (std::size_t w = 0; w < Words; ++w) {
@@ -1028,7 +1075,7 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
         for (std::size_t k = 0; k < 64; ++k) near[k] = 0;
         pending = 0;
       };
-      for (std::size_t z = 0; z < layers; ++z) {
+      for (std::size_t z = z0; z < z1; ++z) {
         const std::size_t zu = z + 1 == side ? 0 : z + 1, zd = z == 0 ? side - 1 : z - 1;
         for (std::size_t y = 0; y < side; ++y) {
           const std::size_t yu = y + 1 == side ? 0 : y + 1, yd = y == 0 ? side - 1 : y - 1;
