@@ -74,7 +74,7 @@ spinwright::Solution<typename Model::energy_type> finish(const Model& model,
                                                          spinwright::Solution<typename Model::energy_type>&& s,
                                                          bool settled = false) {
   using spinwright::StopReason;
-  if (settled && s.reason != StopReason::stopped && s.reason != StopReason::deadline) {
+  if (settled && !cut(s.reason)) {
     s.sweeps += 1;
     s.attempted += model.num_spins();
     return std::move(s);
@@ -352,8 +352,7 @@ std::vector<spinwright::Solution<double>> bit_sliced_share(const Model& model, c
       // restarts at the word's lowest settled energy (a settled restart above that is beaten
       // by one of this word, so it is never the run's best; it keeps its energy and counters).
       // A run cut short (Ctrl-C) polishes every restart from its spins: all are kept then.
-      const spinwright::StopReason ended = why[static_cast<std::size_t>(g)];
-      const bool may_omit = ended != spinwright::StopReason::stopped && ended != spinwright::StopReason::deadline;
+      const bool may_omit = !cut(why[static_cast<std::size_t>(g)]);
       bool any_settled = false;
       typename Model::energy_type lowest{};
       for (std::uint64_t k = 0; k < in_word; ++k) {

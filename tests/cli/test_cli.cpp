@@ -89,6 +89,21 @@ Graph random_graph(int n, int m, int lo, int hi, std::uint64_t seed) {
   return g;
 }
 
+// The L x L periodic square lattice (node x + L y + 1) with +-1 weights from a seeded coin.
+Graph plus_minus_torus(int L, std::uint64_t seed) {
+  std::mt19937_64 rng(seed);
+  Graph g;
+  g.n = L * L;
+  for (int y = 0; y < L; ++y) {
+    for (int x = 0; x < L; ++x) {
+      const int i = L * y + x + 1;
+      g.edges.push_back({i, L * y + (x + 1) % L + 1, rng() % 2 ? 1 : -1});
+      g.edges.push_back({i, L * ((y + 1) % L) + x + 1, rng() % 2 ? 1 : -1});
+    }
+  }
+  return g;
+}
+
 Graph cycle(int n) {
   Graph g;
   g.n = n;
@@ -275,16 +290,7 @@ TEST_CASE("cli: many annealing restarts run in lockstep lanes, and the report sa
 TEST_CASE("cli: many annealing restarts of a +-1 model run bit-sliced, and the report says so") {
   // kernels/bit_sliced.hpp takes couplings of one magnitude and degree <= 15: a 10 x 10 torus
   // with +-1 weights from a fixed seed. 100 restarts = one full word of 64 and a partial one.
-  std::mt19937_64 rng(77);
-  Graph g;
-  g.n = 100;
-  for (int y = 0; y < 10; ++y) {
-    for (int x = 0; x < 10; ++x) {
-      const int i = 10 * y + x + 1;
-      g.edges.push_back({i, 10 * y + (x + 1) % 10 + 1, rng() % 2 ? 1 : -1});
-      g.edges.push_back({i, 10 * ((y + 1) % 10) + x + 1, rng() % 2 ? 1 : -1});
-    }
-  }
+  const Graph g = plus_minus_torus(10, 77);
   TempDir dir;
   REQUIRE(dir.ok());
   const std::string path = dir.write("pm.txt", g.edge_list());
@@ -790,16 +796,7 @@ TEST_CASE("cli: Ctrl-C stops a long run, prints the best state so far and exits 
 TEST_CASE("cli: Ctrl-C stops a bit-sliced run too: every restart polished from its own state") {
   // A 20 x 20 torus with +-1 weights (the checkerboard path), 64 restarts of a 10^9-sweep
   // schedule, SIGINT after 0.7 s: the best state so far, consistent and a local minimum.
-  std::mt19937_64 rng(31);
-  Graph g;
-  g.n = 400;
-  for (int y = 0; y < 20; ++y) {
-    for (int x = 0; x < 20; ++x) {
-      const int i = 20 * y + x + 1;
-      g.edges.push_back({i, 20 * y + (x + 1) % 20 + 1, rng() % 2 ? 1 : -1});
-      g.edges.push_back({i, 20 * ((y + 1) % 20) + x + 1, rng() % 2 ? 1 : -1});
-    }
-  }
+  const Graph g = plus_minus_torus(20, 31);
   TempDir dir;
   REQUIRE(dir.ok());
   const std::string path = dir.write("pm20.txt", g.edge_list());

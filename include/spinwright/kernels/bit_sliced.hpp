@@ -225,8 +225,12 @@ struct BitLattice {
   std::size_t plane() const noexcept { return rows() * stride(); }
 };
 
-// Site coordinates walked in site order (x fastest), and the periodic neighbours of a
-// coordinate, without a division per site (the set-up loops ran at a division each).
+// The periodic neighbours of coordinate c on a side of `side`, without a division (the sweep,
+// the count and the set-up each ran at a division per row or site).
+constexpr std::size_t periodic_up(std::size_t c, std::size_t side) noexcept { return c + 1 == side ? 0 : c + 1; }
+constexpr std::size_t periodic_down(std::size_t c, std::size_t side) noexcept { return (c == 0 ? side : c) - 1; }
+
+// Site coordinates walked in site order (x fastest).
 struct LatticeWalk {
   std::size_t side, x = 0, y = 0, z = 0;
   explicit LatticeWalk(std::size_t s) noexcept : side(s) {}
@@ -237,8 +241,8 @@ struct LatticeWalk {
     y = 0;
     ++z;
   }
-  std::size_t up(std::size_t c) const noexcept { return c + 1 == side ? 0 : c + 1; }
-  std::size_t down(std::size_t c) const noexcept { return (c == 0 ? side : c) - 1; }
+  std::size_t up(std::size_t c) const noexcept { return periodic_up(c, side); }
+  std::size_t down(std::size_t c) const noexcept { return periodic_down(c, side); }
 };
 
 template <class Model>
@@ -1076,9 +1080,9 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
         pending = 0;
       };
       for (std::size_t z = z0; z < z1; ++z) {
-        const std::size_t zu = z + 1 == side ? 0 : z + 1, zd = z == 0 ? side - 1 : z - 1;
+        const std::size_t zu = detail::periodic_up(z, side), zd = detail::periodic_down(z, side);
         for (std::size_t y = 0; y < side; ++y) {
-          const std::size_t yu = y + 1 == side ? 0 : y + 1, yd = y == 0 ? side - 1 : y - 1;
+          const std::size_t yu = detail::periodic_up(y, side), yd = detail::periodic_down(y, side);
           const std::size_t o = (y + z) & 1u;
           const std::size_t row = (z * side + y) * stride;
           const std::size_t y_down = (z * side + yd) * stride;
@@ -1319,13 +1323,13 @@ class BitSlicedAnnealer : public detail::Drive<BitSlicedAnnealer<Model, Words>> 
     const std::uint64_t* bits_own = bits + c * plane;
     for (std::size_t b = b0; b < b1; ++b) {
       detail::StreamSet<8> rng = block_streams_[w * side + b];
-      // Row r = z side + y; the neighbouring rows by wrapping, not by division (a division per
-      // neighbour and row cost about a tenth of the sweep).
+      // Row r = z side + y; the neighbouring rows by wrapping (a division per neighbour and row
+      // cost about a tenth of the sweep).
       const std::size_t z = D == 6 ? b : 0;
-      const std::size_t zu = z + 1 == side ? 0 : z + 1, zd = (z == 0 ? side : z) - 1;
+      const std::size_t zu = detail::periodic_up(z, side), zd = detail::periodic_down(z, side);
       for (std::size_t y = D == 6 ? 0 : b; y < (D == 6 ? side : b + 1); ++y) {
         const std::size_t r = z * side + y;
-        const std::size_t yu = y + 1 == side ? 0 : y + 1, yd = (y == 0 ? side : y) - 1;
+        const std::size_t yu = detail::periodic_up(y, side), yd = detail::periodic_down(y, side);
         const std::size_t o = (c + y + z) & 1u;
         const std::size_t row = r * stride;
         const std::size_t y_up = (z * side + yu) * stride;
