@@ -119,6 +119,7 @@ std::string solve_json(const LoadedModel& m, const SolveSettings& s, const RunRe
   j.member("ranks", static_cast<std::uint64_t>(job_ranks()));
   j.member("lanes", static_cast<std::uint64_t>(r.lane_width));
   j.member("bit_sliced", r.bit_sliced);
+  j.member("fill_group", r.fill_group);
   j.member("shared_draws", r.shared_draws);
   j.member("sweeps", r.tally.total_sweeps());
   j.member("seconds", r.seconds);
@@ -194,6 +195,13 @@ std::string solve_text(const LoadedModel& m, const SolveSettings& s, const RunRe
                            (job_ranks() > 1 ? " on each of " + std::to_string(job_ranks()) + " ranks" : "") +
                            ", seed " + std::to_string(s.run.seed));
     t.line("sweeps", std::to_string(r.tally.total_sweeps()) + " in total");
+    if (*r.fill_group != '\0') {
+      const std::string g = r.fill_group;
+      t.line("groups", g == "single" ? std::string("one annealing run at a time, each longer than the last")
+                                     : std::string("each restart anneals groups of ") +
+                                           (g == "bit-sliced" ? "64 (bit-sliced)" : std::to_string(r.lane_width) + " (lanes)") +
+                                           " in lockstep, each group longer than the last");
+    }
     if (r.bit_sliced) {
       t.line("bit-sliced", std::string("64 restarts to a word") +
                                (r.shared_draws ? ", one random number per word and site (restarts of a word correlated)"

@@ -111,6 +111,7 @@ struct RunResult {
   std::size_t lane_width = 0;      // restarts annealed W at a time in lockstep lanes (0: one at a time)
   const char* lane_unit = "";      // the vector unit the lanes ran on
   bool bit_sliced = false;         // restarts ran 64 to a word in bit-sliced annealing
+  const char* fill_group = "";     // time-filling anneals: each restart's groups (auto_fill_group_for), "" otherwise
   bool shared_draws = false;       // ... with one random number per word and site (restarts of a word correlated)
 };
 

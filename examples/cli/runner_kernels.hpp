@@ -452,6 +452,20 @@ Failure run_restarts_on(const LoadedModel& m, const Model& model, const RunOptio
     out.cut_short = cut_short.load();
     return {};
   }
+  if (o.fill_time && o.kernel == Kernel::anneal) {
+    // What solve_auto anneals with in each restart's share of the limit (one_restart's share).
+    const double waves = std::ceil(static_cast<double>(o.restarts) /
+                                   (static_cast<double>(o.threads) * static_cast<double>(job_ranks())));
+    const spinwright::AutoFillGroup group = spinwright::auto_fill_group_for(model, o.time_limit / (waves < 1 ? 1 : waves));
+    out.fill_group = spinwright::to_string(group);
+    if (group == spinwright::AutoFillGroup::bit_sliced) {
+      out.bit_sliced = true;
+      out.shared_draws = true;
+    } else if (group == spinwright::AutoFillGroup::lanes) {
+      out.lane_width = spinwright::default_lane_width;
+      out.lane_unit = spinwright::lane_unit_name(spinwright::best_lane_unit());
+    }
+  }
   out.tally = spread_restarts<double>(
       o.restarts, o.threads, [&](std::uint64_t r) { return one_restart(model, o, r, start, b0, b1, cut_short); });
   out.cut_short = cut_short.load();

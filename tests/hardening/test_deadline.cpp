@@ -37,13 +37,21 @@ struct CountingModel : IsingModel<std::int32_t> {
   std::uint64_t pass() const noexcept { return num_spins() + 2 * num_pairs(); }
 };
 
+// The clock reads the work at one nanosecond a unit (about what a row visit costs), so that
+// rules given in seconds (solve_auto's choice of groups of restarts, auto_fill_group_for) see
+// limits of a realistic size: these limits are tens of microseconds, where solve_auto anneals
+// one restart at a time. Limits and overruns below are in work units.
+constexpr double work_unit_seconds = 1e-9;
+
 struct WorkClock {
   std::uint64_t n = 0;
   static double read(void* self) {
     g_work += static_cast<WorkClock*>(self)->n;
-    return static_cast<double>(g_work);
+    return static_cast<double>(g_work) * work_unit_seconds;
   }
 };
+
+Budget work_limit(double limit, const Clock& clock) { return Budget{}.with_time_limit(limit * work_unit_seconds, clock); }
 
 // A ring plus one random chord per spin, couplings in -10..10 (invented data, fixed seed):
 // sparse, some spins of degree 2, so solve_auto takes its time-filling annealing path.
@@ -71,8 +79,8 @@ Overrun measure(const CountingModel& m, double limit, Call call) {
   WorkClock wc{m.num_spins()};
   const Clock clock{&WorkClock::read, &wc};
   g_work = 0;
-  const double entry = clock.read();
-  const double seconds = call(Budget{}.with_time_limit(limit, clock));
+  const double entry = clock.read() / work_unit_seconds;
+  const double seconds = call(work_limit(limit, clock)) / work_unit_seconds;
   const double end = static_cast<double>(g_work);
   Overrun o;
   o.after = end - (entry + limit) > 0 ? end - (entry + limit) : 0;
@@ -104,6 +112,7 @@ TEST_CASE("one-call functions count their workspace, polish and result against t
   SUBCASE("solve_auto, time-filling annealing and its descents") {
     REQUIRE(auto_fill_kernel(m) == KernelKind::anneal);
     for (const double l : {limit, 3 * limit, 10 * limit}) {
+      REQUIRE(auto_fill_group_for(m, l * work_unit_seconds) == AutoFillGroup::single);
       const Overrun o = measure(m, l, [&](const Budget& b) { return solve_auto(m, 3, 0, b).seconds; });
       CHECK(o.after <= pass);
       CHECK(o.seconds <= o.span);
@@ -227,7 +236,7 @@ TEST_CASE("a first sweep of unknown duration ends within one watch period of the
     WorkClock free_reads{0};
     const Clock clock{&WorkClock::read, &free_reads};
     g_work = 0;
-    call(Budget{}.with_time_limit(limit, clock).starting_at(0));
+    call(work_limit(limit, clock).starting_at(0));
     return static_cast<double>(g_work) - limit;
   };
   SUBCASE("anneal, random and sequential order") {
@@ -286,7 +295,7 @@ TEST_CASE("a watched sweep that the deadline does not cut is the unwatched sweep
       const auto untimed = anneal(m, p, 9, 1);
       g_work = 0;
       Budget timed;
-      timed.with_time_limit(1e18, clock);
+      timed = work_limit(1e18, clock);
       const auto watched = anneal(m, p, 9, 1, timed);
       CHECK(watched.energy == untimed.energy);
       CHECK(watched.spins == untimed.spins);
@@ -303,7 +312,7 @@ TEST_CASE("polish after the deadline builds no workspace and returns its input")
   const Clock clock{&WorkClock::read, &free_reads};
   g_work = 1000;
   Budget late;
-  late.with_time_limit(10, clock).starting_at(0);  // the deadline (10) lies in the past
+  late = work_limit(10, clock).starting_at(0);  // the deadline (10 units) lies in the past
   const auto s = polish(m, from, DescentRule::steepest, late);
   CHECK(g_work == 1000);  // no pass over the model: the descender's state was not built
   CHECK(s.reason == StopReason::deadline);

@@ -9,13 +9,16 @@
 #include "../config.hpp"
 #include "../control.hpp"
 #include "anneal.hpp"
+#include "bit_sliced.hpp"
 #include "descent.hpp"
 #include "exact.hpp"
+#include "lanes.hpp"
 #include "solution.hpp"
 #include "breakout.hpp"
 #include "tabu.hpp"
 #include "temper.hpp"
 
+#include <algorithm>    // std::stable_sort (a group's restarts by energy)
 #include <cstddef>      // std::size_t
 #include <cstdint>      // std::int8_t, std::uint64_t, std::uint8_t
 #include <cstring>      // std::memcpy
@@ -122,6 +125,58 @@ KernelKind auto_fill_kernel(const Model& model) noexcept {
   if (k != KernelKind::anneal) return k;
   const detail::DegreeProfile p = detail::degree_profile(model);
   return p.min >= 3 && p.max <= 6 ? KernelKind::temper : KernelKind::anneal;
+}
+
+// How the time-filling mode anneals a sparse model that is not lattice-like: groups of restarts
+// in lockstep (64 per word in the bit-sliced kernel where it takes the model, else W lanes),
+// or one restart at a time.
+enum class AutoFillGroup : std::uint8_t { single, lanes, bit_sliced };
+
+inline constexpr const char* to_string(AutoFillGroup g) noexcept {
+  switch (g) {
+    case AutoFillGroup::lanes:
+      return "lanes";
+    case AutoFillGroup::bit_sliced:
+      return "bit-sliced";
+    case AutoFillGroup::single:
+      return "single";
+  }
+  return "unknown";
+}
+
+// Groups are used when the time limit holds at least this many sweeps of one group, at a
+// pessimistic estimate of their cost (auto_fill_group_for): a group's sweep is then a small
+// fraction of the limit, so the first group (auto_fill_first_sweeps) and the one sweep a
+// deadline may find under way stay short.
+inline constexpr double auto_fill_group_sweeps_min = 1024;
+// The estimates, in seconds: a bit-sliced sweep of the 64 restarts of one word per spin; a
+// lanes sweep per restart, per spin and per stored neighbour entry (about 2-3 times the
+// costs measured on the G-set graphs, docs/quality.md).
+inline constexpr double auto_fill_bit_sliced_site_cost = 50e-9;
+inline constexpr double auto_fill_lane_site_cost = 2e-9;
+inline constexpr double auto_fill_lane_entry_cost = 0.2e-9;
+
+// The group kind the time-filling mode anneals `model` with, given `seconds` of time limit
+// (see the rule at the top of this header). Walks the model's terms once.
+template <class Model>
+AutoFillGroup auto_fill_group_for(const Model& model, double seconds) {
+  if constexpr (Model::is_dense) {
+    return AutoFillGroup::single;
+  } else {
+    const double n = static_cast<double>(model.num_spins());
+    const double entries = 2.0 * static_cast<double>(model.num_pairs());
+    if constexpr (Model::form == Form::ising) {
+      if (auto_fill_group_sweeps_min * n * auto_fill_bit_sliced_site_cost <= seconds && bit_sliced_fits(model).ok()) {
+        return AutoFillGroup::bit_sliced;
+      }
+    }
+    const double lane_sweep = static_cast<double>(default_lane_width) *
+                              (n * auto_fill_lane_site_cost + entries * auto_fill_lane_entry_cost);
+    if (auto_fill_group_sweeps_min * lane_sweep <= seconds && LaneAnnealer<Model>::fits(model)) {
+      return AutoFillGroup::lanes;
+    }
+    return AutoFillGroup::single;
+  }
 }
 
 // True when solve_auto(model, seed, restart, budget) uses the time-filling mode.
@@ -264,6 +319,188 @@ Solution<typename Model::energy_type> auto_fill_anneal(const Model& model, std::
   return out;
 }
 
+// The two group kernels of the time-filling mode behind one surface: restart k of the group
+// (0 .. count() - 1), its best energy, whether a descent from its best could move, its best spins.
+// Group `restart` of run k covers the kernel's restarts restart * count() ... of seed k.
+template <class Model>
+class AutoLaneGroup {
+ public:
+  using energy_type = typename Model::energy_type;
+  static constexpr std::size_t width = default_lane_width;
+  AutoLaneGroup(const Model& model, const AnnealParams& params, std::uint64_t seed, std::uint64_t restart)
+      : kernel_(model, params, seed, restart * width) {}
+  void reset(std::uint64_t seed, std::uint64_t restart) { kernel_.reset(seed, restart * width); }
+  LaneAnnealer<Model>& kernel() noexcept { return kernel_; }
+  static constexpr std::size_t count() noexcept { return width; }
+  std::uint64_t attempted() const noexcept { return kernel_.sweeps_done() * kernel_.size() * width; }
+  std::uint64_t accepted() const noexcept {
+    std::uint64_t a = 0;
+    for (std::size_t l = 0; l < width; ++l) a += kernel_.accepted(l);
+    return a;
+  }
+  void prepare() noexcept {}
+  energy_type energy(std::size_t l) const noexcept { return kernel_.best(l).energy; }
+  bool may_improve(std::size_t) const noexcept { return true; }
+  const std::int8_t* spins(std::size_t l) const noexcept { return kernel_.best(l).spins; }
+
+ private:
+  LaneAnnealer<Model> kernel_;
+};
+
+template <class Model>
+class AutoBitGroup {
+ public:
+  using energy_type = typename Model::energy_type;
+  AutoBitGroup(const Model& model, const AnnealParams& params, std::uint64_t seed, std::uint64_t restart)
+      : kernel_(model, bit_params(params), seed, restart), spins_(model.num_spins(), 1) {}
+  void reset(std::uint64_t seed, std::uint64_t restart) { kernel_.reset(seed, restart); }
+  BitSlicedAnnealer<Model>& kernel() noexcept { return kernel_; }
+  static constexpr std::size_t count() noexcept { return BitSlicedAnnealer<Model>::restarts_per_group; }
+  std::uint64_t attempted() const noexcept { return kernel_.attempted(); }
+  std::uint64_t accepted() const noexcept { return kernel_.accepted(); }
+  // The restarts whose best state is not a local minimum of single flips (one pass for all 64).
+  void prepare() noexcept { improvable_ = kernel_.improvable_best(0); }
+  energy_type energy(std::size_t k) const noexcept { return kernel_.best_energy(k); }
+  bool may_improve(std::size_t k) const noexcept { return ((improvable_ >> k) & 1u) != 0; }
+  const std::int8_t* spins(std::size_t k) {
+    kernel_.best_spins(k, spins_.data());
+    return spins_.data();
+  }
+
+ private:
+  static BitSlicedParams bit_params(const AnnealParams& params) {
+    BitSlicedParams b;
+    b.sweeps = params.sweeps;
+    return b;
+  }
+  BitSlicedAnnealer<Model> kernel_;
+  std::vector<std::int8_t> spins_;
+  std::uint64_t improvable_ = 0;
+};
+
+// Time-filling annealing with groups of restarts (see the rule at the top of this header): the
+// growing sequence of auto_fill_anneal, each run a group of count() restarts in lockstep, every
+// restart of a group polished by steepest descent (restarts whose best is already a local
+// minimum, where the kernel can tell, are taken as they are).
+template <class Group, class Model>
+Solution<typename Model::energy_type> auto_fill_groups(const Model& model, std::uint64_t seed, std::uint64_t restart,
+                                                       const Budget& budget, Acceptance acceptance) {
+  using energy_type = typename Model::energy_type;
+  const Budget whole = budget.stamped();
+  const Clock clock = whole.clock;
+  const double t0 = whole.start;
+  AnnealParams params;
+  params.sweeps = auto_fill_first_sweeps;
+  params.order = SiteOrder::sequential;
+  params.acceptance = acceptance;
+  Group group(model, params, seed, restart);
+  DescentParams descent_params;
+  descent_params.rule = DescentRule::steepest;
+  std::optional<Descender<Model>> descender;
+  Budget descent_budget = whole;
+  descent_budget.sweeps = 0;
+
+  const std::size_t n = model.num_spins();
+  Solution<energy_type> out;
+  out.spins.assign(n, 1);
+  out.restart = restart;
+  bool have = false;
+  std::uint64_t group_sweeps = 0;
+  std::uint64_t length = auto_fill_first_sweeps;
+  bool closing = false;
+  double closing_end = 0;
+  double polish_seconds = 0;  // the longest polish of a group so far
+  StopReason why = StopReason::deadline;
+  NoObserver none;
+  auto take = [&](energy_type e, const std::int8_t* spins) {
+    if (have && !(e < out.energy)) return;
+    std::memcpy(out.spins.data(), spins, n);
+    out.energy = e;
+    have = true;
+  };
+  for (std::uint64_t k = 0;; ++k) {
+    if (k > 0) group.reset(auto_fill_seed(seed, k), restart);
+    Budget run = whole;
+    run.sweeps = length;
+    if (closing) {
+      run.sweeps = unlimited_sweeps;
+      run.seconds = closing_end;
+    }
+    const StopReason r = group.kernel().advance(run, none);
+    const std::uint64_t done = group.kernel().sweeps_done();
+    group_sweeps += done;
+    out.sweeps += done * group.count();
+    out.attempted += group.attempted();
+    out.accepted += group.accepted();
+    const double before = clock.read();
+    group.prepare();
+    // Lowest annealed energy first: a polish the deadline cuts short has done the likeliest best.
+    energy_type energies[Group::count()];
+    std::uint8_t order[Group::count()];
+    for (std::size_t i = 0; i < group.count(); ++i) {
+      energies[i] = group.energy(i);
+      order[i] = static_cast<std::uint8_t>(i);
+    }
+    std::stable_sort(order, order + group.count(),
+                     [&energies](std::uint8_t a, std::uint8_t b) { return energies[a] < energies[b]; });
+    for (const std::uint8_t i : order) {
+      const energy_type e = energies[i];
+      if (r == StopReason::stopped || !group.may_improve(i) || whole.remaining() <= 0) {
+        if (!have || e < out.energy) take(e, group.spins(i));
+        continue;
+      }
+      if (!descender) {
+        descent_params.initial = group.spins(i);
+        descender.emplace(model, descent_params, seed, restart);
+      } else {
+        descender->warm_start(group.spins(i), seed, restart);
+      }
+      // A group the deadline cut ends near its cold end (the schedule follows the elapsed
+      // time): first improvement then, cheaper per move.
+      descender->set_rule(r == StopReason::deadline ? DescentRule::first_improvement : DescentRule::steepest);
+      descender->advance(descent_budget, none);
+      out.sweeps += descender->passes();
+      out.attempted += descender->attempted();
+      out.accepted += descender->accepted();
+      take(descender->energy(), descender->state().spins());
+    }
+    const double took = clock.read() - before;
+    if (took > polish_seconds) polish_seconds = took;
+    if (whole.has_target && static_cast<double>(out.energy) <= whole.target) {
+      why = StopReason::target_reached;
+      break;
+    }
+    if (r == StopReason::stopped || (whole.stop != nullptr && whole.stop->stop_requested())) {
+      why = StopReason::stopped;
+      break;
+    }
+    if (r == StopReason::deadline || closing) break;
+    const double elapsed = clock.read() - t0;
+    const double left = whole.seconds - elapsed;
+    if (!(left > 0)) break;
+    const double per_sweep = group_sweeps > 0 ? elapsed / static_cast<double>(group_sweeps) : 0.0;
+    const double cap = static_cast<double>(std::uint64_t{1} << 62);
+    const double fits_d = per_sweep > 0 ? auto_fill_margin * left / per_sweep : cap;
+    const std::uint64_t fits = fits_d < cap ? static_cast<std::uint64_t>(fits_d) : std::uint64_t{1} << 62;
+    if (fits < auto_fill_last_min_sweeps) break;
+    std::uint64_t next = auto_fill_growth * length;
+    if (next > fits) next = fits;
+    if (fits - next < auto_fill_growth * next) {
+      // The closing group ends cold where the longest polish so far still fits (a polish
+      // the deadline cuts has done the lowest restarts first).
+      const double reserve = polish_seconds < left / 2 ? polish_seconds : left / 2;
+      closing = true;
+      closing_end = whole.seconds - reserve;
+      next = fits;
+    }
+    length = next;
+  }
+  if constexpr (!std::is_integral_v<energy_type>) out.energy = model.energy(out.spins.data());
+  out.seconds = clock.read() - t0;
+  out.reason = why;
+  return out;
+}
+
 // Time-filling tempering (see the rule at the top of this header).
 template <class Model>
 Solution<typename Model::energy_type> auto_fill_temper(const Model& model, std::uint64_t seed, std::uint64_t restart,
@@ -322,8 +559,18 @@ Solution<typename Model::energy_type> solve_auto(const Model& model, std::uint64
       if (fill) {
         if (auto_fill_kernel(model) == KernelKind::temper)
           return detail::auto_fill_temper(model, seed, restart, budget);
+        const Acceptance acceptance = auto_fill_acceptance(model);
+        if constexpr (!Model::is_dense) {
+          const AutoFillGroup group = auto_fill_group_for(model, budget.seconds);
+          if constexpr (Model::form == Form::ising) {
+            if (group == AutoFillGroup::bit_sliced)
+              return detail::auto_fill_groups<detail::AutoBitGroup<Model>>(model, seed, restart, budget, acceptance);
+          }
+          if (group == AutoFillGroup::lanes)
+            return detail::auto_fill_groups<detail::AutoLaneGroup<Model>>(model, seed, restart, budget, acceptance);
+        }
         return detail::auto_fill_anneal(model, seed, restart, budget, auto_fill_growth, SiteOrder::sequential,
-                                        auto_fill_acceptance(model));
+                                        acceptance);
       }
       AnnealParams params;
       params.sweeps = choice.sweeps;
