@@ -5,7 +5,8 @@
 //                            (default 3); counters: cut per seed, ratios to the best known cut
 //   qubo/<instance>          bqp / be instances in max-cut form: CPU seconds until the reference
 //                            cut (Budget::with_target), capped at SPINWRIGHT_QUALITY_CAP (default 2)
-//   gen/<family>/<variant>   generated graphs (problems/graph_families.hpp, seed 1): the cut of
+//   gen/<family>/<variant>   generated graphs (problems/graph_families.hpp, graph seed
+//                            SPINWRIGHT_QUALITY_GRAPH_SEED, default 1): the cut of
 //                            each variant at equal time (no reference value: the best variant wins)
 // Variants: breakout (the defaults), fixed_jump (adaptive_jump = false), random_jump (directed =
 // false), tabu (TabuWalker defaults, no time rule), anneal_ref (benchmarks/kernels/reference_anneal.hpp,
@@ -60,6 +61,7 @@ int env_int(const char* name, int fallback) {
 
 double run_seconds() { return env_double("SPINWRIGHT_QUALITY_SECONDS", 5.0); }
 int run_seeds() { return env_int("SPINWRIGHT_QUALITY_SEEDS", 3); }
+int graph_seed() { return env_int("SPINWRIGHT_QUALITY_GRAPH_SEED", 1); }
 double qubo_cap() { return env_double("SPINWRIGHT_QUALITY_CAP", 2.0); }
 std::uint64_t fixed_sweeps() { return static_cast<std::uint64_t>(env_int("SPINWRIGHT_QUALITY_SWEEPS", 0)); }
 
@@ -272,6 +274,12 @@ const Family families[] = {
     {"planar2000_w1", 2000, 1, 0, 0, EdgeWeights::ones},
     {"torus14000_pm1", 14000, 2, 0, 100, EdgeWeights::plus_minus_one},
     {"torus20000_pm1", 20000, 2, 0, 100, EdgeWeights::plus_minus_one},
+    // More sizes of the same families (as the G-set has them): random graphs of weight 1 at 5000
+    // and 10,000 nodes, +-1 tori of 2000 and 9000 nodes.
+    {"random5000_w1", 5000, 0, 0.001, 0, EdgeWeights::ones},
+    {"random10000_w1", 10000, 0, 0.0002, 0, EdgeWeights::ones},
+    {"torus2000_pm1", 2000, 2, 0, 40, EdgeWeights::plus_minus_one},
+    {"torus9000_pm1", 9000, 2, 0, 100, EdgeWeights::plus_minus_one},
 };
 
 Model build_family(const Family& f, std::uint64_t seed) {
@@ -283,7 +291,7 @@ Model build_family(const Family& f, std::uint64_t seed) {
 }
 
 void bm_gen(benchmark::State& state, const Family* f, Variant v) {
-  const Model m = build_family(*f, 1);
+  const Model m = build_family(*f, static_cast<std::uint64_t>(graph_seed()));
   const std::int64_t w = total_weight(m);
   std::string cuts;
   for (auto _ : state) {

@@ -310,10 +310,10 @@ int run_solve(int argc, const char* const* argv) {
         !args.has("sweeps") && s.warm_path.empty()) {
       s.run.fill_time = true;
       s.run.sweeps = 0;
-      s.run.kernel = auto_fill_choice(m);
       if (!args.has("restarts")) {
         s.run.restarts = s.run.threads != 0 ? s.run.threads : std::max(1u, std::thread::hardware_concurrency());
       }
+      s.run.kernel = auto_fill_choice(m, fill_share(s.run));
     }
   }
   // A kernel named on the command line with a time limit and no sweep count fills the limit:

@@ -8,6 +8,7 @@
 #include <spinwright/kernels/auto.hpp>
 
 #include <algorithm>  // std::max, std::min
+#include <cmath>      // std::ceil
 #include <thread>     // std::thread::hardware_concurrency
 
 namespace spinwright_cli {
@@ -47,8 +48,15 @@ AutoPick auto_choice(const LoadedModel& m) {
   return pick;
 }
 
-Kernel auto_fill_choice(const LoadedModel& m) {
-  return kernel_of(visit(m, [](const auto& model) { return spinwright::auto_fill_kernel(model); }));
+Kernel auto_fill_choice(const LoadedModel& m, double seconds) {
+  return kernel_of(visit(m, [seconds](const auto& model) { return spinwright::auto_fill_kernel(model, seconds); }));
+}
+
+double fill_share(const RunOptions& o) {
+  const unsigned threads = o.threads != 0 ? o.threads : std::max(1u, std::thread::hardware_concurrency());
+  const double waves =
+      std::ceil(static_cast<double>(o.restarts) / (static_cast<double>(threads) * static_cast<double>(job_ranks())));
+  return o.time_limit / (waves < 1 ? 1 : waves);
 }
 
 std::uint64_t count_at(const spinwright::Tally<double>& tally, double energy, double scale) {

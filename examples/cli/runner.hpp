@@ -52,7 +52,7 @@ AutoPick auto_choice(const LoadedModel& m);
 
 // The kernel that fills a time limit under `auto` (spinwright::auto_fill_kernel: annealing,
 // tempering for lattice-like graphs, breakout for dense models, exact for N <= 20).
-Kernel auto_fill_choice(const LoadedModel& m);
+Kernel auto_fill_choice(const LoadedModel& m, double seconds);
 
 // Largest N the exact kernel takes from the command line.
 std::size_t exact_limit();
@@ -125,6 +125,10 @@ Failure check_restarts(const LoadedModel& m, std::uint64_t restarts, const std::
 // The exact enumeration of cmd_exact, on the model's own value type, energies as double.
 Failure enumerate_exact(const LoadedModel& m, const spinwright::ExactParams& params, unsigned threads,
                         spinwright::ExactResult<double>& out);
+
+// Each restart's share of the time limit: the restarts run `threads` at a time on each rank
+// (threads 0: one per hardware thread), so the limit is split over the waves.
+double fill_share(const RunOptions& o);
 
 // Runs `options.kernel` on the model. Fails (input error) only when the kernel refuses the
 // model (e.g. exact beyond its limit).

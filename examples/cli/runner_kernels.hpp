@@ -146,11 +146,8 @@ spinwright::Solution<double> one_restart(const Model& model, const RunOptions& o
   budget.stop = &interrupt_token();
   if (o.has_target) budget.with_target(o.target);
   if (o.time_limit < std::numeric_limits<double>::infinity()) {
-    // An equal share of the limit per restart (the restarts run `threads` at a time on each
-    // rank), and never more than what is left of the whole run.
-    const double waves = std::ceil(static_cast<double>(o.restarts) /
-                                   (static_cast<double>(o.threads) * static_cast<double>(job_ranks())));
-    const double share = o.time_limit / (waves < 1 ? 1 : waves);
+    // An equal share of the limit per restart, and never more than what is left of the whole run.
+    const double share = fill_share(o);
     const double left = o.time_limit - (spinwright::steady_seconds(nullptr) - run_start);
     budget.with_time_limit(std::max(0.0, std::min(share, left)), spinwright::steady_clock());
   } else {
@@ -453,10 +450,8 @@ Failure run_restarts_on(const LoadedModel& m, const Model& model, const RunOptio
     return {};
   }
   if (o.fill_time && o.kernel == Kernel::anneal) {
-    // What solve_auto anneals with in each restart's share of the limit (one_restart's share).
-    const double waves = std::ceil(static_cast<double>(o.restarts) /
-                                   (static_cast<double>(o.threads) * static_cast<double>(job_ranks())));
-    const spinwright::AutoFillGroup group = spinwright::auto_fill_group_for(model, o.time_limit / (waves < 1 ? 1 : waves));
+    // What solve_auto anneals with in each restart's share of the limit.
+    const spinwright::AutoFillGroup group = spinwright::auto_fill_group_for(model, fill_share(o));
     out.fill_group = spinwright::to_string(group);
     if (group == spinwright::AutoFillGroup::bit_sliced) {
       out.bit_sliced = true;

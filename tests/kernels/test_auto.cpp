@@ -8,6 +8,7 @@
 #include <set>
 #include <string>
 #include <utility>
+#include <vector>
 
 #include "support/enumerate.hpp"
 
@@ -146,6 +147,28 @@ IsingModel<std::int32_t> distinct_glass(std::uint32_t n, std::uint64_t seed, std
     }
   }
   return std::move(b.build().value());
+}
+
+// A random 3-regular simple graph (pairing model, retried until simple; invented data, fixed
+// seed) with +-1 couplings.
+IsingModel<std::int32_t> random_cubic_graph(std::uint32_t n, std::uint64_t seed) {
+  Xoshiro256 rng(seed);
+  for (;;) {
+    std::vector<std::uint32_t> stubs;
+    for (std::uint32_t i = 0; i < n; ++i)
+      for (int k = 0; k < 3; ++k) stubs.push_back(i);
+    for (std::uint32_t k = 3 * n; k > 1; --k) std::swap(stubs[k - 1], stubs[rng.below(k)]);
+    std::set<std::pair<std::uint32_t, std::uint32_t>> seen;
+    bool simple = true;
+    for (std::size_t k = 0; k + 1 < stubs.size() && simple; k += 2) {
+      const std::uint32_t a = stubs[k], b = stubs[k + 1];
+      simple = a != b && seen.insert({std::min(a, b), std::max(a, b)}).second;
+    }
+    if (!simple) continue;
+    IsingBuilder<std::int32_t> b(n);
+    for (const auto& e : seen) b.add_coupling(e.first, e.second, rng.coin() ? 1 : -1);
+    return std::move(b.build().value());
+  }
 }
 
 }  // namespace
@@ -333,7 +356,45 @@ TEST_CASE("time-filling mode on a lattice: tempering with cluster moves, by the 
   CHECK(choose_kernel(m).kernel == KernelKind::anneal);
   CHECK(auto_fill_kernel(m) == KernelKind::temper);
   CHECK(auto_fill_kernel(ring(101, 1)) == KernelKind::anneal);          // degree 2
-  CHECK(auto_fill_kernel(sparse_glass(300, 5)) == KernelKind::anneal);  // degrees spread beyond 6
+  CHECK(auto_fill_kernel(sparse_glass(300, 5)) == KernelKind::anneal);  // degrees spread beyond 4
+  // A limit too short for 100 sweeps of 16 rungs at 10 ns per replica attempt: annealing.
+  const double least = 100 * 2 * 16 * 256 * 10e-9;
+  CHECK(auto_fill_kernel(m, least * 1.01) == KernelKind::temper);
+  CHECK(auto_fill_kernel(m, least * 0.99) == KernelKind::anneal);
+  // Degree 3 everywhere but hardly any cycle of four (a random 3-regular graph), and the
+  // periodic cubic lattice (degree 6): annealing.
+  const auto cubic = [] {
+    IsingBuilder<std::int32_t> c(216);
+    for (std::uint32_t x = 0; x < 6; ++x)
+      for (std::uint32_t y = 0; y < 6; ++y)
+        for (std::uint32_t z = 0; z < 6; ++z) {
+          const std::uint32_t i = (x * 6 + y) * 6 + z;
+          c.add_coupling(i, (((x + 1) % 6) * 6 + y) * 6 + z, 1);
+          c.add_coupling(i, (x * 6 + (y + 1) % 6) * 6 + z, 1);
+          c.add_coupling(i, (x * 6 + y) * 6 + (z + 1) % 6, -1);
+        }
+    return std::move(c.build().value());
+  }();
+  CHECK(auto_fill_kernel(cubic) == KernelKind::anneal);
+  const auto regular = random_cubic_graph(300, 11);
+  for (std::uint32_t i = 0; i < 300; ++i) REQUIRE(regular.degree(i) == 3);
+  CHECK(auto_fill_kernel(regular) == KernelKind::anneal);
+  // A 12 x 12 periodic lattice with four bonds removed (spins of degree 3 and 4): still tempering.
+  {
+    IsingBuilder<std::int32_t> c(144);
+    for (std::uint32_t r = 0; r < 12; ++r)
+      for (std::uint32_t q = 0; q < 12; ++q) {
+        if (r % 5 != 0 || q != 0) c.add_coupling(r * 12 + q, r * 12 + (q + 1) % 12, q % 2 == 0 ? 1 : -1);
+        c.add_coupling(r * 12 + q, ((r + 1) % 12) * 12 + q, 1);
+      }
+    CHECK(auto_fill_kernel(c.build().value()) == KernelKind::temper);
+  }
+  // Rungs: about 200 ladder sweeps at the same cost, 16 to the automatic clamp(sqrt(N) + 4, 2, 32).
+  CHECK(auto_fill_rungs(20000, 5.0) == 32);
+  CHECK(auto_fill_rungs(20000, 1.0) == 16);  // 12.5 fit: the fewest, 16
+  CHECK(auto_fill_rungs(14000, 1.0) == 17);  // 17.9 fit
+  CHECK(auto_fill_rungs(256, 1e9) == 20);
+  CHECK(auto_fill_rungs(100, 1e9) == 14);  // the automatic count is below 16
   {
     Ticker t;
     const auto s = solve_auto(m, 2, 0, ticking(t, 1500));

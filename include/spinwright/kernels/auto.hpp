@@ -1,8 +1,9 @@
 // spinwright — the `auto` choice: a kernel and its parameters picked from the model's size and
 // density (choose_kernel: exact for N <= 20, breakout for dense models, annealing then descent
 // otherwise), and solve_auto in its fixed and time-filling modes (auto_fill_kernel: tempering
-// with cluster moves on lattice-like graphs, growing anneals elsewhere). The rule, the
-// measurements behind it and what the time limit bounds: docs/kernels.md.
+// with cluster moves on square-lattice-like graphs, growing anneals elsewhere, in groups of
+// restarts where the time allows). The rule, the measurements behind it and what the time
+// limit bounds: docs/kernels.md.
 #ifndef SPINWRIGHT_KERNELS_AUTO_HPP
 #define SPINWRIGHT_KERNELS_AUTO_HPP
 
@@ -19,6 +20,7 @@
 #include "temper.hpp"
 
 #include <algorithm>    // std::stable_sort (a group's restarts by energy)
+#include <cmath>        // std::sqrt (the automatic rung count)
 #include <cstddef>      // std::size_t
 #include <cstdint>      // std::int8_t, std::uint64_t, std::uint8_t
 #include <cstring>      // std::memcpy
@@ -62,7 +64,15 @@ inline constexpr std::uint64_t auto_fill_first_sweeps = 256;
 inline constexpr double auto_fill_margin = 0.9;
 inline constexpr std::uint64_t auto_fill_growth = 4;
 inline constexpr std::uint64_t auto_fill_last_min_sweeps = 16;  // no closing anneal shorter than this
-inline constexpr double auto_fill_hot_factor = 3.0;
+inline constexpr double auto_fill_hot_factor = 6.0;
+// Tempering of square-lattice-like models (auto_fill_kernel, auto_fill_rungs): a pessimistic
+// cost of one replica's flip attempt with cluster moves (about 8 ns measured on a 20,000-spin
+// +-1 torus, docs/quality.md), the ladder sweeps the limit must hold at the fewest rungs, the
+// sweeps the rung count aims at, and the fewest rungs.
+inline constexpr double auto_fill_temper_attempt_cost = 10e-9;
+inline constexpr double auto_fill_temper_sweeps_min = 100;
+inline constexpr double auto_fill_temper_sweeps_aim = 200;
+inline constexpr std::size_t auto_fill_temper_rungs_min = 16;
 
 // The seed of annealing run k of the time-filling mode (run 0 uses `seed` itself).
 inline constexpr std::uint64_t auto_fill_seed(std::uint64_t seed, std::uint64_t k) noexcept {
@@ -116,15 +126,83 @@ Acceptance auto_fill_acceptance(const Model& model) noexcept {
   return 4 * detail::degree_profile(model).low >= model.num_spins() ? Acceptance::heat_bath : Acceptance::metropolis;
 }
 
-// The kernel of the time-filling mode: choose_kernel's, except that a sparse model whose every
-// spin has degree 3 to 6 (lattice-like: square and cubic grids and their +-1 variants) gets
-// tempering with Houdayer cluster moves (built for 2D spin glasses) instead of annealing.
+namespace detail {
+
+// True when every spin has 3 or 4 partners and at least half the spins lie on a cycle of four
+// (two of their partners share another partner): square lattices, periodic or with a few
+// bonds missing, and their +-1 variants; not random regular graphs (few short cycles), nor
+// cubic lattices (degree 6). Walks each spin's partners' partners once: O(N) for degree <= 4.
 template <class Model>
-KernelKind auto_fill_kernel(const Model& model) noexcept {
+bool square_lattice_like(const Model& model) noexcept {
+  using index_type = typename Model::index_type;
+  using value_type = typename Model::value_type;
+  const std::size_t n = model.num_spins();
+  if (n == 0) return false;
+  auto partners = [&model](std::size_t i, std::size_t* out) noexcept {
+    std::size_t d = 0;
+    const auto ii = static_cast<index_type>(i);
+    model.for_each_neighbour(ii, [&](index_type j, value_type v) {
+      if (j == ii || v == value_type{0}) return;
+      if (d < 5) out[d] = static_cast<std::size_t>(j);
+      ++d;
+    });
+    return d;
+  };
+  std::size_t on_square = 0;
+  for (std::size_t i = 0; i < n; ++i) {
+    std::size_t a[5];
+    const std::size_t d = partners(i, a);
+    if (d < 3 || d > 4) return false;
+    bool found = false;
+    for (std::size_t x = 0; x < d && !found; ++x) {
+      std::size_t ax[5];
+      const std::size_t dx = partners(a[x], ax);
+      if (dx > 4) return false;
+      for (std::size_t y = x + 1; y < d && !found; ++y) {
+        std::size_t ay[5];
+        const std::size_t dy = partners(a[y], ay);
+        if (dy > 4) return false;
+        for (std::size_t p = 0; p < dx && !found; ++p)
+          for (std::size_t q = 0; q < dy && !found; ++q) found = ax[p] == ay[q] && ax[p] != i;
+      }
+    }
+    on_square += found ? 1 : 0;
+  }
+  return 2 * on_square >= n;
+}
+
+// The fewest ladder sweeps (at the fewest rungs) and the rung count for `seconds` (below).
+inline double auto_fill_temper_sweep_cost(std::size_t n, std::size_t rungs) noexcept {
+  return 2.0 * static_cast<double>(rungs) * static_cast<double>(n) * auto_fill_temper_attempt_cost;
+}
+
+}  // namespace detail
+
+// The kernel of the time-filling mode, for a limit of `seconds`: choose_kernel's, except that
+// a square-lattice-like sparse model (detail::square_lattice_like) gets tempering with Houdayer
+// cluster moves (built for 2D spin glasses) instead of annealing, when the limit holds
+// auto_fill_temper_sweeps_min sweeps of a ladder of auto_fill_temper_rungs_min rungs at the
+// pessimistic cost above.
+template <class Model>
+KernelKind auto_fill_kernel(const Model& model,
+                            double seconds = std::numeric_limits<double>::infinity()) noexcept {
   const KernelKind k = choose_kernel(model).kernel;
   if (k != KernelKind::anneal) return k;
-  const detail::DegreeProfile p = detail::degree_profile(model);
-  return p.min >= 3 && p.max <= 6 ? KernelKind::temper : KernelKind::anneal;
+  const double least =
+      auto_fill_temper_sweeps_min * detail::auto_fill_temper_sweep_cost(model.num_spins(), auto_fill_temper_rungs_min);
+  return seconds >= least && detail::square_lattice_like(model) ? KernelKind::temper : KernelKind::anneal;
+}
+
+// The rungs of that tempering: as many as give each about auto_fill_temper_sweeps_aim sweeps
+// in `seconds` at the cost above, at least auto_fill_temper_rungs_min, at most the automatic
+// count (clamp(sqrt(N) + 4, 2, 32), kernels/temper.hpp).
+inline std::size_t auto_fill_rungs(std::size_t n, double seconds) noexcept {
+  std::size_t automatic = static_cast<std::size_t>(std::sqrt(static_cast<double>(n))) + 4;
+  if (automatic > 32) automatic = 32;
+  const double fit = seconds / (auto_fill_temper_sweeps_aim * detail::auto_fill_temper_sweep_cost(n, 1));
+  std::size_t r = fit >= static_cast<double>(automatic) ? automatic : static_cast<std::size_t>(fit);
+  if (r < auto_fill_temper_rungs_min) r = auto_fill_temper_rungs_min;
+  return r < automatic ? r : automatic;
 }
 
 // How the time-filling mode anneals a sparse model that is not lattice-like: groups of restarts
@@ -511,6 +589,7 @@ Solution<typename Model::energy_type> auto_fill_temper(const Model& model, std::
   params.ladder.beta_min = auto_fill_hot_factor * range.beta_start;
   params.ladder.beta_max = range.beta_end;
   if (params.ladder.beta_max < params.ladder.beta_min) params.ladder.beta_max = params.ladder.beta_min;
+  params.ladder.temperatures = auto_fill_rungs(model.num_spins(), budget.seconds);
   params.houdayer = true;
   params.order = SiteOrder::sequential;
   Budget run = budget.stamped();
@@ -557,7 +636,7 @@ Solution<typename Model::energy_type> solve_auto(const Model& model, std::uint64
     }
     default: {
       if (fill) {
-        if (auto_fill_kernel(model) == KernelKind::temper)
+        if (auto_fill_kernel(model, budget.seconds) == KernelKind::temper)
           return detail::auto_fill_temper(model, seed, restart, budget);
         const Acceptance acceptance = auto_fill_acceptance(model);
         if constexpr (!Model::is_dense) {
