@@ -866,9 +866,14 @@ TEST_CASE("cli: auto with a time limit and no sweep count fills the limit (kerne
   const Json j = parse_ok(r);
   CHECK(j["time_filling"].b);
   CHECK(j["kernel_requested"].text == "auto");
-  CHECK((j["kernel"].text == "anneal" || j["kernel"].text == "temper"));
+  CHECK(j["kernel"].text == "anneal");  // a random graph: not square-lattice-like
   CHECK(j["restarts"].num == 2);   // one restart per thread by default
   CHECK(j["cut_short"].num == 0);  // ending at the deadline is this mode's normal end
+  // Couplings of several magnitudes, 0.4 s: each restart anneals groups of 32 lanes
+  // (auto_fill_group_for; the bit-sliced kernel takes +-J only).
+  CHECK(j["fill_group"].text == "lanes");
+  CHECK(j["lanes"].num == 32);
+  CHECK_FALSE(j["bit_sliced"].b);
   const std::vector<int> s = spins_of(j);
   REQUIRE(s.size() == 300);
   CHECK(static_cast<std::int64_t>(j["energy"].num) == g.energy(s));
@@ -879,7 +884,12 @@ TEST_CASE("cli: auto with a time limit and no sweep count fills the limit (kerne
   CHECK(fixed.code == 0);
   const Json k = parse_ok(fixed);
   CHECK_FALSE(k["time_filling"].b);
+  CHECK(k["fill_group"].text.empty());
   CHECK(k["restarts"].num == 3);
+  // The text report says how each restart ran.
+  const RunOutput text = run(dir, {"solve", path, "--time-limit", "0.2", "--threads", "1"});
+  CHECK(text.code == 0);
+  CHECK(text.out.find("groups          each restart anneals groups of 32 (lanes)") != std::string::npos);
 }
 
 namespace {
