@@ -50,8 +50,9 @@ struct AutoPick {
 };
 AutoPick auto_choice(const LoadedModel& m);
 
-// The kernel that fills a time limit under `auto` (spinwright::auto_fill_kernel: annealing,
-// tempering for lattice-like graphs, breakout for dense models, exact for N <= 20).
+// The kernel that fills a time limit of `seconds` per restart under `auto`
+// (spinwright::auto_fill_kernel: annealing, tempering for square-lattice-like graphs when the
+// time holds its ladder, breakout for dense models, exact for N <= 20).
 Kernel auto_fill_choice(const LoadedModel& m, double seconds);
 
 // Largest N the exact kernel takes from the command line.

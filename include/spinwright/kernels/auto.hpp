@@ -205,9 +205,9 @@ inline std::size_t auto_fill_rungs(std::size_t n, double seconds) noexcept {
   return r < automatic ? r : automatic;
 }
 
-// How the time-filling mode anneals a sparse model that is not lattice-like: groups of restarts
-// in lockstep (64 per word in the bit-sliced kernel where it takes the model, else W lanes),
-// or one restart at a time.
+// How the time-filling mode anneals a sparse model it does not temper: groups of restarts in
+// lockstep (64 per word in the bit-sliced kernel where it takes the model, else W lanes), or
+// one restart at a time.
 enum class AutoFillGroup : std::uint8_t { single, lanes, bit_sliced };
 
 inline constexpr const char* to_string(AutoFillGroup g) noexcept {
@@ -235,7 +235,7 @@ inline constexpr double auto_fill_lane_site_cost = 2e-9;
 inline constexpr double auto_fill_lane_entry_cost = 0.2e-9;
 
 // The group kind the time-filling mode anneals `model` with, given `seconds` of time limit
-// (see the rule at the top of this header). Walks the model's terms once.
+// (the rule: docs/kernels.md, "The automatic choice"). Walks the model's terms once.
 template <class Model>
 AutoFillGroup auto_fill_group_for(const Model& model, double seconds) {
   if constexpr (Model::is_dense) {
@@ -456,7 +456,7 @@ class AutoBitGroup {
   std::uint64_t improvable_ = 0;
 };
 
-// Time-filling annealing with groups of restarts (see the rule at the top of this header): the
+// Time-filling annealing with groups of restarts (docs/kernels.md, "The automatic choice"): the
 // growing sequence of auto_fill_anneal, each run a group of count() restarts in lockstep, every
 // restart of a group polished by steepest descent (restarts whose best is already a local
 // minimum, where the kernel can tell, are taken as they are).
