@@ -228,8 +228,8 @@ inline constexpr const char* to_string(AutoFillGroup g) noexcept {
 // deadline may find under way stay short.
 inline constexpr double auto_fill_group_sweeps_min = 1024;
 // The estimates, in seconds: a bit-sliced sweep of the 64 restarts of one word per spin; a
-// lanes sweep per restart, per spin and per stored neighbour entry (about 2-3 times the
-// costs measured on the G-set graphs, docs/quality.md).
+// lanes sweep per restart, per spin and per stored neighbour entry (1.5 to 7 times the costs
+// measured on the G-set graphs, docs/kernels.md).
 inline constexpr double auto_fill_bit_sliced_site_cost = 50e-9;
 inline constexpr double auto_fill_lane_site_cost = 2e-9;
 inline constexpr double auto_fill_lane_entry_cost = 0.2e-9;
