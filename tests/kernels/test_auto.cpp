@@ -3,6 +3,7 @@
 #include <spinwright/kernels/auto.hpp>
 #include <spinwright/spinwright.hpp>
 
+#include <algorithm>
 #include <cstdint>
 #include <fstream>
 #include <set>
