@@ -268,6 +268,34 @@ inline bool auto_fills_time(const Budget& budget) noexcept {
 
 namespace detail {
 
+// The next run of the growing sequence of the time-filling anneals, after runs of `sweeps` in
+// all took `elapsed` of the `limit` (seconds from the start): `growth` times the last `length`,
+// capped by what fits in auto_fill_margin of the time left at that rate. When the run after it
+// could not grow again it is the closing run (`closing` set): rather than a sweep count that
+// ends at the margin (and leaves it unused), it runs on the clock up to `closing_end`, the
+// limit less `room` for its polish (at most half the time left). False when no run of
+// auto_fill_last_min_sweeps fits.
+inline bool auto_fill_next_run(double limit, double elapsed, std::uint64_t sweeps, std::uint64_t growth, double room,
+                               std::uint64_t& length, bool& closing, double& closing_end) noexcept {
+  const double left = limit - elapsed;
+  if (!(left > 0)) return false;
+  const double per_sweep = sweeps > 0 ? elapsed / static_cast<double>(sweeps) : 0.0;
+  const double cap = static_cast<double>(std::uint64_t{1} << 62);
+  const double fits_d = per_sweep > 0 ? auto_fill_margin * left / per_sweep : cap;
+  const std::uint64_t fits = fits_d < cap ? static_cast<std::uint64_t>(fits_d) : std::uint64_t{1} << 62;
+  if (fits < auto_fill_last_min_sweeps) return false;
+  std::uint64_t next = growth * length;
+  if (next > fits) next = fits;
+  if (fits - next < growth * next) {
+    const double reserve = room < left / 2 ? room : left / 2;
+    closing = true;
+    closing_end = limit - reserve;
+    next = fits;
+  }
+  length = next;
+  return true;
+}
+
 // Time-filling annealing (see the rule at the top of this header). `budget` has its start
 // stamped (solve_auto's entry): everything below counts against its limit.
 template <class Model>
@@ -369,26 +397,10 @@ Solution<typename Model::energy_type> auto_fill_anneal(const Model& model, std::
       break;
     }
     if (r == StopReason::deadline || closing) break;
-    // The next length: `growth` times the last, capped by what fits in the margin of the time left.
-    const double elapsed = clock.read() - t0;
-    const double left = whole.seconds - elapsed;
-    if (!(left > 0)) break;
-    const double per_sweep = anneal_sweeps > 0 ? elapsed / static_cast<double>(anneal_sweeps) : 0.0;
-    const double cap = static_cast<double>(std::uint64_t{1} << 62);
-    const double fits_d = per_sweep > 0 ? auto_fill_margin * left / per_sweep : cap;
-    const std::uint64_t fits = fits_d < cap ? static_cast<std::uint64_t>(fits_d) : std::uint64_t{1} << 62;
-    if (fits < auto_fill_last_min_sweeps) break;
-    std::uint64_t next = growth * length;
-    if (next > fits) next = fits;
-    if (fits - next < growth * next) {
-      // The last anneal: rather than a sweep count that ends at the margin (and leaves it
-      // unused), it runs on the clock up to the limit less room for twice the longest descent.
-      const double reserve = 2 * polish_seconds < left / 2 ? 2 * polish_seconds : left / 2;
-      closing = true;
-      closing_end = whole.seconds - reserve;
-      next = fits;
-    }
-    length = next;
+    // The closing anneal leaves room for twice the longest descent.
+    if (!auto_fill_next_run(whole.seconds, clock.read() - t0, anneal_sweeps, growth, 2 * polish_seconds, length,
+                            closing, closing_end))
+      break;
   }
   // Integer models track energies exactly; floating ones recompute from the model (no drift).
   if constexpr (!std::is_integral_v<energy_type>) out.energy = model.energy(out.spins.data());
@@ -553,25 +565,11 @@ Solution<typename Model::energy_type> auto_fill_groups(const Model& model, std::
       break;
     }
     if (r == StopReason::deadline || closing) break;
-    const double elapsed = clock.read() - t0;
-    const double left = whole.seconds - elapsed;
-    if (!(left > 0)) break;
-    const double per_sweep = group_sweeps > 0 ? elapsed / static_cast<double>(group_sweeps) : 0.0;
-    const double cap = static_cast<double>(std::uint64_t{1} << 62);
-    const double fits_d = per_sweep > 0 ? auto_fill_margin * left / per_sweep : cap;
-    const std::uint64_t fits = fits_d < cap ? static_cast<std::uint64_t>(fits_d) : std::uint64_t{1} << 62;
-    if (fits < auto_fill_last_min_sweeps) break;
-    std::uint64_t next = auto_fill_growth * length;
-    if (next > fits) next = fits;
-    if (fits - next < auto_fill_growth * next) {
-      // The closing group ends cold where the longest polish so far still fits (a polish
-      // the deadline cuts has done the lowest restarts first).
-      const double reserve = polish_seconds < left / 2 ? polish_seconds : left / 2;
-      closing = true;
-      closing_end = whole.seconds - reserve;
-      next = fits;
-    }
-    length = next;
+    // The closing group ends cold where the longest polish so far still fits (a polish the
+    // deadline cuts has done the lowest restarts first).
+    if (!auto_fill_next_run(whole.seconds, clock.read() - t0, group_sweeps, auto_fill_growth, polish_seconds, length,
+                            closing, closing_end))
+      break;
   }
   if constexpr (!std::is_integral_v<energy_type>) out.energy = model.energy(out.spins.data());
   out.seconds = clock.read() - t0;
