@@ -162,6 +162,9 @@ TEST_CASE("edge list: NaN, infinity and values beyond the value type") {
   expect_error<std::int32_t>("3 1\n1 2 -2147483649\n", StatusCode::value_out_of_range, 2);
   expect_error<std::int64_t>("3 1\n1 2 9223372036854775808\n", StatusCode::value_out_of_range, 2);
   expect_error<std::int64_t>("3 1\n1 2 1.5\n", StatusCode::parse_error, 2);
+  // Self-loops fold into the offset; a sum beyond int64 is reported at the loop that overflows.
+  expect_error<std::int64_t>("3 3\n1 2 1\n1 1 5000000000000000000\n2 2 5000000000000000000\n",
+                             StatusCode::energy_overflow, 4);
   // Merged duplicates that leave the value type: reported at the last line of that pair.
   expect_error<std::int32_t>("3 3\n1 2 2000000000\n2 3 1\n2 1 2000000000\n", StatusCode::value_out_of_range, 4);
 

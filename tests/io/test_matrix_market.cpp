@@ -227,6 +227,12 @@ TEST_CASE("Matrix Market: bad entries") {
   expect_error<QuboModel<std::int32_t>>(real + "3 3 1\n1 2 2147483648\n", StatusCode::value_out_of_range, 3);
   expect_error<QuboModel<std::int64_t>>(real + "3 3 1\n1 2 0.5\n", StatusCode::parse_error, 3);
   expect_error<QuboModel<double>>(real + "% spinwright offset inf\n3 3 0\n", StatusCode::non_finite_value, 2);
+  // Non-finite values are refused on their own line, after symmetric entries too.
+  const std::string sym = "%%MatrixMarket matrix coordinate real symmetric\n";
+  expect_error<QuboModel<double>>(sym + "3 3 4\n2 1 1\n3 1 1\n3 2 NaN\n1 1 5\n", StatusCode::non_finite_value, 5);
+  expect_error<QuboModel<double>>(sym + "3 3 3\n1 1 2\n3 1 1\n2 2 -inf\n", StatusCode::non_finite_value, 5);
+  expect_error<QuboModel<double>>(sym + "% spinwright offset inf\n3 3 2\n2 1 1\n3 1 1\n", StatusCode::non_finite_value,
+                                  2);
   // Symmetric doubling that leaves int32: reported at the entry's line.
   expect_error<QuboModel<std::int32_t>>(
       "%%MatrixMarket matrix coordinate integer symmetric\n3 3 2\n1 1 1\n2 1 1500000000\n",
@@ -246,4 +252,36 @@ TEST_CASE("Matrix Market files: missing and unreadable") {
   auto b = io::read_matrix_market<QuboModel<double>>(path);
   REQUIRE_FALSE(b.ok());
   check_error(b.status(), StatusCode::index_out_of_range, path, 3);
+}
+
+TEST_CASE("Matrix Market: a refusal of the builder is traced to its entry's line") {
+  // build_terms gives the builder one term per entry, two for a symmetric entry off the
+  // diagonal, and the offset last; term_line walks the list the same way. (Files cannot reach
+  // the builder's term refusals today: the scanner refuses those values first.)
+  io::detail::TermList list;
+  list.diagonal_is_linear = true;
+  const std::uint64_t lines[] = {3, 4, 7, 9};
+  const bool mirrored[] = {false, true, false, true};
+  const std::uint64_t ij[][2] = {{0, 0}, {2, 0}, {1, 1}, {2, 1}};
+  for (int k = 0; k < 4; ++k) {
+    io::detail::RawTerm t;
+    t.i = ij[k][0];
+    t.j = ij[k][1];
+    t.line = lines[k];
+    t.set_mirrored(mirrored[k]);
+    list.terms.push_back(t);
+  }
+  list.has_offset = true;
+  list.offset_line = 2;
+  // Terms: 0 (line 3), 1 and 2 (line 4), 3 (line 7), 4 and 5 (line 9), 6 (the offset, line 2).
+  const std::uint64_t expected[] = {3, 4, 4, 7, 9, 9, 2};
+  for (std::uint64_t term = 0; term < 7; ++term) {
+    std::uint64_t line = 0;
+    CHECK(io::detail::term_line(list, term, line));
+    CHECK(line == expected[term]);
+  }
+  std::uint64_t line = 0;
+  CHECK_FALSE(io::detail::term_line(list, 7, line));
+  list.has_offset = false;
+  CHECK_FALSE(io::detail::term_line(list, 6, line));
 }

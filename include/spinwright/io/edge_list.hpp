@@ -138,16 +138,18 @@ inline IoResult<TermList> scan_edge_list(std::string_view text, std::string_view
     }
     // Unweighted lists: every edge has weight 1 (the literal below, so messages can quote it).
     const std::string_view weight = count == 3 ? tok[2] : std::string_view("1");
-    if (!read_short_integer(weight, t.value)) {
-      const std::string why = parse_number(weight, t.value, code);
+    Number value;
+    if (!read_short_integer(weight, value)) {
+      const std::string why = parse_number(weight, value, code);
       if (!why.empty()) return IoStatus::error(code, name, line.number, "weight: " + why);
     }
     t.i = ends[0] - 1;
     t.j = ends[1] - 1;
-    t.token = weight;
+    t.set_value(value);
+    t.set_token(weight);
     t.line = line.number;
     // Automatic value type: int64_t only when every weight is an integer literal that fits.
-    list.all_integer = list.all_integer && t.value.integer && !t.value.int_overflow;
+    list.all_integer = list.all_integer && value.integer && !value.int_overflow;
     list.terms.push_back(t);
   }
   if (!have_header) {

@@ -174,19 +174,21 @@ inline IoStatus scan_mm_entry(const std::string_view* tok, std::size_t count, st
     }
   }
   RawTerm t;
-  if (!read_short_integer(tok[2], t.value)) {
-    const std::string why = parse_number(tok[2], t.value, code);
+  Number value;
+  if (!read_short_integer(tok[2], value)) {
+    const std::string why = parse_number(tok[2], value, code);
     if (!why.empty()) return IoStatus::error(code, name, line, "value: " + why);
   }
-  if (banner.integer_field && !t.value.integer) {
+  if (banner.integer_field && !value.integer) {
     return IoStatus::error(StatusCode::parse_error, name, line,
                            "real value " + quote(tok[2]) + " in an 'integer' file");
   }
   t.i = ends[0] - 1;
   t.j = ends[1] - 1;
-  t.token = tok[2];
+  t.set_value(value);
+  t.set_token(tok[2]);
   t.line = line;
-  t.mirrored = banner.symmetric && t.i != t.j;
+  t.set_mirrored(banner.symmetric && t.i != t.j);
   list.terms.push_back(t);
   return IoStatus{};
 }

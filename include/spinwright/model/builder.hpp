@@ -228,10 +228,11 @@ class TermBuilder {
       linear[i] = static_cast<Value>(lin[i]);
     }
 
-    // Pairs: sort by (i, j), merge duplicates in the wide type, drop exact zeros.
-    const std::vector<Triple> sorted = sorted_pairs(n);
-    std::vector<Triple> merged;
-    merged.reserve(sorted.size());
+    // Pairs: sort by (i, j), merge duplicates in the wide type, drop exact zeros. In place: the
+    // merged pair of group [k, e) goes to position kept <= k, already read.
+    std::vector<Triple> merged = sorted_pairs(n);
+    const std::vector<Triple>& sorted = merged;
+    std::size_t kept = 0;
     for (std::size_t k = 0; k < sorted.size();) {
       std::size_t e = k;
       energy_type sum{0};
@@ -250,9 +251,10 @@ class TermBuilder {
                              "(int64_t, double) or smaller terms")
             .at_term(no_term, sorted[k].i, sorted[k].j);
       }
-      if (static_cast<Value>(sum) != Value{0}) merged.push_back({sorted[k].i, sorted[k].j, static_cast<Value>(sum)});
+      if (static_cast<Value>(sum) != Value{0}) merged[kept++] = {sorted[k].i, sorted[k].j, static_cast<Value>(sum)};
       k = e;
     }
+    merged.resize(kept);
 
     // Energy range: |c| + sum |linear| + sum |pair|.
     EnergyRange<Value> range;
